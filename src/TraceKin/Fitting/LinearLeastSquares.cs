@@ -1,0 +1,121 @@
+using MathNet.Numerics.LinearAlgebra;
+
+namespace TraceKin.Fitting;
+
+/// <summary>
+/// Ordinary and weighted linear least squares y ≈ X·β by Householder QR of √W·X (never the normal equations),
+/// so that ill-conditioned designs such as NIST StRD Pontius keep their digits.
+/// Standard errors: sqrt(s²·diag((XᵀWX)⁻¹)) with s² = Σw·r²/(n−p) (Draper &amp; Smith, Applied Regression
+/// Analysis, 3rd ed., §5.2). R² is centred when the design has an intercept column, uncentred otherwise
+/// (as NIST StRD certifies for NoInt1/NoInt2).
+/// </summary>
+public static class LinearLeastSquares
+{
+    /// <summary>Fit y = X·β. <paramref name="design"/> is n×p, row-major.</summary>
+    public static FitResult Fit(string model, IReadOnlyList<string> names, double[,] design, ReadOnlySpan<double> y, ReadOnlySpan<double> weights = default)
+    {
+        int n = design.GetLength(0), p = design.GetLength(1);
+        if (names.Count != p) throw new ArgumentException("one name per design column is needed", nameof(names));
+        if (y.Length != n) throw new ArgumentException("y must have one value per design row", nameof(y));
+        var w = weights.IsEmpty ? null : weights.ToArray();
+        if (n < p || (n == p && p > 0))
+            return Failed(model, names, n, p, FitExit.TooFewPoints, $"{n} points for {p} parameters leave no degrees of freedom");
+
+        var a = Matrix<double>.Build.Dense(n, p);
+        var b = Vector<double>.Build.Dense(n);
+        for (var i = 0; i < n; i++)
+        {
+            var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
+            if (!double.IsFinite(sw) || !double.IsFinite(y[i]))
+                return Failed(model, names, n, p, FitExit.InvalidValues, $"point {i + 1} has a non-finite value or weight");
+            for (var j = 0; j < p; j++) a[i, j] = sw * design[i, j];
+            b[i] = sw * y[i];
+        }
+
+        // Columns are scaled to unit length before the factorisation, so the rank test compares like with like
+        // and badly scaled designs (x up to 1e6, x² up to 1e12) lose no digits to the scale alone.
+        var colNorm = new double[p];
+        for (var j = 0; j < p; j++)
+        {
+            colNorm[j] = a.Column(j).L2Norm();
+            if (colNorm[j] == 0)
+                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' has an all-zero column");
+            a.SetColumn(j, a.Column(j) / colNorm[j]);
+        }
+        var qr = a.QR(MathNet.Numerics.LinearAlgebra.Factorization.QRMethod.Thin);
+        var r = qr.R;
+        for (var j = 0; j < p; j++)
+            if (Math.Abs(r[j, j]) <= 1e-11)
+                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' is not separable from the others");
+
+        var gamma = qr.Solve(b);
+        var fitted = a * gamma;
+        var beta = Vector<double>.Build.Dense(p, j => gamma[j] / colNorm[j]);
+        var resid = new double[n];
+        double chi2 = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
+            var rw = b[i] - fitted[i];
+            resid[i] = rw / sw;
+            chi2 += rw * rw;
+        }
+        var dof = n - p;
+        var s2 = chi2 / dof;
+        var rInv = r.Inverse();
+        var covScaled = (rInv * rInv.Transpose()) * s2;
+        var cov = Matrix<double>.Build.Dense(p, p, (j, k) => covScaled[j, k] / (colNorm[j] * colNorm[k]));
+
+        var hasIntercept = Enumerable.Range(0, p).Any(j => Enumerable.Range(0, n).All(i => design[i, j] == 1.0));
+        double ybar = 0, wsum = 0;
+        for (var i = 0; i < n; i++) { var wi = w?[i] ?? 1; ybar += wi * y[i]; wsum += wi; }
+        ybar /= wsum;
+        double tss = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var wi = w?[i] ?? 1;
+            var d = hasIntercept ? y[i] - ybar : y[i];
+            tss += wi * d * d;
+        }
+
+        var pars = new FitParameter[p];
+        var covArr = new double[p, p];
+        for (var j = 0; j < p; j++)
+        {
+            pars[j] = new FitParameter(names[j], beta[j], Math.Sqrt(cov[j, j]), double.NaN);
+            for (var k = 0; k < p; k++) covArr[j, k] = cov[j, k];
+        }
+        return new FitResult
+        {
+            Model = model, Parameters = pars, Covariance = covArr, Residuals = resid, PointCount = n, VariedCount = p,
+            ChiSquare = chi2, RSquared = 1 - chi2 / tss, Iterations = 1, Exit = FitExit.Converged,
+        };
+    }
+
+    /// <summary>Straight line y = intercept + slope·x.</summary>
+    public static FitResult Line(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> weights = default)
+    {
+        var d = new double[x.Length, 2];
+        for (var i = 0; i < x.Length; i++) { d[i, 0] = 1; d[i, 1] = x[i]; }
+        return Fit("straight line", ["intercept", "slope"], d, y, weights);
+    }
+
+    /// <summary>Polynomial y = Σ c_k·(x − x0)^k, k = 0..degree; parameter names c0, c1, …</summary>
+    public static FitResult Polynomial(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int degree, double x0 = 0, ReadOnlySpan<double> weights = default)
+    {
+        var d = new double[x.Length, degree + 1];
+        for (var i = 0; i < x.Length; i++)
+        {
+            var v = 1.0;
+            for (var k = 0; k <= degree; k++) { d[i, k] = v; v *= x[i] - x0; }
+        }
+        return Fit($"polynomial of degree {degree}", Enumerable.Range(0, degree + 1).Select(k => $"c{k}").ToArray(), d, y, weights);
+    }
+
+    private static FitResult Failed(string model, IReadOnlyList<string> names, int n, int p, FitExit exit, string detail) => new()
+    {
+        Model = model,
+        Parameters = names.Select(nm => new FitParameter(nm, double.NaN, double.NaN, double.NaN)).ToArray(),
+        Residuals = [], PointCount = n, VariedCount = p, ChiSquare = double.NaN, RSquared = double.NaN, Exit = exit, ExitDetail = detail,
+    };
+}

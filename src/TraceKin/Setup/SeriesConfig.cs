@@ -1,0 +1,62 @@
+using Tomlyn;
+using Tomlyn.Model;
+using TraceKin.Ingest;
+using TraceKin.Rates;
+using TraceKin.Series;
+using TraceKin.Signal;
+using TraceKin.Traces;
+
+namespace TraceKin.Setup;
+
+/// <summary>
+/// series.toml: series-wide settings. Top-level keys `name` and `description`; tables [ingest], [signal], [rates], [model],
+/// each read by its own stage. Unknown keys are errors (a misspelt key must not silently fall back to a default).
+/// </summary>
+public sealed record SeriesConfig(
+    string File,
+    string Name,
+    string Description,
+    IngestSettings Ingest,
+    SignalSettings Signal,
+    RateSettings Rates,
+    ModelSettings Model)
+{
+    public static SeriesConfig FromFile(string path) =>
+        FromText(System.IO.File.ReadAllText(path), System.IO.Path.GetFileName(path));
+
+    public static SeriesConfig FromText(string text, string file)
+    {
+        TomlTable table;
+        try
+        {
+            table = TomlSerializer.Deserialize<TomlTable>(text) ?? new TomlTable();
+        }
+        catch (Exception ex) when (ex is not InputException)
+        {
+            var (line, col) = LocationOf(ex.Message);
+            throw Fail.At(file, line, col, "text that is not valid TOML (" + FirstLine(ex.Message) + ")", "TOML key = value lines and [tables]", "see docs/formats.md");
+        }
+        var root = new TomlSection(file, "", table);
+        var name = root.String("name", "");
+        var description = root.String("description", "");
+        var sections = new List<TomlSection>();
+        TomlSection Sec(string key) { var s = root.Section(key); sections.Add(s); return s; }
+        var config = new SeriesConfig(file, name, description,
+            IngestSettings.FromToml(Sec("ingest")),
+            SignalSettings.FromToml(Sec("signal")),
+            RateSettings.FromToml(Sec("rates")),
+            ModelSettings.FromToml(Sec("model")));
+        foreach (var s in sections.Prepend(root))
+            foreach (var k in s.UnreadKeys)
+                throw Fail.Setting(file, s.KeyName(k), "a key TraceKin does not know", "one of the keys listed in docs/formats.md", "check the spelling");
+        return config;
+    }
+
+    private static (int Line, int Col) LocationOf(string message)
+    {
+        var m = System.Text.RegularExpressions.Regex.Match(message, @"\((\d+),\s*(\d+)\)");
+        return m.Success ? (int.Parse(m.Groups[1].Value), int.Parse(m.Groups[2].Value)) : (0, 0);
+    }
+
+    private static string FirstLine(string s) => s.Split('\n')[0].Trim();
+}

@@ -1,0 +1,32 @@
+namespace TraceKin.Traces;
+
+/// <summary>
+/// One instrument export, read into the common trace model.
+/// <see cref="Channels"/> are the signal traces (absorbance at a wavelength, gas volume, pressure, conductivity);
+/// <see cref="Auxiliary"/> are non-signal columns kept alongside (temperature, pH).
+/// <see cref="Metadata"/> holds the preamble's key/value lines as written (keys trimmed, case kept).
+/// <see cref="Detected"/> lists each format decision in order (e.g. "delimiter" → "semicolon"), for `inspect` and the report.
+/// </summary>
+public sealed record RunExport(
+    string File,
+    IReadOnlyList<Trace> Channels,
+    IReadOnlyList<Trace> Auxiliary,
+    IReadOnlyDictionary<string, string> Metadata,
+    IReadOnlyList<KeyValuePair<string, string>> Detected,
+    IReadOnlyList<Warning> Warnings)
+{
+    /// <summary>The channel of that name (case-insensitive), or the only channel when name is null.</summary>
+    public Trace Channel(string? name)
+    {
+        if (name is null)
+        {
+            if (Channels.Count == 1) return Channels[0];
+            throw Fail.Setting(File, "signal.channel", $"{Channels.Count} signal columns ({string.Join(", ", Channels.Select(c => c.Name))})",
+                "one channel named in series.toml", "set signal.channel to one of the column names");
+        }
+        foreach (var c in Channels)
+            if (string.Equals(c.Name, name, StringComparison.OrdinalIgnoreCase)) return c;
+        throw Fail.Setting(File, "signal.channel", Fail.Quote(name), $"one of: {string.Join(", ", Channels.Select(c => c.Name))}",
+            "check the column header in the export");
+    }
+}
