@@ -44,10 +44,12 @@ public static class AnalyseCommand
     /// <summary>Analyse and write every output; shared by `analyse` and `watch`.</summary>
     public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log)
     {
+        using var runPlot = plots ? new RunPlot(outDir) : null;
         var options = new AnalysisOptions
         {
             Workers = workers,
-            RunSink = plots ? new RunPlot(outDir) : null,
+            RunSink = runPlot,
+            Retention = TraceRetention.Display,
             Progress = (run, status) => log.Information("  {Run}: {Status}", run, status),
         };
         var result = SeriesRunner.Analyse(seriesDir, options);

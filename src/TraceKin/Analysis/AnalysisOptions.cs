@@ -10,7 +10,12 @@ public interface IRunSink
 public sealed record AnalysisOptions
 {
     public int Workers { get; init; } = Environment.ProcessorCount;
+    /// <summary>Sees each run with all its points, on a worker thread, before the run is thinned (see <see cref="Retention"/>).</summary>
     public IRunSink? RunSink { get; init; }
-    /// <summary>Called after each run (analysed or rejected) with the run id and a one-line status.</summary>
+    /// <summary>Called after each run (analysed or rejected) with the run id and a one-line status, from worker threads.</summary>
     public Action<string, string>? Progress { get; init; }
+    /// <summary>What the result keeps of each run's traces; <see cref="TraceRetention.Display"/> bounds memory for big batches.</summary>
+    public TraceRetention Retention { get; init; } = TraceRetention.Full;
+    /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>
+    public int RetainedColumns { get; init; } = 300;
 }

@@ -17,6 +17,12 @@ public sealed record RunResult(
 {
     public string Id => Plan.Run;
     public string File => Plan.File;
+
+    /// <summary>
+    /// True when the per-point arrays are a display copy (<see cref="TraceRetention.Display"/>): fine for drawing,
+    /// not for computing. Every reported number was computed before thinning.
+    /// </summary>
+    public bool TracesThinned { get; init; }
 }
 
 /// <summary>

@@ -40,13 +40,16 @@ public static class SeriesRunner
         Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            slots[i] = AnalyseRun(folder, row, config);
-            if (slots[i].Run is { } run)
+            var (run, problem) = AnalyseRun(folder, row, config);
+            if (run is not null)
             {
-                options.RunSink?.Accept(run);
+                if (options.RunSink is { } sink) run = Deliver(sink, run);
                 options.Progress?.Invoke(row.Run, $"{row.File}: v0 = {run.Rates.Headline.Value:G4} ± {run.Rates.Headline.StdError:G2} {run.Rates.Headline.Unit}");
+                // Only what the summary, the report and the series need stays alive once the sink has seen every point.
+                if (options.Retention == TraceRetention.Display) run = RunThinning.Thin(run, options.RetainedColumns);
             }
-            else options.Progress?.Invoke(row.Run, $"rejected: {slots[i].Problem!.Message}");
+            else options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
+            slots[i] = (run, problem);
         });
 
         var runs = slots.Where(s => s.Run is not null).Select(s => s.Run!).ToList();
@@ -90,6 +93,21 @@ public static class SeriesRunner
             // A defect of ours must not stop the batch: report it against the file, plainly.
             return (null, new Problem(row.File, 0, 0, $"an internal error ({ex.GetType().Name}: {ex.Message})", "a readable export",
                 "please report this with the file attached"));
+        }
+    }
+
+    /// <summary>Hands a run to the sink; a sink that fails (a plot that cannot be written) becomes a warning on that run.</summary>
+    private static RunResult Deliver(IRunSink sink, RunResult run)
+    {
+        try
+        {
+            sink.Accept(run);
+            return run;
+        }
+        catch (Exception ex) when (ex is not OperationCanceledException)
+        {
+            var w = new Warning("run-output-failed", run.File, $"an output for this run could not be written ({ex.GetType().Name}: {ex.Message})");
+            return run with { Warnings = [.. run.Warnings, w] };
         }
     }
 

@@ -9,18 +9,28 @@ public static class Decimation
 {
     public static (double[] X, double[] Y) Envelope(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns)
     {
+        var keep = EnvelopeIndices(x, y, columns);
+        if (keep is null) return (x.ToArray(), y.ToArray());
+        return (Pick(x, keep), Pick(y, keep));
+    }
+
+    /// <summary>
+    /// The indices (ascending) that <see cref="Envelope"/> keeps, or null when every point is kept, so that other
+    /// arrays aligned with the same samples (fitted values, residuals) can be thinned at the same points.
+    /// </summary>
+    public static int[]? EnvelopeIndices(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns)
+    {
         var n = x.Length;
-        if (n <= columns * 4) return (x.ToArray(), y.ToArray());
+        if (columns < 1 || n <= columns * 4) return null;
         double x0 = x[0], span = x[n - 1] - x[0];
-        if (!(span > 0)) return (x.ToArray(), y.ToArray());
-        var xs = new List<double>(columns * 4);
-        var ys = new List<double>(columns * 4);
+        if (!(span > 0)) return null;
+        var keep = new List<int>(columns * 4);
         var i = 0;
         while (i < n)
         {
-            var col = (int)Math.Min(columns - 1, (x[i] - x0) / span * columns);
+            var col = Column(x[i], x0, span, columns);
             int start = i, iMin = i, iMax = i;
-            while (i < n && (int)Math.Min(columns - 1, (x[i] - x0) / span * columns) == col)
+            while (i < n && Column(x[i], x0, span, columns) == col)
             {
                 if (y[i] < y[iMin]) iMin = i;
                 if (y[i] > y[iMax]) iMax = i;
@@ -33,11 +43,22 @@ public static class Decimation
             foreach (var k in idx)
             {
                 if (k == prev) continue;
-                xs.Add(x[k]);
-                ys.Add(y[k]);
+                keep.Add(k);
                 prev = k;
             }
         }
-        return (xs.ToArray(), ys.ToArray());
+        return keep.ToArray();
     }
+
+    /// <summary>The values of <paramref name="source"/> at <paramref name="indices"/> (ascending); indices past its end are skipped.</summary>
+    public static double[] Pick(ReadOnlySpan<double> source, int[] indices)
+    {
+        var count = 0;
+        while (count < indices.Length && indices[count] < source.Length) count++;
+        var result = new double[count];
+        for (var k = 0; k < count; k++) result[k] = source[indices[k]];
+        return result;
+    }
+
+    private static int Column(double x, double x0, double span, int columns) => (int)Math.Min(columns - 1, (x - x0) / span * columns);
 }

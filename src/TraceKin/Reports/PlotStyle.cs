@@ -1,5 +1,4 @@
 using OxyPlot;
-using OxyPlot.SkiaSharp;
 
 namespace TraceKin.Reports;
 
@@ -31,10 +30,13 @@ public static class PlotStyle
         Background = OxyColors.White,
     };
 
-    public static byte[] ToPng(PlotModel model, int width = 900, int height = 650)
+    public const int Width = 900;
+    public const int Height = 650;
+
+    /// <summary>One plot to PNG. For many plots keep a <see cref="PngRenderer"/> per thread instead (RunPlot does).</summary>
+    public static byte[] ToPng(PlotModel model, int width = Width, int height = Height)
     {
-        using var ms = new MemoryStream();
-        new PngExporter { Width = width, Height = height }.Export(model, ms);
-        return ms.ToArray();
+        using var renderer = new PngRenderer(width, height);
+        return renderer.Render(model);
     }
 }

@@ -10,17 +10,30 @@ namespace TraceKin.Reports;
 /// The per-run picture: the concentration trace with the early window shaded, the window fit and the initial-rate
 /// tangent on top; the window fit's residuals below.
 /// </summary>
-public sealed class RunPlot : IRunSink
+public sealed class RunPlot : IRunSink, IDisposable
 {
     private readonly string _plotDir;
+    // One pixel buffer and render context per worker thread, reused for every run that worker draws.
+    private readonly ThreadLocal<PngRenderer> _renderers = new(() => new PngRenderer(), trackAllValues: true);
 
-    public RunPlot(string outDir) => _plotDir = Path.Combine(outDir, "plots");
+    public RunPlot(string outDir)
+    {
+        _plotDir = Path.Combine(outDir, "plots");
+        Directory.CreateDirectory(_plotDir);
+    }
 
     public static string FileNameFor(string runId) => $"run-{Safe(runId)}.png";
 
-    public void Accept(RunResult run) => AtomicFile.WriteAllBytes(Path.Combine(_plotDir, FileNameFor(run.Id)), Render(run));
+    public void Accept(RunResult run) =>
+        AtomicFile.WriteAllBytes(Path.Combine(_plotDir, FileNameFor(run.Id)), _renderers.Value!.Render(Build(run)));
 
     public static byte[] Render(RunResult run) => PlotStyle.ToPng(Build(run));
+
+    public void Dispose()
+    {
+        foreach (var r in _renderers.Values) r.Dispose();
+        _renderers.Dispose();
+    }
 
     public static PlotModel Build(RunResult run)
     {

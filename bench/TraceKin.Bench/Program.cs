@@ -1,0 +1,144 @@
+using System.Diagnostics;
+using System.Globalization;
+using TraceKin.Analysis;
+using TraceKin.Ingest;
+using TraceKin.Rates;
+using TraceKin.Reports;
+using TraceKin.Setup;
+using TraceKin.Signal;
+using TraceKin.Traces;
+
+// Benchmark-only timings over one series folder (plan.csv + series.toml + exports):
+//   TraceKin.Bench parse  SERIES [--workers N]   read and parse every planned export, nothing else
+//   TraceKin.Bench stages SERIES [--workers N]   time each stage per run (parse, convert, rates, plot) and sum
+//   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
+// Output is `key=value` lines on stdout so that bench/batch.sh can pick the numbers up.
+if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render"))
+{
+    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render SERIES [--workers N]");
+    return 2;
+}
+var folder = args[1];
+var workers = Environment.ProcessorCount;
+for (var i = 2; i < args.Length - 1; i++)
+    if (args[i] == "--workers") workers = int.Parse(args[i + 1], CultureInfo.InvariantCulture);
+
+var config = SeriesConfig.FromFile(Path.Combine(folder, SeriesRunner.ConfigFile));
+var plan = Plan.FromFile(Path.Combine(folder, SeriesRunner.PlanFile));
+var rows = plan.Rows;
+var options = new ParallelOptions { MaxDegreeOfParallelism = workers };
+var ci = CultureInfo.InvariantCulture;
+
+// Warm up: JIT and the first render are one-off costs that a batch pays once; time them separately.
+var warm = Stopwatch.StartNew();
+_ = ExportReader.FromFile(Path.Combine(folder, rows[0].File), config.Ingest);
+var warmParse = warm.Elapsed.TotalSeconds;
+
+if (args[0] == "parse")
+{
+    long bytes = 0, points = 0;
+    var sw = Stopwatch.StartNew();
+    Parallel.For(0, rows.Count, options, i =>
+    {
+        var path = Path.Combine(folder, rows[i].File);
+        var export = ExportReader.FromFile(path, config.Ingest);
+        Interlocked.Add(ref bytes, new FileInfo(path).Length);
+        Interlocked.Add(ref points, export.Channels.Sum(c => (long)c.Count));
+    });
+    var s = sw.Elapsed.TotalSeconds;
+    Console.WriteLine(string.Create(ci, $"runs={rows.Count}"));
+    Console.WriteLine(string.Create(ci, $"workers={workers}"));
+    Console.WriteLine(string.Create(ci, $"first_parse_seconds={warmParse:F3}"));
+    Console.WriteLine(string.Create(ci, $"parse_seconds={s:F3}"));
+    Console.WriteLine(string.Create(ci, $"parse_mb_per_second={bytes / 1e6 / s:F1}"));
+    Console.WriteLine(string.Create(ci, $"points={points}"));
+    return 0;
+}
+
+if (args[0] == "render")
+{
+    var models = rows.Take(40).Select(r => SeriesRunner.AnalyseRun(folder, r, config).Run!).ToList();
+    var proc = System.Diagnostics.Process.GetCurrentProcess();
+    void Time(string name, Func<RunResult, byte[]> render)
+    {
+        _ = render(models[0]);
+        long size = 0;
+        proc.Refresh();
+        var cpu0 = proc.TotalProcessorTime;
+        foreach (var m in models) size += render(m).Length;
+        proc.Refresh();
+        var ms = (proc.TotalProcessorTime - cpu0).TotalMilliseconds / models.Count;
+        Console.WriteLine(string.Create(ci, $"{name}_cpu_ms_per_png={ms:F1} kb_per_png={size / 1024.0 / models.Count:F0}"));
+    }
+    {
+        var r0 = models[0];
+        double? reference = r0.Plan.InitialConcentrations.TryGetValue(r0.Converted.Species, out var a0) ? a0 : null;
+        Time("rates_x1", r => { _ = RateAnalysis.Analyse(r.Converted.Concentration, r.Converted.Coefficient, reference, config.Rates, r.File); return []; });
+        var bytes0 = File.ReadAllBytes(Path.Combine(folder, r0.File));
+        Time("parse_x1", r => { _ = ExportReader.FromBytes(bytes0, r0.File, config.Ingest); return []; });
+    }
+    Time("fresh_exporter", r => { using var s = new MemoryStream(); new OxyPlot.SkiaSharp.PngExporter { Width = 900, Height = 650 }.Export(RunPlot.Build(r), s); return s.ToArray(); });
+    foreach (var (z, shaping, filter, opaque) in new[] { (6, true, SkiaSharp.SKPngEncoderFilterFlags.AllFilters, false), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, false),
+        (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, false, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Sub, true) })
+    {
+        using var renderer = new PngRenderer(zlibLevel: z, textShaping: shaping, filter: filter, opaque: opaque);
+        Time($"reused_zlib{z}_shaping{(shaping ? "on" : "off")}_{filter}_{(opaque ? "opaque" : "alpha")}", r => renderer.Render(RunPlot.Build(r)));
+    }
+    using (var renderer = new PngRenderer())
+    {
+        Time("build_only", r => { _ = RunPlot.Build(r); return []; });
+        Time("axes_text_only", r => { var m = RunPlot.Build(r); m.Series.Clear(); m.Annotations.Clear(); return renderer.Render(m); });
+        for (var k = 0; k < 4; k++)
+        {
+            var keep = k;
+            Time($"series_{keep}_only", r => { var m = RunPlot.Build(r); var s = m.Series[keep]; m.Series.Clear(); m.Series.Add(s); return renderer.Render(m); });
+        }
+    }
+    return 0;
+}
+
+// stages: the same work SeriesRunner does per run, with a stopwatch around each step (summed CPU-side time over
+// workers, so the sums can exceed the wall time).
+long tRead = 0, tParse = 0, tConvert = 0, tRates = 0, tBuild = 0, tRender = 0;
+var first = Stopwatch.StartNew();
+_ = RunPlot.Render(SeriesRunner.AnalyseRun(folder, rows[0], config).Run!);
+var firstRender = first.Elapsed.TotalSeconds;
+var wall = Stopwatch.StartNew();
+Parallel.For(0, rows.Count, options, i =>
+{
+    var row = rows[i];
+    var t0 = Stopwatch.GetTimestamp();
+    var bytes = File.ReadAllBytes(Path.Combine(folder, row.File));
+    var t1 = Stopwatch.GetTimestamp();
+    var export = ExportReader.FromBytes(bytes, row.File, config.Ingest);
+    var t2 = Stopwatch.GetTimestamp();
+    var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
+    var t3 = Stopwatch.GetTimestamp();
+    double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
+    var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File);
+    var t4 = Stopwatch.GetTimestamp();
+    var run = new RunResult(row, "", export, converted, rates, []);
+    var model = RunPlot.Build(run);
+    var t5 = Stopwatch.GetTimestamp();
+    _ = PlotStyle.ToPng(model);
+    var t6 = Stopwatch.GetTimestamp();
+    Interlocked.Add(ref tRead, t1 - t0);
+    Interlocked.Add(ref tParse, t2 - t1);
+    Interlocked.Add(ref tConvert, t3 - t2);
+    Interlocked.Add(ref tRates, t4 - t3);
+    Interlocked.Add(ref tBuild, t5 - t4);
+    Interlocked.Add(ref tRender, t6 - t5);
+});
+var wallS = wall.Elapsed.TotalSeconds;
+double Sec(long ticks) => ticks / (double)Stopwatch.Frequency;
+Console.WriteLine(string.Create(ci, $"runs={rows.Count}"));
+Console.WriteLine(string.Create(ci, $"workers={workers}"));
+Console.WriteLine(string.Create(ci, $"first_run_with_plot_seconds={firstRender:F3}"));
+Console.WriteLine(string.Create(ci, $"wall_seconds={wallS:F3}"));
+Console.WriteLine(string.Create(ci, $"sum_read_seconds={Sec(tRead):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_parse_seconds={Sec(tParse):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_convert_seconds={Sec(tConvert):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_rates_seconds={Sec(tRates):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_plot_build_seconds={Sec(tBuild):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_png_render_seconds={Sec(tRender):F3}"));
+return 0;

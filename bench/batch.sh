@@ -1,0 +1,114 @@
+#!/usr/bin/env bash
+# Batch speed of `tracekin analyse` against the scripted baseline (bench/README.md, "Batch speed").
+#
+#   bench/batch.sh                      # 200 x 10,000 (with and without plots) and 1,000 x 10,000
+#   BENCH_SIZES="20x2000" bench/batch.sh  # a quick smoke run
+#
+# Environment: BENCH_PEER (peer scripts; default ../shared/bench-peer from the repo root),
+# BENCH_WORK (batches and outputs; default $TMPDIR/tracekin-bench, reused between runs),
+# BENCH_SIZES (space-separated RUNSxPOINTS; the first size is also timed with plots),
+# BENCH_WORKERS (TraceKin workers; default: all cores).
+set -euo pipefail
+
+REPO=$(cd "$(dirname "$0")/.." && pwd)
+PEER=${BENCH_PEER:-$REPO/../shared/bench-peer}
+WORK=${BENCH_WORK:-${TMPDIR:-/tmp}/tracekin-bench}
+SIZES=${BENCH_SIZES:-"200x10000 1000x10000"}
+WORKERS=${BENCH_WORKERS:-$(nproc)}
+PY=/usr/bin/python3
+
+die() { echo "batch.sh: $*" >&2; exit 2; }
+[[ -f $PEER/bigbench.py && -f $PEER/pipeline.py ]] || die "benchmark peer not found in $PEER (set BENCH_PEER)"
+
+# --- tools: Debian's python3 with the baseline's packages, GNU time -------------------------------------------
+if ! $PY -c 'import numpy, scipy, pandas, matplotlib' 2>/dev/null || [[ ! -x /usr/bin/time ]]; then
+    echo "installing python3-numpy python3-scipy python3-pandas python3-matplotlib time (apt-get)" >&2
+    SUDO=""; [[ $(id -u) -ne 0 ]] && SUDO="sudo"
+    $SUDO apt-get install -y python3-numpy python3-scipy python3-pandas python3-matplotlib time >/dev/null 2>&1 ||
+        { $SUDO apt-get update >/dev/null && $SUDO apt-get install -y python3-numpy python3-scipy python3-pandas python3-matplotlib time >/dev/null; }
+fi
+$PY -c 'import numpy, scipy, pandas, matplotlib' || die "the baseline's Python packages are not importable by $PY"
+
+# --- TraceKin, Release ----------------------------------------------------------------------------------------------
+echo "building TraceKin (Release)" >&2
+dotnet build "$REPO/src/TraceKin.Cli" -c Release -o "$WORK/bin/cli" -v q -nologo >/dev/null
+dotnet build "$REPO/bench/TraceKin.Bench" -c Release -o "$WORK/bin/bench" -v q -nologo >/dev/null
+TRACEKIN=("$WORK/bin/cli/TraceKin.Cli")
+BENCHTOOL=("$WORK/bin/bench/TraceKin.Bench")
+
+# timed NAME CMD...: runs CMD under /usr/bin/time -v; sets WALL (s) and PEAK (MB); output in $WORK/logs/NAME.*
+mkdir -p "$WORK/logs"
+timed() {
+    local name=$1; shift
+    if ! /usr/bin/time -v -o "$WORK/logs/$name.time" "$@" >"$WORK/logs/$name.out" 2>"$WORK/logs/$name.err"; then
+        echo "batch.sh: $name failed (exit status in $WORK/logs/$name.time; output in $WORK/logs/$name.err)" >&2
+        tail -5 "$WORK/logs/$name.err" >&2
+        return 1
+    fi
+    WALL=$(awk -F': ' '/Elapsed \(wall clock\)/ { n = split($2, p, ":"); s = 0; for (i = 1; i <= n; i++) s = s * 60 + p[i]; print s }' "$WORK/logs/$name.time")
+    PEAK=$(awk -F': ' '/Maximum resident set size/ { printf "%.0f", $2 / 1024 }' "$WORK/logs/$name.time")
+}
+ratio() { awk -v a="$1" -v b="$2" 'BEGIN { printf "%.1f", a / b }'; }
+rate() { awk -v n="$1" -v s="$2" 'BEGIN { printf "%.0f", n / s }'; }
+
+STAMP=$(date -u +%Y-%m-%dT%H:%MZ)
+REPORT="$WORK/report-$STAMP.txt"
+{
+    echo "batch speed, $STAMP, $(nproc) cores, load $(cut -d' ' -f1-3 /proc/loadavg), TraceKin workers $WORKERS"
+    echo "dotnet $(dotnet --version), $($PY --version 2>&1)"
+} | tee "$REPORT"
+
+FIRST=1
+STATUS=0
+for size in $SIZES; do
+    runs=${size%x*}; points=${size#*x}
+    batch="$WORK/batch-${runs}x${points}"
+    if [[ ! -f $batch/truth.json ]]; then
+        rm -rf "$batch"
+        echo "generating $runs runs x $points points in $batch" >&2
+        $PY "$PEER/bigbench.py" --out "$batch" --runs "$runs" --points "$points" >/dev/null
+    fi
+    $PY "$REPO/bench/series_from_manifest.py" "$batch" 2>/dev/null
+    largest=$(find "$batch" -name 'run_*.csv' -printf '%s\n' | sort -n | tail -1)
+    total=$(find "$batch" -name 'run_*.csv' -printf '%s\n' | awk '{ s += $1 } END { printf "%.1f", s / 1e6 }')
+    limit=$(awk -v b="$largest" 'BEGIN { printf "%.0f", 3 * b / 1048576 + 150 }')
+    out="$WORK/out-${runs}x${points}"
+    rm -rf "$out"; mkdir -p "$out"
+    echo | tee -a "$REPORT"
+    echo "== $runs runs x $points points ($total MB; largest file $((largest / 1024)) kB; memory limit $limit MB)" | tee -a "$REPORT"
+
+    # Parse only: every export read and parsed in parallel, nothing else (TraceKin.Bench, Release).
+    timed "parse-$size" "${BENCHTOOL[@]}" parse "$batch" --workers "$WORKERS"
+    parse=$(awk -F= '/^parse_seconds=/ { print $2 }' "$WORK/logs/parse-$size.out")
+    parse_wall=$WALL
+    printf '%-34s %8.2f s (%s s in-process)\n' "TraceKin parse only" "$parse_wall" "$parse" | tee -a "$REPORT"
+
+    timed "baseline-noplots-$size" $PY "$PEER/pipeline.py" "$batch" --out "$out/baseline-noplots" --no-plots
+    b_np=$WALL; b_np_mem=$PEAK
+    timed "tracekin-noplots-$size" "${TRACEKIN[@]}" analyse "$batch" --out "$out/tracekin-noplots" --no-plots --workers "$WORKERS"
+    t_np=$WALL; t_np_mem=$PEAK
+    printf '%-34s %8.2f s %6s MB\n' "baseline, no plots, 1 job" "$b_np" "$b_np_mem" | tee -a "$REPORT"
+    printf '%-34s %8.2f s %6s MB  %s runs/s\n' "TraceKin, no plots" "$t_np" "$t_np_mem" "$(rate "$runs" "$t_np")" | tee -a "$REPORT"
+    printf '%-34s %8s\n' "ratio baseline/TraceKin, no plots" "$(ratio "$b_np" "$t_np")" | tee -a "$REPORT"
+    printf '%-34s %8s   (target <= 2; process wall times)\n' "TraceKin no plots / parse only" "$(ratio "$t_np" "$parse_wall")" | tee -a "$REPORT"
+    (( t_np_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
+    $PY "$REPO/bench/compare_results.py" "$out/tracekin-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
+        sed 's/^/  /' | tee -a "$REPORT" || STATUS=1
+
+    if (( FIRST )); then
+        timed "baseline-plots-$size" $PY "$PEER/pipeline.py" "$batch" --out "$out/baseline-plots" --jobs 2
+        b_p=$WALL; b_p_mem=$PEAK
+        timed "tracekin-plots-$size" "${TRACEKIN[@]}" analyse "$batch" --out "$out/tracekin-plots" --workers "$WORKERS"
+        t_p=$WALL; t_p_mem=$PEAK
+        printf '%-34s %8.2f s %6s MB\n' "baseline, PNGs, --jobs 2" "$b_p" "$b_p_mem" | tee -a "$REPORT"
+        printf '%-34s %8.2f s %6s MB  %s runs/s\n' "TraceKin, PNGs" "$t_p" "$t_p_mem" "$(rate "$runs" "$t_p")" | tee -a "$REPORT"
+        printf '%-34s %8s\n' "ratio baseline/TraceKin, PNGs" "$(ratio "$b_p" "$t_p")" | tee -a "$REPORT"
+        (( t_p_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
+        cmp -s "$out/tracekin-plots/summary.json" "$out/tracekin-noplots/summary.json" ||
+            { echo "  summary.json differs between the runs with and without plots" | tee -a "$REPORT"; STATUS=1; }
+        FIRST=0
+    fi
+done
+echo | tee -a "$REPORT"
+echo "report: $REPORT" >&2
+exit $STATUS

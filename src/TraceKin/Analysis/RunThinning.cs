@@ -1,0 +1,59 @@
+using TraceKin.Rates;
+using TraceKin.Reports;
+using TraceKin.Traces;
+
+namespace TraceKin.Analysis;
+
+/// <summary>
+/// Shrinks a run's per-point arrays to a display copy: the samples kept are the min/max envelope of the concentration
+/// trace (<see cref="Decimation.EnvelopeIndices"/>), and every array aligned with those samples — export channels,
+/// the concentration, fitted values and residuals — is thinned at the same indices, so they stay aligned and a plot
+/// drawn from the copy looks like one drawn from every point. Scalars (rates, parameters, point counts, χ²) are
+/// untouched. Arrays shared between traces (the time axis) stay shared.
+/// </summary>
+public static class RunThinning
+{
+    public static RunResult Thin(RunResult run, int columns)
+    {
+        if (run.TracesThinned) return run;
+        var c = run.Converted.Concentration;
+        var keep = Decimation.EnvelopeIndices(c.Times, c.Values, columns);
+        if (keep is null) return run with { TracesThinned = true };
+        var n = c.Count;
+        var done = new Dictionary<double[], double[]>(ReferenceEqualityComparer.Instance);
+
+        // Arrays no longer than the concentration trace start at its first sample (fits over an early window);
+        // a longer one is on another time axis and is thinned by its own envelope.
+        double[] Aligned(double[] a)
+        {
+            if (done.TryGetValue(a, out var t)) return t;
+            return done[a] = a.Length <= n ? Decimation.Pick(a, keep) : a;
+        }
+        Trace ThinTrace(Trace tr)
+        {
+            if (tr.Count <= n) return tr with { Times = Aligned(tr.Times), Values = Aligned(tr.Values) };
+            var own = Decimation.EnvelopeIndices(tr.Times, tr.Values, columns);
+            return own is null ? tr : tr with { Times = Decimation.Pick(tr.Times, own), Values = Decimation.Pick(tr.Values, own) };
+        }
+
+        var export = run.Export with
+        {
+            Channels = run.Export.Channels.Select(ThinTrace).ToArray(),
+            Auxiliary = run.Export.Auxiliary.Select(ThinTrace).ToArray(),
+        };
+        var converted = run.Converted with { Concentration = ThinTrace(c) };
+        var estimates = new Dictionary<InitialRate, InitialRate>(ReferenceEqualityComparer.Instance);
+        InitialRate ThinRate(InitialRate r)
+        {
+            if (estimates.TryGetValue(r, out var t)) return t;
+            return estimates[r] = r with { Fitted = Aligned(r.Fitted) };
+        }
+        var rates = run.Rates with
+        {
+            Estimates = run.Rates.Estimates.Select(ThinRate).ToArray(),
+            Headline = ThinRate(run.Rates.Headline),
+            Fits = run.Rates.Fits.Select(f => f with { Fitted = Aligned(f.Fitted), Fit = f.Fit with { Residuals = Aligned(f.Fit.Residuals) } }).ToArray(),
+        };
+        return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
+    }
+}

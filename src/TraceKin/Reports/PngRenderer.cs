@@ -1,0 +1,66 @@
+using OxyPlot;
+using OxyPlot.SkiaSharp;
+using SkiaSharp;
+
+namespace TraceKin.Reports;
+
+/// <summary>
+/// Draws plot models to PNG bytes, reusing one pixel buffer and one Skia render context (with its typeface, font
+/// and text-shaper caches) from plot to plot: a batch pays for them once per worker, not once per run.
+/// Not thread-safe; use one per thread (<see cref="RunPlot"/> keeps one per worker).
+/// </summary>
+public sealed class PngRenderer : IDisposable
+{
+    /// <summary>
+    /// PNG encoding dominates the cost of a plot. An opaque bitmap (RGB, no alpha channel: the background is opaque
+    /// white anyway), the "Up" row filter only and zlib level 3 encode in about a sixth of the time of the library
+    /// default (alpha, all five filters tried per row, level 6) for files of the same size; the image is lossless
+    /// either way (measured with `TraceKin.Bench render`, see bench/README.md).
+    /// </summary>
+    public const int DefaultZlibLevel = 3;
+
+    private readonly SKBitmap _bitmap;
+    private readonly SkiaRenderContext _context;
+
+    public int Width { get; }
+    public int Height { get; }
+    public int ZlibLevel { get; }
+
+    public SKPngEncoderFilterFlags Filter { get; }
+
+    public PngRenderer(int width = PlotStyle.Width, int height = PlotStyle.Height, int zlibLevel = DefaultZlibLevel, bool textShaping = true,
+        SKPngEncoderFilterFlags filter = SKPngEncoderFilterFlags.Up, bool opaque = true)
+    {
+        Width = width;
+        Height = height;
+        ZlibLevel = zlibLevel;
+        Filter = filter;
+        _bitmap = opaque ? new SKBitmap(new SKImageInfo(width, height, SKImageInfo.PlatformColorType, SKAlphaType.Opaque)) : new SKBitmap(width, height);
+        _context = new SkiaRenderContext { RenderTarget = RenderTarget.PixelGraphic, DpiScale = 1, UseTextShaping = textShaping };
+    }
+
+    public byte[] Render(PlotModel model)
+    {
+        using (var canvas = new SKCanvas(_bitmap))
+        {
+            _context.SkCanvas = canvas;
+            var m = (IPlotModel)model;
+            m.Update(true);
+            var bg = model.Background;
+            canvas.Clear(new SKColor(bg.R, bg.G, bg.B, bg.A));
+            m.Render(_context, new OxyRect(0, 0, Width, Height));
+            canvas.Flush();
+            _context.SkCanvas = null;
+        }
+        using var ms = new MemoryStream(64 * 1024);
+        using (var pixmap = _bitmap.PeekPixels())
+            pixmap.Encode(ms, new SKPngEncoderOptions(Filter, ZlibLevel));
+        return ms.ToArray();
+    }
+
+    public void Dispose()
+    {
+        _context.Dispose();
+        _bitmap.Dispose();
+    }
+}
