@@ -12,10 +12,13 @@ using TraceKin.Traces;
 //   TraceKin.Bench parse  SERIES [--workers N]   read and parse every planned export, nothing else
 //   TraceKin.Bench stages SERIES [--workers N]   time each stage per run (parse, convert, rates, plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
+//   TraceKin.Bench phases SERIES --out DIR [--plots] [--full]
+//                                                the library path of `analyse` (no logging): time of the parallel
+//                                                run stage and of each series writer, managed heap and GC counts
 // Output is `key=value` lines on stdout so that bench/batch.sh can pick the numbers up.
-if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render"))
+if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases"))
 {
-    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render SERIES [--workers N]");
+    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render|phases SERIES [--workers N] [--out DIR] [--full]");
     return 2;
 }
 var folder = args[1];
@@ -30,6 +33,12 @@ var options = new ParallelOptions { MaxDegreeOfParallelism = workers };
 var ci = CultureInfo.InvariantCulture;
 
 // Warm up: JIT and the first render are one-off costs that a batch pays once; time them separately.
+string? outDir = null;
+for (var i = 2; i < args.Length - 1; i++)
+    if (args[i] == "--out") outDir = args[i + 1];
+var plotsWanted = args.Contains("--plots");
+var full = args.Contains("--full");
+
 var warm = Stopwatch.StartNew();
 _ = ExportReader.FromFile(Path.Combine(folder, rows[0].File), config.Ingest);
 var warmParse = warm.Elapsed.TotalSeconds;
@@ -55,6 +64,36 @@ if (args[0] == "parse")
     return 0;
 }
 
+if (args[0] == "phases")
+{
+    outDir ??= Path.Combine(Path.GetTempPath(), "tracekin-bench-phases");
+    Directory.CreateDirectory(outDir);
+    var proc = Process.GetCurrentProcess();
+    var sw = Stopwatch.StartNew();
+    using var runPlot = plotsWanted ? new RunPlot(outDir) : null;
+    var result = SeriesRunner.Analyse(folder, new AnalysisOptions
+    {
+        Workers = workers,
+        RunSink = runPlot,
+        Retention = full ? TraceRetention.Full : TraceRetention.Display,
+    });
+    Console.WriteLine(string.Create(ci, $"analyse_seconds={sw.Elapsed.TotalSeconds:F3}"));
+    Console.WriteLine(string.Create(ci, $"heap_after_analyse_mb={GC.GetTotalMemory(false) / 1e6:F1}"));
+    Console.WriteLine(string.Create(ci, $"heap_after_analyse_live_mb={GC.GetTotalMemory(true) / 1e6:F1}"));
+    Console.WriteLine(string.Create(ci, $"pair_ratios={result.Findings?.PairRatios.Count ?? 0}"));
+    foreach (var writer in ReportSet.SeriesWriters(plotsWanted))
+    {
+        sw.Restart();
+        writer.Write(result, outDir);
+        Console.WriteLine(string.Create(ci, $"write_{writer.GetType().Name}_seconds={sw.Elapsed.TotalSeconds:F3}"));
+    }
+    proc.Refresh();
+    Console.WriteLine(string.Create(ci, $"peak_working_set_mb={proc.PeakWorkingSet64 / 1048576.0:F0}"));
+    Console.WriteLine(string.Create(ci, $"gc_counts={GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}"));
+    Console.WriteLine(string.Create(ci, $"cpu_seconds={proc.TotalProcessorTime.TotalSeconds:F2}"));
+    return 0;
+}
+
 if (args[0] == "render")
 {
     var models = rows.Take(40).Select(r => SeriesRunner.AnalyseRun(folder, r, config).Run!).ToList();
@@ -73,7 +112,9 @@ if (args[0] == "render")
     {
         var r0 = models[0];
         double? reference = r0.Plan.InitialConcentrations.TryGetValue(r0.Converted.Species, out var a0) ? a0 : null;
-        Time("rates_x1", r => { _ = RateAnalysis.Analyse(r.Converted.Concentration, r.Converted.Coefficient, reference, config.Rates, r.File); return []; });
+        Time("rates_x1", r => { _ = RateAnalysis.Analyse(r.Converted.Concentration, r.Converted.Coefficient, r.Plan.InitialConcentrations[r.Converted.Species], config.Rates, r.File); return []; });
+        Time("sha256_x1", r => { _ = System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(Path.Combine(folder, r.File))); return []; });
+        Time("read_x1", r => { _ = File.ReadAllBytes(Path.Combine(folder, r.File)); return []; });
         var bytes0 = File.ReadAllBytes(Path.Combine(folder, r0.File));
         Time("parse_x1", r => { _ = ExportReader.FromBytes(bytes0, r0.File, config.Ingest); return []; });
     }

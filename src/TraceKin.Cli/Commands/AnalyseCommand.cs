@@ -53,14 +53,17 @@ public static class AnalyseCommand
             Progress = (run, status) => log.Information("  {Run}: {Status}", run, status),
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
-        foreach (var writer in ReportSet.SeriesWriters(plots))
+        // The series outputs are independent of each other: write them side by side while the plots drain to disk.
+        Parallel.ForEach(ReportSet.SeriesWriters(plots), writer =>
         {
             try { writer.Write(result, outDir); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
                 log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
             }
-        }
+        });
+        foreach (var (path, error) in runPlot?.Complete() ?? [])
+            log.Error("could not write {Plot}: {Message}", path, error);
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
         foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
         if (result.Findings is { } f)

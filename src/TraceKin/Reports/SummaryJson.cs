@@ -27,6 +27,7 @@ public sealed class SummaryJson : ISeriesReportWriter
         w.WriteStartArray("runs");
         foreach (var run in r.Runs)
         {
+            Spill(w);
             w.WriteStartObject();
             w.WriteString("id", run.Id);
             w.WriteString("file", run.File);
@@ -96,6 +97,7 @@ public sealed class SummaryJson : ISeriesReportWriter
         w.WriteStartArray("pairRatios");
         foreach (var p in f0?.PairRatios ?? [])
         {
+            Spill(w);
             w.WriteStartObject();
             w.WriteString("runA", p.RunA);
             w.WriteString("runB", p.RunB);
@@ -124,6 +126,12 @@ public sealed class SummaryJson : ISeriesReportWriter
         w.WriteEndArray();
         Warnings(w, r.Warnings.Concat(f0?.Warnings ?? []).ToList());
         w.WriteEndObject();
+    }
+
+    /// <summary>Hands what is buffered to the stream now and then, so a big series never sits whole in memory.</summary>
+    private static void Spill(Utf8JsonWriter w)
+    {
+        if (w.BytesPending > 1 << 16) w.Flush();
     }
 
     private static void InitialRate(Utf8JsonWriter w, Rates.InitialRate h)
