@@ -17,5 +17,5 @@ public sealed record AnalysisOptions
     /// <summary>What the result keeps of each run's traces; <see cref="TraceRetention.Display"/> bounds memory for big batches.</summary>
     public TraceRetention Retention { get; init; } = TraceRetention.Full;
     /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>
-    public int RetainedColumns { get; init; } = 300;
+    public int RetainedColumns { get; init; } = 200;
 }

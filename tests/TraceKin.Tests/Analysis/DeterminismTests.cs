@@ -69,7 +69,7 @@ public class DeterminismTests
         Assert.Equal(c.Values.Max(), t.Values.Max());
     }
 
-    private static SeriesResult Write(string outDir, int workers, TraceRetention retention = TraceRetention.Display, int retainedColumns = 300)
+    private static SeriesResult Write(string outDir, int workers, TraceRetention retention = TraceRetention.Display, int retainedColumns = 200)
     {
         using var plot = new RunPlot(outDir);
         var result = SeriesRunner.Analyse(Sample, new AnalysisOptions { Workers = workers, RunSink = plot, Retention = retention, RetainedColumns = retainedColumns });
