@@ -21,6 +21,7 @@ public sealed class SeriesWatch
     private readonly string _folder;
     private readonly string _outDir;
     private readonly string _snapshotDir;
+    private readonly string _plotKeyDir;
     private readonly WatchOptions _options;
     private readonly FileStability _stability;
     private readonly Ledger _ledger;
@@ -40,6 +41,7 @@ public sealed class SeriesWatch
         Name = Path.GetFileName(Path.TrimEndingDirectorySeparator(folder));
         _outDir = Path.Combine(options.Out, Name);
         _snapshotDir = Path.Combine(options.Out, WorkFolder, Name);
+        _plotKeyDir = Path.Combine(options.Out, WorkFolder, ".plots", Name);
         _options = options;
         _stability = stability;
         _ledger = ledger;
@@ -212,7 +214,7 @@ public sealed class SeriesWatch
             RemoveOrphanTemporaries();
             _cleaned = true;
         }
-        var plots = _options.Plots ? new ChangedRunPlots(_outDir, committed, inputs, _log) : null;
+        var plots = _options.Plots ? new ChangedRunPlots(_outDir, _plotKeyDir, inputs, _log) : null;
         var options = new AnalysisOptions
         {
             Workers = Math.Max(1, _options.Workers),

@@ -80,7 +80,7 @@ public class WatcherKillTests
         var drops = series.SelectMany(s => Enumerable.Range(1, RunsPerSeries).Select(r => (Series: s, Run: r)))
             .Select(d => (d.Series, d.Run, Bad: rng.Next(12) == 0, Mode: (Mode)rng.Next(4)))
             .OrderBy(_ => rng.Next()).ToList();
-        var killMoments = Enumerable.Range(0, 8).Select(_ => rng.Next(300, 1300)).ToList();
+        var killMoments = Enumerable.Range(0, 8).Select(_ => rng.Next(50, 1500)).ToList(); // ms after the watcher is up
 
         void Drop(string s, int run, string text, Mode mode, bool good)
         {
@@ -94,6 +94,7 @@ public class WatcherKillTests
         var kills = 0;
         void KillAndRestart(int afterMs)
         {
+            watcher.WaitUntilWatching(TimeSpan.FromSeconds(30));
             Thread.Sleep(afterMs);
             watcher.Kill();
             watcher.Dispose();
@@ -120,13 +121,14 @@ public class WatcherKillTests
             Assert.Empty(WriterFailures);
 
             // A second watcher on the same output folder is refused while one runs.
+            watcher.WaitUntilWatching(TimeSpan.FromSeconds(30));
             using (var second = WatcherProcess.Start(Args()))
             {
                 Assert.Equal(1, second.WaitForExit(TimeSpan.FromSeconds(30)));
                 Assert.Contains("already", second.Stderr, StringComparison.Ordinal);
             }
 
-            WaitUntilSettled(output, Latest(versions), TimeSpan.FromSeconds(60), () => watcher.Stderr);
+            WaitUntilSettled(output, Latest(versions), TimeSpan.FromSeconds(120), () => watcher.Stderr, setupRejected: series[^1]);
             var setupRejections = Ledger.ReadAll(Path.Combine(output, Ledger.FileName))
                 .Where(r => r.Series == series[^1]).SelectMany(r => r.Inputs)
                 .Count(i => i.File == "series.toml" && i.Sha256 == badTomlSha && i.New);
@@ -148,7 +150,7 @@ public class WatcherKillTests
             KillAndRestart(killMoments[k++ % killMoments.Count]);
             edits.Join();
             Assert.Empty(WriterFailures);
-            WaitUntilSettled(output, Latest(versions), TimeSpan.FromSeconds(60), () => watcher.Stderr);
+            WaitUntilSettled(output, Latest(versions), TimeSpan.FromSeconds(120), () => watcher.Stderr);
         }
         finally
         {
@@ -168,12 +170,13 @@ public class WatcherKillTests
         var marked = records.SelectMany(r => r.Inputs.Where(i => i.New).Select(i => (r.Series, i.File, i.Sha256)))
             .GroupBy(x => x).ToDictionary(g => g.Key, g => g.Count());
         Assert.All(marked, m => Assert.True(m.Value == 1, $"{m.Key} was taken as new {m.Value} times"));
-        foreach (var v in versions)
+        // Versions replaced while their series waited for its series.toml fix are rightly never analysed.
+        var latest = Latest(versions);
+        foreach (var v in versions.Where(v => v.Series != series[^1]).Concat(latest.Values))
             Assert.True(marked.ContainsKey((v.Series, v.File, v.Sha256)), $"{v.Series}/{v.File} version {v.Sha256[..8]} was never analysed");
         Assert.True(versions.Count >= 200 + 12);
 
         // Final outputs: parseable, complete, bad files listed once.
-        var latest = Latest(versions);
         foreach (var s in series)
         {
             var dir = Path.Combine(output, s);
@@ -224,15 +227,18 @@ public class WatcherKillTests
         return byFile;
     }
 
-    private static void WaitUntilSettled(string output, Dictionary<(string, string), Expected> latest, TimeSpan timeout, Func<string> stderr)
+    private static void WaitUntilSettled(string output, Dictionary<(string, string), Expected> latest, TimeSpan timeout, Func<string> stderr,
+        string? setupRejected = null)
     {
         var until = DateTime.UtcNow + timeout;
         while (DateTime.UtcNow < until)
         {
             var all = Ledger.ReadAll(Path.Combine(output, Ledger.FileName));
             var bySeries = all.GroupBy(r => r.Series).ToDictionary(g => g.Key, g => g.Last());
-            var done = latest.Values.All(v => bySeries.TryGetValue(v.Series, out var r) && r.Setup == LedgerRecord.SetupOk
-                && r.Input(v.File) is { } i && i.Sha256 == v.Sha256 && i.Status == (v.Good ? LedgerInput.Analysed : LedgerInput.Rejected));
+            var done = latest.Values.All(v => bySeries.TryGetValue(v.Series, out var r) && (v.Series == setupRejected
+                ? r.Setup == LedgerRecord.SetupRejected
+                : r.Setup == LedgerRecord.SetupOk && r.Input(v.File) is { } i && i.Sha256 == v.Sha256
+                    && i.Status == (v.Good ? LedgerInput.Analysed : LedgerInput.Rejected)));
             if (done) return;
             Thread.Sleep(200);
         }

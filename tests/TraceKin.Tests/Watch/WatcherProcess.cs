@@ -36,6 +36,18 @@ public sealed class WatcherProcess : IDisposable
         return w;
     }
 
+    /// <summary>Waits until the watcher holds its lock and is watching (its first status line).</summary>
+    public void WaitUntilWatching(TimeSpan timeout)
+    {
+        var until = DateTime.UtcNow + timeout;
+        while (!Stderr.Contains("(Ctrl+C to stop)", StringComparison.Ordinal))
+        {
+            if (_process.HasExited) throw new InvalidOperationException($"the watcher exited with {_process.ExitCode}; stderr:\n{Stderr}");
+            if (DateTime.UtcNow > until) throw new TimeoutException($"the watcher did not start within {timeout.TotalSeconds} s; stderr:\n{Stderr}");
+            Thread.Sleep(20);
+        }
+    }
+
     /// <summary>Like SIGKILL: no clean-up of any kind runs in the watcher.</summary>
     public void Kill()
     {
