@@ -221,6 +221,7 @@ public sealed class SeriesWatch
             RunSink = plots,
             Progress = (run, status) => _log.Debug("{Series} {Run}: {Status}", Name, run, status),
         };
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         var result = SeriesRunner.Analyse(_snapshotDir, options);
 
         // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for.
@@ -264,6 +265,8 @@ public sealed class SeriesWatch
             Pending = pending.ToList(),
             Outputs = HashOutputs(),
         });
+        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
+            Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
         Announce(record, result);
         return record;
     }
