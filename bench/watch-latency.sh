@@ -10,9 +10,10 @@ dotnet build src/TraceKin.Cli -c Release -nologo -v q >/dev/null
 cli=(dotnet src/TraceKin.Cli/bin/Release/net10.0/TraceKin.Cli.dll)
 
 work=$(mktemp -d)
+[ -z "${KEEP:-}" ] || echo "work folder (kept): $work"
 inbox=$work/inbox; out=$work/out; stage=$work/stage
 mkdir -p "$inbox/bench" "$stage"
-trap 'kill "$watcher" 2>/dev/null || true; wait 2>/dev/null || true; rm -rf "$work"' EXIT
+trap 'kill "$watcher" 2>/dev/null || true; wait 2>/dev/null || true; [ -n "${KEEP:-}" ] || rm -rf "$work"' EXIT
 
 # The demo series' plan and settings; exports simulated at 0.1 s for 999.9 s = 10,000 points each.
 cp sample-traces/violet-complex-acid/{plan.csv,series.toml} "$stage/"
@@ -26,6 +27,8 @@ points=$(grep -c '^[0-9]' "$stage/r1.csv")
 watcher=$!
 until [ -s "$out/.tracekin-ledger.jsonl" ]; do sleep 0.1; done
 
+cpu() { awk '{print $14 + $15}' "/proc/$watcher/stat" 2>/dev/null || echo 0; }   # watcher's CPU time, clock ticks
+cpu_start=$(cpu)
 lat=()
 for i in $(seq 1 "$DROPS"); do
   simulate $((i + 1))                                   # new content for every run, made outside the inbox
@@ -41,7 +44,8 @@ for i in $(seq 1 "$DROPS"); do
   echo "drop $i ($f, $points points): ${ms} ms after it settled"
 done
 
+cpu_ms=$(( ($(cpu) - cpu_start) * 1000 / $(getconf CLK_TCK) / DROPS ))
 sorted=($(printf '%s\n' "${lat[@]}" | sort -n))
 n=${#sorted[@]}
 rank() { local r=$(( ($1 * n + 99) / 100 )); echo "${sorted[$((r - 1))]}"; }   # nearest-rank percentile
-echo "watch latency over $n drops of $points-point exports (settle $SETTLE_MS ms): p50 $(rank 50) ms, p95 $(rank 95) ms, max ${sorted[$((n - 1))]} ms"
+echo "watch latency over $n drops of $points-point exports (settle $SETTLE_MS ms): p50 $(rank 50) ms, p95 $(rank 95) ms, max ${sorted[$((n - 1))]} ms; watcher CPU ${cpu_ms} ms per drop; load average $(cut -d' ' -f1 /proc/loadavg)"
