@@ -41,7 +41,7 @@ public static class RunConversion
         {
             var over = raw.Count(a => a > s.LinearLimit);
             if (over > 0)
-                warnings.Add(new Warning("above-linear-range", where,
+                warnings.Add(new Warning("absorbance-above-linear-range", where,
                     $"{over} of {raw.Length} absorbance readings exceed {s.LinearLimit.ToString("G4", Inv)} (largest {raw.Max().ToString("G4", Inv)}); " +
                     "Beer–Lambert may not hold there (signal.linear_limit)"));
         }
@@ -90,8 +90,7 @@ public static class RunConversion
             t[i] = temperature is null ? model.Temperature ?? s.ReferenceTemperature : Interpolate(temperature, concentration.Times[i]);
         var values = new double[concentration.Count];
         for (var i = 0; i < values.Length; i++) values[i] = model.ToSignal(concentration.Values[i], t[i]);
-        var quantity = model.SignalQuantity == Quantity.Other ? Quantity.Other : model.SignalQuantity;
-        return new Trace(s.Channel ?? s.Kind, quantity, model.SignalUnit, concentration.Times, values, model.SignalUnit);
+        return new Trace(s.Channel ?? s.Kind, model.SignalQuantity, model.SignalUnit, concentration.Times, values, model.SignalUnit);
     }
 
     private static void CheckQuantity(Trace channel, SignalModel model, SignalSettings s, List<Warning> warnings, string where)
@@ -113,7 +112,9 @@ public static class RunConversion
     {
         var result = new double[channel.Count];
         var fallback = model.Temperature ?? double.NaN;
-        var aux = model.UsesPointTemperature ? export.Auxiliary.FirstOrDefault(a => a.Quantity == Quantity.Temperature && a.Count > 0) : null;
+        var aux = model.UsesPointTemperature
+            ? export.Auxiliary.Concat(export.Channels).FirstOrDefault(a => a.Quantity == Quantity.Temperature && a.Count > 0)
+            : null;
         for (var i = 0; i < result.Length; i++) result[i] = aux is null ? fallback : Interpolate(aux, channel.Times[i]);
         return result;
     }
