@@ -157,15 +157,17 @@ public sealed record SignalModel
                 var t = RunTemperature(s, row);
                 double p0Partial;
                 double p0;
+                var planned = PlannedInitialPressure(row);
+                var p0Source = s.InitialPressure is not null ? "signal.initial_pressure" : planned is not null ? "plan" : first is not null ? "first sample" : "plan [X]0";
                 if (initials.TryGetValue(s.Species, out var c0))
                 {
                     p0Partial = c0 * 1000 * PhysicalConstants.GasConstant * t;
-                    p0 = s.InitialPressure ?? first ?? p0Partial / (s.InitialMoleFraction is > 0 ? s.InitialMoleFraction.Value : 1);
+                    p0 = s.InitialPressure ?? planned ?? first ?? p0Partial / (s.InitialMoleFraction is > 0 ? s.InitialMoleFraction.Value : 1);
                 }
                 else
                 {
-                    p0 = s.InitialPressure ?? first ?? throw Fail.Setting(s.Source, "signal.initial_pressure", "nothing",
-                        $"the total pressure at mixing, or [{s.Species}]0 in plan.csv");
+                    p0 = s.InitialPressure ?? planned ?? first ?? throw Fail.Setting(s.Source, "signal.initial_pressure", "nothing",
+                        $"the total pressure at mixing, a \"p0 (kPa)\" column in plan.csv, or [{s.Species}]0 in plan.csv");
                     p0Partial = (s.InitialMoleFraction ?? (s.Coefficient < 0 ? 1 : 0)) * p0;
                 }
                 var pc = new PressureConversion(t, s.GasMoleChange!.Value, s.Coefficient, p0, p0Partial) { TemperatureU = s.TemperatureU };
@@ -174,7 +176,7 @@ public sealed record SignalModel
                 {
                     new("R", $"{G(PhysicalConstants.GasConstant)} J/(mol·K) (CODATA 2018)"),
                     new("T", $"{G(t)} K ({(s.Temperature is null ? "plan" : "signal.temperature")})"),
-                    new("p0", $"{G(p0)} Pa ({(s.InitialPressure is not null ? "signal.initial_pressure" : first is not null ? "first sample" : "plan")})"),
+                    new("p0", $"{G(p0)} Pa ({p0Source})"),
                     new($"p({s.Species})0", $"{G(p0Partial)} Pa"),
                     new("Δν_gas", $"{G(s.GasMoleChange.Value)} (signal.gas_mole_change)"),
                 };
@@ -232,6 +234,24 @@ public sealed record SignalModel
 
     private static string TemperatureHint(SignalSettings s, PlanRow row) =>
         s.Temperature is null ? $"the temperature comes from plan.csv line {row.Line}" : "check signal.temperature and temperature_unit";
+
+    /// <summary>A plan.csv column "p0 (unit)" (any pressure unit): the run's total pressure at mixing.</summary>
+    private static double? PlannedInitialPressure(PlanRow row)
+    {
+        foreach (var (header, text) in row.Extra)
+        {
+            var m = System.Text.RegularExpressions.Regex.Match(header, @"^p0\s*[\(\[](?<unit>[^\)\]]+)[\)\]]$", System.Text.RegularExpressions.RegexOptions.IgnoreCase);
+            if (!m.Success || text.Trim().Length == 0) continue;
+            if (Units.Find(m.Groups["unit"].Value) is not { Quantity: Quantity.Pressure } unit)
+                throw Fail.At("plan.csv", row.Line, 0, Fail.Quote(header), "a pressure unit in the p0 column header, e.g. \"p0 (kPa)\"");
+            var t = text.Trim();
+            var culture = t.Contains(',') && !t.Contains('.') ? CultureInfo.GetCultureInfo("de-DE") : Inv;
+            if (!double.TryParse(t, NumberStyles.Float, culture, out var v) || !(v > 0))
+                throw Fail.At("plan.csv", row.Line, 0, Fail.Quote(t), $"a positive number in column {Fail.Quote(header)}");
+            return unit.ToInternal(v);
+        }
+        return null;
+    }
 
     private static double? FirstOf(RunExport export, SignalSettings s)
     {

@@ -182,6 +182,9 @@ public sealed record SignalSettings
             case "absorbance":
                 if (MolarAbsorptivity is not null && Calibration is not null)
                     throw Fail.Setting(s.File, s.KeyName("molar_absorptivity"), "both a molar absorptivity and [signal.calibration]", "one of them");
+                if (Absorbers.Count > 0 && Calibration is not null)
+                    throw Fail.Setting(s.File, s.KeyName("absorber"), "other absorbers with [signal.calibration]", "other species in [[signal.calibration.other]] instead",
+                        "a calibration learns every species' contribution from its standards");
                 if (CheckChannel is not null && CheckMolarAbsorptivity is null)
                     throw Missing("check_molar_absorptivity", "the molar absorptivity at the check channel, in L/(mol·cm)");
                 break;

@@ -74,3 +74,29 @@ public class PressureAndConductivityTests
         Assert.Equal(Math.Sqrt(0.002 * 0.002 + 0.0015 * 0.0015) / 0.15, rel, 1e-10);
     }
 }
+
+public class PressureFromPlanTests
+{
+    [Fact]
+    public void Initial_pressure_comes_from_a_plan_column_before_the_first_sample()
+    {
+        // Pure A at p0 = 40 kPa (plan column), A(g) → 2 B(g) + C(g), Δν = 2: a reading of 52 kPa leaves p_A = 34 kPa
+        // (worked by hand, as in the decomposition test); [A] = 34000/(R·500)/1000.
+        var s = SignalSettingsTests.Read("kind = \"pressure\"\nchannel = \"p (kPa)\"\ngas_mole_change = 2\ntemperature = 500");
+        var row = new TraceKin.Setup.PlanRow("r1", "r1.csv", null, new Dictionary<string, double>(), new Dictionary<string, string> { ["p0 (kPa)"] = "40" }, 2);
+        var export = TraceKin.Ingest.ExportReader.FromText("time (s),p (kPa)\n0,40.3\n10,46\n20,52\n", "r1.csv", TraceKin.Ingest.IngestSettings.Default);
+        var run = TraceKin.Signal.Conversion.ToConcentration(export, row, s);
+        Assert.Equal(34000 / (PhysicalConstants.GasConstant * 500) / 1000, run.Concentration.Values[2], 1e-15);
+        Assert.Contains(run.ConstantsUsed, kv => kv.Key == "p0" && kv.Value.Contains("(plan)"));
+    }
+
+    [Fact]
+    public void Without_a_plan_column_the_first_sample_is_the_initial_pressure()
+    {
+        var s = SignalSettingsTests.Read("kind = \"pressure\"\nchannel = \"p (kPa)\"\ngas_mole_change = 2\ntemperature = 500");
+        var export = TraceKin.Ingest.ExportReader.FromText("time (s),p (kPa)\n0,40\n10,46\n20,52\n", "r1.csv", TraceKin.Ingest.IngestSettings.Default);
+        var run = TraceKin.Signal.Conversion.ToConcentration(export, SignalSettingsTests.Row(null), s);
+        Assert.Equal(40000 / (PhysicalConstants.GasConstant * 500) / 1000, run.Concentration.Values[0], 1e-15);
+        Assert.Equal(34000 / (PhysicalConstants.GasConstant * 500) / 1000, run.Concentration.Values[2], 1e-15);
+    }
+}
