@@ -129,3 +129,36 @@ public class CalibrationCurveTests
         Assert.Equal(2, ex.Problem.Column);
     }
 }
+
+public class CalibrationFileTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("tracekin-cal-").FullName;
+
+    public void Dispose() => Directory.Delete(_dir, true);
+
+    [Fact]
+    public void Standards_file_beside_series_toml_is_read_and_fitted()
+    {
+        File.WriteAllText(Path.Combine(_dir, "standards.csv"), "signal,[A] (mmol/L)\n0.003,0\n0.205,1\n0.398,2\n0.607,3\n0.801,4\n");
+        var s = SignalSettingsTests.Read("kind = \"calibrated\"\n[signal.calibration]\nfile = \"standards.csv\"");
+        Assert.Null(s.Calibration!.Curve);
+        var loaded = s.WithFilesFrom(_dir);
+        // Same standards as the hand-worked straight line (CalibrationCurveTests), concentrations now in mol/L.
+        Assert.Equal(92.0 / 37 * 1e-3, loaded.Calibration!.Curve!.ToConcentration(0.5), 1e-15);
+    }
+
+    [Fact]
+    public void A_missing_standards_file_names_the_file_key()
+    {
+        var s = SignalSettingsTests.Read("kind = \"calibrated\"\n[signal.calibration]\nfile = \"nowhere.csv\"");
+        var ex = Assert.Throws<InputException>(() => s.WithFilesFrom(_dir));
+        Assert.Equal("signal.calibration.file", ex.Problem.Key);
+    }
+
+    [Fact]
+    public void A_file_and_inline_standards_together_are_refused()
+    {
+        var ex = Assert.Throws<InputException>(() => SignalSettingsTests.Read("kind = \"calibrated\"\n[signal.calibration]\nfile = \"s.csv\"\nsignal = [1, 2, 3]"));
+        Assert.Equal("signal.calibration.file", ex.Problem.Key);
+    }
+}

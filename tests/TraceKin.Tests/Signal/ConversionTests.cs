@@ -108,6 +108,7 @@ public class ConversionTests
         "molar_absorptivity = 1200\nspecies = \"A\"\n[[signal.absorber]]\nspecies = \"P\"\ncoefficient = 1\nmolar_absorptivity = 300",
         "kind = \"calibrated\"\n[signal.calibration]\nmodel = \"quadratic\"\nconcentration_unit = \"mmol/L\"\nsignal = [0.010, 0.262, 0.498, 0.716, 0.921, 1.101]\nconcentration = [0, 1, 2, 3, 4, 5]",
         "kind = \"calibrated\"\n[signal.calibration]\nsignal = [0.0105, 0.2095, 0.4103, 0.0597, 0.1102, 0.2596, 0.5102]\nconcentration = [0, 0.001, 0.002, 0, 0, 0.001, 0.002]\n[[signal.calibration.other]]\nspecies = \"P\"\ncoefficient = 1\nconcentration = [0, 0, 0, 0.001, 0.002, 0.001, 0.002]",
+        "kind = \"absorbance\"\n[signal.calibration]\nsignal = [0.02, 0.51, 1.02, 1.49]\nconcentration = [0, 0.001, 0.002, 0.003]",
         "kind = \"gas_volume\"\nbarometric_pressure = 99.8\npressure_unit = \"kPa\"\nsolution_volume = 50\nzero_offset = 0.3\ntemperature = 22\ntemperature_unit = \"°C\"",
         "kind = \"pressure\"\ngas_mole_change = 1\ninitial_pressure = 30000",
         "kind = \"conductivity\"\nkappa_initial = 0.25\nkappa_final = 0.1\ntemperature_coefficient = 0.021",
