@@ -120,7 +120,7 @@ public sealed record SignalModel
             case "gas_volume":
             {
                 var t = RunTemperature(s, row);
-                var pb = s.BarometricPressure!.Value;
+                var pb = s.BarometricPressure ?? throw Missing(s, "barometric_pressure", "the barometric pressure");
                 if (!s.DryGas)
                 {
                     if (!(t >= WaterVapour.MinimumTemperature && t <= 373.15))
@@ -131,7 +131,7 @@ public sealed record SignalModel
                         throw Fail.Setting(s.Source, "signal.barometric_pressure", $"{G(pb)} Pa",
                             $"a pressure above the water vapour pressure at {G(t)} K ({pw.ToString("F1", Inv)} Pa, IAPWS-IF97)", "check pressure_unit (default Pa)");
                 }
-                var gas = new GasOverWater(pb, t, s.SolutionVolume!.Value, s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, s.ZeroOffset)
+                var gas = new GasOverWater(pb, t, s.SolutionVolume ?? throw Missing(s, "solution_volume", "the volume of the reacting solution"), s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, s.ZeroOffset)
                 {
                     BarometricPressureU = s.BarometricPressureU, TemperatureU = s.TemperatureU, SolutionVolumeU = s.SolutionVolumeU,
                 };
@@ -142,7 +142,7 @@ public sealed record SignalModel
                     new("p_bar", $"{G(pb)} Pa (signal.barometric_pressure)"),
                     new("T", $"{G(t)} K ({(s.Temperature is null ? "plan" : "signal.temperature")})"),
                     new("p_H2O", s.DryGas ? "0 Pa (signal.dry_gas)" : $"{G(gas.WaterVapourPressure)} Pa (IAPWS-IF97 Eq. 30)"),
-                    new("V_solution", $"{G(s.SolutionVolume.Value)} L (signal.solution_volume)"),
+                    new("V_solution", $"{G(gas.SolutionVolume)} L (signal.solution_volume)"),
                     new("ν_gas", $"{G(s.GasCoefficient)} (signal.gas_coefficient)"),
                 };
                 return new SignalModel
@@ -170,7 +170,7 @@ public sealed record SignalModel
                         $"the total pressure at mixing, a \"p0 (kPa)\" column in plan.csv, or [{s.Species}]0 in plan.csv");
                     p0Partial = (s.InitialMoleFraction ?? (s.Coefficient < 0 ? 1 : 0)) * p0;
                 }
-                var pc = new PressureConversion(t, s.GasMoleChange!.Value, s.Coefficient, p0, p0Partial) { TemperatureU = s.TemperatureU };
+                var pc = new PressureConversion(t, s.GasMoleChange is { } dn and not 0 ? dn : throw Missing(s, "gas_mole_change", "a non-zero change in moles of gas per unit extent"), s.Coefficient, p0, p0Partial) { TemperatureU = s.TemperatureU };
                 var (rel, budget) = UncertaintyBudget.Relative(pc.Scale, pc.UncertainInputs());
                 var constants = new List<KeyValuePair<string, string>>
                 {
@@ -178,7 +178,7 @@ public sealed record SignalModel
                     new("T", $"{G(t)} K ({(s.Temperature is null ? "plan" : "signal.temperature")})"),
                     new("p0", $"{G(p0)} Pa ({p0Source})"),
                     new($"p({s.Species})0", $"{G(p0Partial)} Pa"),
-                    new("Δν_gas", $"{G(s.GasMoleChange.Value)} (signal.gas_mole_change)"),
+                    new("Δν_gas", $"{G(pc.GasMoleChange)} (signal.gas_mole_change)"),
                 };
                 return new SignalModel
                 {
@@ -193,7 +193,7 @@ public sealed record SignalModel
                 var k0 = s.KappaInitial ?? first ?? throw Fail.Setting(s.Source, "signal.kappa_initial", "nothing", "the conductivity at mixing (S/m unless conductivity_unit says otherwise)");
                 // A first sample read at the run's temperature is referred to the reference temperature like every other reading.
                 if (s.KappaInitial is null && s.TemperatureCoefficient is { } a0 && temperature is { } tt) k0 /= 1 + a0 * (tt - s.ReferenceTemperature);
-                var kf = s.KappaFinal!.Value;
+                var kf = s.KappaFinal ?? throw Missing(s, "kappa_final", "the conductivity at complete reaction");
                 if (k0 == kf)
                     throw Fail.Setting(s.Source, "signal.kappa_final", $"{G(kf)} S/m, the same as the conductivity at mixing", "a conductivity at complete reaction that differs from the one at mixing");
                 var cc = new ConductivityConversion(k0, kf, RequiredInitial(), s.TemperatureCoefficient, s.ReferenceTemperature)
@@ -217,10 +217,15 @@ public sealed record SignalModel
                     Temperature = temperature, UsesPointTemperature = s.TemperatureCoefficient is not null,
                 };
             }
+            case "calibrated":
+                throw Missing(s, "calibration", "a [signal.calibration] table of standards for kind = \"calibrated\"");
             default:
                 throw Fail.Setting(s.Source, "signal.kind", Fail.Quote(s.Kind), $"one of: {string.Join(", ", SignalSettings.Kinds)}");
         }
     }
+
+    private static InputException Missing(SignalSettings s, string key, string expected) =>
+        Fail.Setting(s.Source, $"signal.{key}", "nothing", expected, "see docs/formats.md, section [signal]");
 
     /// <summary>The gas or cell temperature: signal.temperature, else the plan's; range-checked.</summary>
     private static double RunTemperature(SignalSettings s, PlanRow row)

@@ -12,7 +12,7 @@ namespace TraceKin.Signal;
 public sealed record SignalSettings
 {
     /// <summary>The kinds of signal TraceKin converts.</summary>
-    public static readonly string[] Kinds = ["absorbance", "calibrated", "gas_volume", "pressure", "conductivity"];
+    public static IReadOnlyList<string> Kinds { get; } = ["absorbance", "calibrated", "gas_volume", "pressure", "conductivity"];
 
     /// <summary>series.toml's file name, for errors found while converting.</summary>
     public string Source { get; init; } = "series.toml";
@@ -94,7 +94,7 @@ public sealed record SignalSettings
     public static SignalSettings FromToml(TomlSection s)
     {
         var d = new SignalSettings();
-        var kind = s.Choice("kind", d.Kind, Kinds);
+        var kind = s.Choice("kind", d.Kind, [.. Kinds]);
         var species = s.String("species", d.Species);
         var coefficient = s.Double("coefficient", d.Coefficient);
         if (coefficient == 0)

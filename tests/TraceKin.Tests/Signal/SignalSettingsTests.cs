@@ -136,6 +136,19 @@ public class SignalSettingsTests
         Assert.Contains("[E]0", ex.Problem.Hint);
     }
 
+    [Theory]
+    [InlineData("gas_volume", "signal.barometric_pressure")]
+    [InlineData("pressure", "signal.gas_mole_change")]
+    [InlineData("conductivity", "signal.kappa_final")]
+    [InlineData("calibrated", "signal.calibration")]
+    [InlineData("absorbance", "signal.molar_absorptivity")]
+    public void Settings_built_in_code_without_a_required_value_name_the_key(string kind, string key)
+    {
+        var s = new SignalSettings { Kind = kind, Temperature = 298.15, KappaInitial = 0.3 };
+        var ex = Assert.Throws<InputException>(() => SignalModel.For(s, Row(298.15, ("A", 0.01))));
+        Assert.Equal(key, ex.Problem.Key);
+    }
+
     [Fact]
     public void Settings_read_the_same_under_a_decimal_comma_culture()
     {
