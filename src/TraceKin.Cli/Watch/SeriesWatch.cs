@@ -29,6 +29,7 @@ public sealed class SeriesWatch
     private readonly ILogger _log;
     private readonly Action<string> _status;
     private readonly Dictionary<string, (FileSignature Signature, string Sha256)> _snapshot = new(StringComparer.Ordinal);
+    private readonly HashSet<string> _unreadable = new(StringComparer.Ordinal);
     private bool _cleaned;
     private DateTimeOffset? _settlingSince;
 
@@ -169,11 +170,13 @@ public sealed class SeriesWatch
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
-            _log.Debug("{Series}/{File} cannot be opened yet: {Message}", Name, file, ex.Message);
+            // Said once per file (a writer holding it exclusively is normal for a while); tried again every settle interval.
+            if (_unreadable.Add(file)) _log.Warning("{Series}/{File} cannot be opened for reading yet: {Message}", Name, file, ex.Message);
             _stability.Restart(raw);
             recheck = Earliest(recheck, now + _options.Settle);
             return false;
         }
+        _unreadable.Remove(file);
         sha = Convert.ToHexStringLower(SHA256.HashData(bytes));
         Directory.CreateDirectory(Path.GetDirectoryName(copy)!);
         File.WriteAllBytes(copy, bytes);

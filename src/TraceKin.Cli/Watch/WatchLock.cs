@@ -12,7 +12,7 @@ public sealed class WatchLock : IDisposable
 
     private WatchLock(FileStream stream) => _stream = stream;
 
-    /// <summary>Takes the lock, or returns null with a message saying who holds it.</summary>
+    /// <summary>Takes the lock, or returns null with a message saying why not.</summary>
     public static WatchLock? TryTake(string outDir, out string? refusal)
     {
         Directory.CreateDirectory(outDir);
@@ -24,16 +24,8 @@ public sealed class WatchLock : IDisposable
         }
         catch (IOException)
         {
-            var holder = "";
-            try
-            {
-                using var peek = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);
-                using var reader = new StreamReader(peek);
-                var text = reader.ReadToEnd().Trim();
-                if (text.Length > 0) holder = $" (process {text})";
-            }
-            catch (IOException) { }
-            refusal = $"another tracekin watch is already writing to {outDir}{holder}; stop it first, or choose another --out folder (lock file {path})";
+            // The holder's lock also keeps us from reading its process id, which is in the file.
+            refusal = $"another tracekin watch is already writing to {outDir}; stop it first, or choose another --out folder (lock file {path}, which holds its process id)";
             return null;
         }
         stream.SetLength(0);
