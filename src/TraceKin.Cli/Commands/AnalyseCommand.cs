@@ -44,7 +44,9 @@ public static class AnalyseCommand
     /// <summary>Analyse and write every output; shared by `analyse` and `watch`.</summary>
     public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log)
     {
-        using var runPlot = plots ? new RunPlot(outDir) : null;
+        // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
+        using var plotFiles = new OutputQueue();
+        using var runPlot = plots ? new RunPlot(outDir, plotFiles) : null;
         var options = new AnalysisOptions
         {
             Workers = workers,
@@ -62,7 +64,7 @@ public static class AnalyseCommand
                 log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
             }
         });
-        foreach (var (path, error) in runPlot?.Complete() ?? [])
+        foreach (var (path, error) in plotFiles.Complete())
             log.Error("could not write {Plot}: {Message}", path, error);
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
         foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());

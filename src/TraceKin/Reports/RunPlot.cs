@@ -9,37 +9,41 @@ namespace TraceKin.Reports;
 /// <summary>
 /// The per-run picture: the concentration trace with the early window shaded, the window fit and the initial-rate
 /// tangent on top; the window fit's residuals below. As a run sink it draws on the worker thread (one reusable
-/// renderer per worker) and hands the PNG to an <see cref="OutputQueue"/>, so the worker does not wait for the disk;
-/// <see cref="Complete"/> (or Dispose) waits until every plot is written.
+/// renderer per worker). The PNG is written before <see cref="Accept"/> returns, unless an <see cref="OutputQueue"/>
+/// is given: then the worker hands the bytes over and goes on, and the queue's owner calls
+/// <see cref="OutputQueue.Complete"/> before treating the plots as written.
 /// </summary>
 public sealed class RunPlot : IRunSink, IDisposable
 {
     private readonly string _plotDir;
     // One pixel buffer and render context per worker thread, reused for every run that worker draws.
     private readonly ThreadLocal<PngRenderer> _renderers = new(() => new PngRenderer(), trackAllValues: true);
-    private readonly OutputQueue _files = new();
+    private readonly OutputQueue? _files;
     private bool _disposed;
 
-    public RunPlot(string outDir)
+    public RunPlot(string outDir, OutputQueue? writeQueue = null)
     {
         _plotDir = Path.Combine(outDir, "plots");
+        _files = writeQueue;
         Directory.CreateDirectory(_plotDir);
     }
 
     public static string FileNameFor(string runId) => $"run-{Safe(runId)}.png";
 
-    public void Accept(RunResult run) => _files.Enqueue(Path.Combine(_plotDir, FileNameFor(run.Id)), _renderers.Value!.Render(Build(run)));
+    public void Accept(RunResult run)
+    {
+        var path = Path.Combine(_plotDir, FileNameFor(run.Id));
+        var png = _renderers.Value!.Render(Build(run));
+        if (_files is null) AtomicFile.WriteAllBytes(path, png);
+        else _files.Enqueue(path, png);
+    }
 
     public static byte[] Render(RunResult run) => PlotStyle.ToPng(Build(run));
-
-    /// <summary>Waits until every plot is on disk; returns the plots that could not be written, with the reason.</summary>
-    public IReadOnlyList<(string Path, string Error)> Complete() => _files.Complete();
 
     public void Dispose()
     {
         if (_disposed) return;
         _disposed = true;
-        _files.Dispose();
         foreach (var r in _renderers.Values) r.Dispose();
         _renderers.Dispose();
     }

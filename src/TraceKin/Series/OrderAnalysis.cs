@@ -33,6 +33,7 @@ public static class OrderAnalysis
                 continue;
             }
             var values = usable.Select(r => r.InitialConcentrations[sp]).ToArray();
+            if (values.Length == 0) continue; // no usable run at all: "too-few-runs" below says so
             if (values.Max() / values.Min() - 1 < 1e-9)
             {
                 warnings.Add(new Warning("species-constant", sp, $"[{sp}]0 is the same in every run; its order cannot be found and k includes [{sp}]0^n"));
