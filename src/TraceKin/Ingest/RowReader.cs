@@ -22,6 +22,9 @@ internal sealed class RowReader
     private TimeCells? _time;
     private List<int>? _duplicateLines;
     private Dictionary<int, int>? _merged;
+    // the single-pass reader for plain numeric rows, set up once the time form and decimal separator are known
+    private int[]? _fastTargets;
+    private double[] _rowValues = [];
 
     public RowReader(ReadOnlyMemory<byte> text, string file, DelimitedLayout layout, int timeIndex, ColumnSpec[] columns, IngestSettings settings,
         Dictionary<string, string> metadata, Dictionary<string, int> metadataLines)
@@ -65,9 +68,10 @@ internal sealed class RowReader
         lines.Reset();
         while (lines.LineNumber < _layout.HeaderLine && lines.Next(out _, out _)) { }
         var rest = span[lines.Position..];
+        // one row per line break at most, plus a last line without one: sized once, trimmed only when lines were not rows
         var breaks = rest.Count((byte)'\n');
         if (breaks == 0) breaks = rest.Count((byte)'\r');
-        var capacity = breaks + 1;
+        var capacity = breaks + (rest.Length > 0 && rest[^1] is (byte)'\n' or (byte)'\r' ? 0 : 1);
         Times = new double[capacity];
         Values = new double[_columns.Length][];
         for (var k = 0; k < _columns.Length; k++) Values[k] = new double[capacity];
@@ -136,6 +140,20 @@ internal sealed class RowReader
 
     private void ReadRow(ReadOnlySpan<byte> line, int lineNumber, Cell[] cells, int headerCount)
     {
+        if (_fastTargets is not null && FastRow.TryRead(line, _layout.Delimiter, Decimal, _fastTargets, _rowValues, out var raw))
+        {
+            var time = raw * _time!.Unit!.Factor + _time.Unit.Offset;
+            if (time > Times[Count - 1])
+            {
+                if (Count == Times.Length) Grow();
+                Times[Count] = time;
+                RowLines[Count] = lineNumber;
+                for (var k = 0; k < _rowValues.Length; k++) Values[k][Count] = _rowValues[k];
+                Count++;
+                LastLine = lineNumber;
+                return;
+            }
+        }
         var n = CellSplitter.Split(line, _layout.Delimiter, cells, _file, lineNumber);
         if (n == headerCount + 1 && cells[headerCount].Length == 0 && !cells[headerCount].Quoted) n = headerCount;
         if (n != headerCount) Ragged(line, lineNumber, n, cells, headerCount);
@@ -165,6 +183,15 @@ internal sealed class RowReader
             Values[k][row] = Value(line, lineNumber, cells[_columns[k].Index]);
         Count++;
         LastLine = lineNumber;
+        if (_fastTargets is null && _time.Form == TimeForm.Number && _layout.Delimiter != CellSplitter.Whitespace && (_decimalForced || DecimalLine > 0))
+        {
+            var targets = new int[headerCount];
+            Array.Fill(targets, FastRow.Skip);
+            targets[_timeIndex] = FastRow.Time;
+            for (var k = 0; k < _columns.Length; k++) targets[_columns[k].Index] = k;
+            _rowValues = new double[_columns.Length];
+            _fastTargets = targets;
+        }
     }
 
     /// <summary>True when the row was consumed (dropped or merged into the row before).</summary>
