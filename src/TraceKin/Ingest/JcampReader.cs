@@ -140,9 +140,11 @@ internal static class JcampReader
                 "the file may be truncated or edited");
         if (n < 3)
             throw Fail.At(file, dataLine, 1, $"{n} point{(n == 1 ? "" : "s")}", "at least 3 points for a time course");
-        if (firstX is { } fx && !Close(xs[0], fx, Math.Abs(xs[^1] - xs[0]) / Math.Max(1, n - 1)))
+        // abscissas are written in units of XFACTOR, so half of XFACTOR is the rounding allowed
+        var xTolerance = 0.5 * Math.Abs(xFactor) + 1e-6 * Math.Abs(xs[^1] - xs[0]);
+        if (firstX is { } fx && !Close(xs[0], fx, xTolerance))
             throw Fail.At(file, byKey["FIRSTX"].Line, 1, $"##FIRSTX={Fmt(fx)} but the first X is {Fmt(xs[0])}", "FIRSTX equal to the first abscissa (McDonald & Wilks 1988, FIRSTX check)");
-        if (lastX is { } lx && !Close(xs[^1], lx, Math.Abs(xs[^1] - xs[0]) / Math.Max(1, n - 1)))
+        if (lastX is { } lx && !Close(xs[^1], lx, xTolerance))
             throw Fail.At(file, byKey["LASTX"].Line, 1, $"##LASTX={Fmt(lx)} but the last X is {Fmt(xs[^1])}", "LASTX equal to the last abscissa (McDonald & Wilks 1988, LASTX check)");
         if (firstY is { } fy && !Close(ys[0], fy, Math.Abs(yFactor)))
             throw Fail.At(file, byKey["FIRSTY"].Line, 1, $"##FIRSTY={Fmt(fy)} but the first Y is {Fmt(ys[0])}", "FIRSTY equal to the first ordinate × YFACTOR (McDonald & Wilks 1988, FIRSTY check)");
@@ -215,7 +217,7 @@ internal static class JcampReader
                 x += delta;
             }
             var expected = firstX.Value + ys.Count * delta;
-            if (!Close(x, expected, Math.Abs(delta) * 0.5 + Math.Abs(xFactor)))
+            if (!Close(x, expected, 0.5 * Math.Abs(xFactor) + 1e-3 * Math.Abs(delta)))
                 throw Fail.At(file, line, 1, $"an abscissa of {Fmt(x)}", $"{Fmt(expected)}, from FIRSTX + {ys.Count}·(LASTX − FIRSTX)/(NPOINTS − 1) (McDonald & Wilks 1988, X check)",
                     "points may be missing or the header edited");
             for (var k = firstY; k < numbers.Count; k++)
