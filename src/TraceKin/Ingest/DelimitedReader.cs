@@ -88,16 +88,18 @@ internal static class DelimitedReader
                 continue;
             }
             if (spec.Role == ColumnRole.Reference) detected.Add(new("reference channel", spec.Name));
-            if (spec.Quantity == Quantity.Absorbance && spec.Role == ColumnRole.Signal)
-                trace = SaturationCheck.Apply(trace, rows.RowLines, settings, file, warnings);
+            // a constant column is judged on what the instrument wrote, before saturated points are taken out
             if (spec.Role == ColumnRole.Signal && IsConstant(trace.Values)) constant.Add(spec);
+            else if (spec.Quantity == Quantity.Absorbance && spec.Role == ColumnRole.Signal)
+                trace = SaturationCheck.Apply(trace, rows.RowLines, settings, file, warnings);
             channels.Add(trace);
         }
         var signals = kept.Count(c => c.Role == ColumnRole.Signal);
         if (constant.Count > 0 && constant.Count == signals)
         {
             var c = constant[0];
-            throw Fail.At(file, rows.FirstLine, 1, $"a constant signal in {Fail.Quote(c.Header)} (every value {channels.First(t => t.Name == c.Name).Values[0].ToString("G6", CultureInfo.InvariantCulture)})",
+            var flat = channels.First(t => t.Name == c.Name);
+            throw Fail.At(file, rows.FirstLine, layout.HeaderColumns[c.Index], $"a constant signal in {Fail.Quote(c.Header)} (every value {flat.Values[0].ToString("G6", CultureInfo.InvariantCulture)} {flat.Unit})",
                 "a signal that changes with time", "is this the right column, and was the instrument recording?");
         }
         foreach (var c in constant)

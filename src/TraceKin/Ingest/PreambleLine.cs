@@ -2,19 +2,21 @@ namespace TraceKin.Ingest;
 
 /// <summary>
 /// A metadata line before the header (or after the data): "key: value", "key = value", "key,value" (any delimiter),
-/// optionally behind a comment mark ("# key: value"). The earliest separator on the line splits it.
+/// or behind a comment mark "# key: value" / "# key = value". The earliest separator on the line splits it.
 /// </summary>
 internal static class PreambleLine
 {
     public static bool TryRead(string line, out string key, out string value)
     {
         var text = line.Trim();
-        if (text.Length > 0 && text[0] is '#' or ';') text = text.TrimStart('#', ';').Trim();
+        // behind a comment mark only "key: value" and "key = value" count; "# made by X; seed 7" is prose
+        var comment = text.Length > 0 && text[0] is '#' or ';';
+        if (comment) text = text.TrimStart('#', ';').Trim();
         key = value = "";
         var cut = -1;
         for (var i = 0; i < text.Length; i++)
         {
-            if (text[i] is ':' or '=' or ',' or ';' or '\t')
+            if (text[i] is ':' or '=' || (!comment && text[i] is ',' or ';' or '\t'))
             {
                 cut = i;
                 break;

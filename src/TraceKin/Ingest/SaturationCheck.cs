@@ -45,7 +45,8 @@ internal static class SaturationCheck
         }
         var ranges = string.Join(", ", excluded.Select(r => r.From == r.To ? $"{rowLines[r.From]}" : $"{rowLines[r.From]}–{rowLines[r.To]}"));
         warnings.Add(new Warning("saturated-absorbance", $"{file}:{rowLines[excluded[0].From]}",
-            $"channel {Fail.Quote(trace.Name)}: {drop} reading{(drop == 1 ? "" : "s")} stuck at {max.ToString("G6", CultureInfo.InvariantCulture)} AU (a saturated detector) excluded, lines {ranges}"));
+            $"channel {Fail.Quote(trace.Name)}: {drop} reading{(drop == 1 ? "" : "s")} stuck at {max.ToString("G6", CultureInfo.InvariantCulture)} AU (a saturated detector) excluded, lines {ranges}" +
+            (kept.Length < 3 ? $"; only {kept.Length} {(kept.Length == 1 ? "reading remains" : "readings remain")}" : "")));
         return trace with { Times = times, Values = kept };
     }
 }

@@ -130,6 +130,19 @@ public class DelimitedTextTests
     }
 
     [Fact]
+    public void A_comment_line_of_prose_is_not_metadata_even_with_a_semicolon()
+    {
+        var run = Read("# written by a bench photometer; firmware 2
+time (s),A520
+0,0.3
+1,0.2
+2,0.1
+");
+        Assert.Empty(run.Metadata);
+        Assert.Equal("1 line (0 metadata)", Detected(run, "preamble"));
+    }
+
+    [Fact]
     public void Footer_lines_after_the_data_end_the_table_and_their_keys_are_kept()
     {
         var run = Read("time (s),A520\n0,0.3\n1,0.2\n2,0.1\nEnd of data\nPoints: 3\n");
