@@ -297,7 +297,7 @@ internal sealed class RowReader
 
     private void Ragged(ReadOnlySpan<byte> line, int lineNumber, int n, Cell[] cells, int headerCount)
     {
-        var column = n < headerCount ? line.Length + 1 : LineColumn.ColumnIn(line, cells[Math.Min(headerCount, cells.Length - 1)].Start);
+        var column = n < headerCount ? LineColumn.ColumnIn(line, line.Length) : LineColumn.ColumnIn(line, cells[Math.Min(headerCount, cells.Length - 1)].Start);
         var hint = n < headerCount
             ? "the row is short: a truncated last row, or a missing value?"
             : _layout.Delimiter == (byte)',' && line.Contains((byte)'.') is false

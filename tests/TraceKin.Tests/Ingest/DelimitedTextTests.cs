@@ -132,12 +132,7 @@ public class DelimitedTextTests
     [Fact]
     public void A_comment_line_of_prose_is_not_metadata_even_with_a_semicolon()
     {
-        var run = Read("# written by a bench photometer; firmware 2
-time (s),A520
-0,0.3
-1,0.2
-2,0.1
-");
+        var run = Read("# written by a bench photometer; firmware 2\ntime (s),A520\n0,0.3\n1,0.2\n2,0.1\n");
         Assert.Empty(run.Metadata);
         Assert.Equal("1 line (0 metadata)", Detected(run, "preamble"));
     }
