@@ -83,6 +83,7 @@ internal sealed class RowReader
         while (lines.Next(out var start, out var length))
         {
             var line = span.Slice(start, length);
+            if (TryFast(line, lines.LineNumber)) continue;
             var kind = DelimitedLayout.KindOf(line);
             if (kind is LineKind.Blank or LineKind.Comment) continue;
             if (kind == LineKind.Text)
@@ -138,22 +139,26 @@ internal sealed class RowReader
         while (lines.Next(out start, out length));
     }
 
+    /// <summary>
+    /// The single-pass path for a plain numeric row whose time follows the last one; false sends the line to the
+    /// general path (blank, comment, text, quoted or odd cells, repeated or earlier times), which also reports errors.
+    /// </summary>
+    private bool TryFast(ReadOnlySpan<byte> line, int lineNumber)
+    {
+        if (_fastTargets is null || !FastRow.TryRead(line, _layout.Delimiter, Decimal, _fastTargets, _rowValues, out var raw)) return false;
+        var time = raw * _time!.Unit!.Factor + _time.Unit.Offset;
+        if (!(time > Times[Count - 1])) return false;
+        if (Count == Times.Length) Grow();
+        Times[Count] = time;
+        RowLines[Count] = lineNumber;
+        for (var k = 0; k < _rowValues.Length; k++) Values[k][Count] = _rowValues[k];
+        Count++;
+        LastLine = lineNumber;
+        return true;
+    }
+
     private void ReadRow(ReadOnlySpan<byte> line, int lineNumber, Cell[] cells, int headerCount)
     {
-        if (_fastTargets is not null && FastRow.TryRead(line, _layout.Delimiter, Decimal, _fastTargets, _rowValues, out var raw))
-        {
-            var time = raw * _time!.Unit!.Factor + _time.Unit.Offset;
-            if (time > Times[Count - 1])
-            {
-                if (Count == Times.Length) Grow();
-                Times[Count] = time;
-                RowLines[Count] = lineNumber;
-                for (var k = 0; k < _rowValues.Length; k++) Values[k][Count] = _rowValues[k];
-                Count++;
-                LastLine = lineNumber;
-                return;
-            }
-        }
         var n = CellSplitter.Split(line, _layout.Delimiter, cells, _file, lineNumber);
         if (n == headerCount + 1 && cells[headerCount].Length == 0 && !cells[headerCount].Quoted) n = headerCount;
         if (n != headerCount) Ragged(line, lineNumber, n, cells, headerCount);
