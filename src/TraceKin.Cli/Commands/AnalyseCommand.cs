@@ -1,0 +1,74 @@
+using System.CommandLine;
+using Serilog;
+using TraceKin.Analysis;
+using TraceKin.Reports;
+
+namespace TraceKin.Cli.Commands;
+
+/// <summary>`tracekin analyse SERIES --out DIR`: one series folder in, results folder out.</summary>
+public static class AnalyseCommand
+{
+    public static Command Create()
+    {
+        var series = new Argument<DirectoryInfo>("series") { Description = "Series folder holding plan.csv, series.toml and the exports." };
+        var output = new Option<DirectoryInfo>("--out", "-o") { Description = "Folder for summary.json, runs.csv, plots/ and the log.", Required = true };
+        var noPlots = new Option<bool>("--no-plots") { Description = "Skip the PNG plots (numbers only)." };
+        var workers = new Option<int>("--workers") { Description = "Runs analysed at once (default: number of cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        var cmd = new Command("analyse", "Analyse one series folder: initial rates, fits, orders, rate constant, plots.")
+        {
+            series, output, noPlots, workers,
+        };
+        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers)));
+        return cmd;
+    }
+
+    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers)
+    {
+        if (!series.Exists)
+        {
+            Console.Error.WriteLine($"tracekin: series folder not found: {series.FullName}");
+            return ExitCodes.Usage;
+        }
+        if (workers < 1)
+        {
+            Console.Error.WriteLine("tracekin: --workers must be at least 1");
+            return ExitCodes.Usage;
+        }
+        Directory.CreateDirectory(output.FullName);
+        using var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(output.FullName, "tracekin.log"));
+        log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
+        var result = Analyse(series.FullName, output.FullName, plots, workers, log);
+        return result.Rejected.Count == 0 ? ExitCodes.Ok : ExitCodes.SomeRejected;
+    }
+
+    /// <summary>Analyse and write every output; shared by `analyse` and `watch`.</summary>
+    public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log)
+    {
+        var options = new AnalysisOptions
+        {
+            Workers = workers,
+            RunSink = plots ? new RunPlot(outDir) : null,
+            Progress = (run, status) => log.Information("  {Run}: {Status}", run, status),
+        };
+        var result = SeriesRunner.Analyse(seriesDir, options);
+        foreach (var writer in ReportSet.SeriesWriters(plots))
+        {
+            try { writer.Write(result, outDir); }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
+            }
+        }
+        foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
+        foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
+        if (result.Findings is { } f)
+        {
+            foreach (var o in f.Orders)
+                log.Information("order in {Species}: {Value:0.000} ± {Se:0.000} (95 % CI {Lo:0.000} to {Hi:0.000})", o.Species, o.Value, o.StdError, o.Ci95Low, o.Ci95High);
+            if (f.RateConstant is { } k)
+                log.Information("rate constant k = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", k.Value, k.Unit, k.Ci95Low, k.Ci95High);
+        }
+        log.Information("{Analysed} run(s) analysed, {Rejected} rejected; results in {Out}", result.Runs.Count, result.Rejected.Count, outDir);
+        return result;
+    }
+}

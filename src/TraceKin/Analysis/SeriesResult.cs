@@ -1,0 +1,37 @@
+using TraceKin.Rates;
+using TraceKin.Series;
+using TraceKin.Setup;
+using TraceKin.Signal;
+using TraceKin.Traces;
+
+namespace TraceKin.Analysis;
+
+/// <summary>One analysed run: where it came from, its concentration trace, its rates and warnings.</summary>
+public sealed record RunResult(
+    PlanRow Plan,
+    string InputSha256,
+    RunExport Export,
+    ConvertedRun Converted,
+    RunRates Rates,
+    IReadOnlyList<Warning> Warnings)
+{
+    public string Id => Plan.Run;
+    public string File => Plan.File;
+}
+
+/// <summary>
+/// Everything `analyse` learned about one series folder. <see cref="Config"/> and <see cref="Plan"/> are null when
+/// those files were rejected (the problem is then in <see cref="Rejected"/>).
+/// </summary>
+public sealed record SeriesResult(
+    string Folder,
+    SeriesConfig? Config,
+    Plan? Plan,
+    IReadOnlyList<RunResult> Runs,
+    IReadOnlyList<Problem> Rejected,
+    SeriesFindings? Findings,
+    IReadOnlyList<Warning> Warnings,
+    string ToolVersion)
+{
+    public string Name => Config is { Name.Length: > 0 } c ? c.Name : Path.GetFileName(Path.TrimEndingDirectorySeparator(Folder));
+}

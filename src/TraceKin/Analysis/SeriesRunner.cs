@@ -1,0 +1,109 @@
+using System.Reflection;
+using System.Security.Cryptography;
+using TraceKin.Ingest;
+using TraceKin.Rates;
+using TraceKin.Series;
+using TraceKin.Setup;
+using TraceKin.Signal;
+using TraceKin.Traces;
+
+namespace TraceKin.Analysis;
+
+/// <summary>
+/// Runs the stages over one series folder: plan.csv + series.toml → per run Ingest → Signal → Rates (in parallel,
+/// a bad file rejected with its located problem while the others go on) → Series. Output order follows the plan.
+/// </summary>
+public static class SeriesRunner
+{
+    public const string PlanFile = "plan.csv";
+    public const string ConfigFile = "series.toml";
+
+    public static string ToolVersion { get; } =
+        typeof(SeriesRunner).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "0.0.0";
+
+    public static SeriesResult Analyse(string folder, AnalysisOptions? options = null, CancellationToken cancel = default)
+    {
+        options ??= new AnalysisOptions();
+        var rejected = new List<Problem>();
+        SeriesConfig? config = null;
+        Plan? plan = null;
+        try { config = SeriesConfig.FromFile(Path.Combine(folder, ConfigFile)); }
+        catch (InputException ex) { rejected.Add(ex.Problem); }
+        catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
+        try { plan = Plan.FromFile(Path.Combine(folder, PlanFile)); }
+        catch (InputException ex) { rejected.Add(ex.Problem); }
+        catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
+        if (config is null || plan is null)
+            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+
+        var slots = new (RunResult? Run, Problem? Problem)[plan.Rows.Count];
+        Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
+        {
+            var row = plan.Rows[i];
+            slots[i] = AnalyseRun(folder, row, config);
+            if (slots[i].Run is { } run)
+            {
+                options.RunSink?.Accept(run);
+                options.Progress?.Invoke(row.Run, $"{row.File}: v0 = {run.Rates.Headline.Value:G4} ± {run.Rates.Headline.StdError:G2} {run.Rates.Headline.Unit}");
+            }
+            else options.Progress?.Invoke(row.Run, $"rejected: {slots[i].Problem!.Message}");
+        });
+
+        var runs = slots.Where(s => s.Run is not null).Select(s => s.Run!).ToList();
+        rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
+        var warnings = new List<Warning>();
+        foreach (var unused in UnplannedExports(folder, plan))
+            warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
+
+        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+        var findings = OrderAnalysis.Analyse(points, config.Model);
+        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
+    }
+
+    /// <summary>One run through Ingest → Signal → Rates; bad input becomes its located problem, never an exception.</summary>
+    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config)
+    {
+        var path = Path.Combine(folder, row.File);
+        try
+        {
+            byte[] bytes;
+            try { bytes = File.ReadAllBytes(path); }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                return (null, new Problem(row.File, 0, 0, ex is FileNotFoundException ? "no such file" : "a file that cannot be read (" + ex.Message + ")",
+                    "the export named in plan.csv", $"check the file column of plan.csv (line {row.Line})"));
+            }
+            var hash = Convert.ToHexStringLower(SHA256.HashData(bytes));
+            var export = ExportReader.FromBytes(bytes, row.File, config.Ingest);
+            var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
+            double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
+            var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File);
+            var warnings = export.Warnings.Concat(converted.Warnings).Concat(rates.Warnings).ToList();
+            return (new RunResult(row, hash, export, converted, rates, warnings), null);
+        }
+        catch (InputException ex)
+        {
+            return (null, ex.Problem);
+        }
+        catch (Exception ex) when (ex is not OperationCanceledException)
+        {
+            // A defect of ours must not stop the batch: report it against the file, plainly.
+            return (null, new Problem(row.File, 0, 0, $"an internal error ({ex.GetType().Name}: {ex.Message})", "a readable export",
+                "please report this with the file attached"));
+        }
+    }
+
+    private static Problem Missing(string file, IOException ex) =>
+        new(file, 0, 0, ex is FileNotFoundException or DirectoryNotFoundException ? "no such file" : ex.Message, $"{file} in the series folder", "see docs/formats.md");
+
+    private static IEnumerable<string> UnplannedExports(string folder, Plan plan)
+    {
+        var planned = new HashSet<string>(plan.Rows.Select(r => r.File), StringComparer.Ordinal);
+        foreach (var f in Directory.EnumerateFiles(folder).Select(Path.GetFileName).OfType<string>().Order(StringComparer.Ordinal))
+        {
+            if (f is PlanFile or ConfigFile || f.StartsWith('.') || planned.Contains(f)) continue;
+            var ext = Path.GetExtension(f).ToLowerInvariant();
+            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx") yield return f;
+        }
+    }
+}

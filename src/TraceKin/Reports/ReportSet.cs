@@ -1,0 +1,10 @@
+using TraceKin.Analysis;
+
+namespace TraceKin.Reports;
+
+/// <summary>The outputs of `analyse`, in the order they are written.</summary>
+public static class ReportSet
+{
+    public static IReadOnlyList<ISeriesReportWriter> SeriesWriters(bool plots) =>
+        plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot()] : [new SummaryJson(), new RunsCsv()];
+}

@@ -1,0 +1,88 @@
+using OxyPlot;
+using OxyPlot.Annotations;
+using OxyPlot.Axes;
+using OxyPlot.Series;
+using TraceKin.Analysis;
+
+namespace TraceKin.Reports;
+
+/// <summary>
+/// The per-run picture: the concentration trace with the early window shaded, the window fit and the initial-rate
+/// tangent on top; the window fit's residuals below.
+/// </summary>
+public sealed class RunPlot : IRunSink
+{
+    private readonly string _plotDir;
+
+    public RunPlot(string outDir) => _plotDir = Path.Combine(outDir, "plots");
+
+    public static string FileNameFor(string runId) => $"run-{Safe(runId)}.png";
+
+    public void Accept(RunResult run) => AtomicFile.WriteAllBytes(Path.Combine(_plotDir, FileNameFor(run.Id)), Render(run));
+
+    public static byte[] Render(RunResult run) => PlotStyle.ToPng(Build(run));
+
+    public static PlotModel Build(RunResult run)
+    {
+        var c = run.Converted.Concentration;
+        var h = run.Rates.Headline;
+        var scale = ConcentrationScale(c.Values);
+        var m = PlotStyle.NewModel($"{run.Id} — {run.File}");
+        m.Axes.Add(new LinearAxis { Position = AxisPosition.Bottom, Title = "time (s)", MajorGridlineStyle = LineStyle.Solid, MajorGridlineColor = PlotStyle.Grid });
+        m.Axes.Add(new LinearAxis { Key = "c", Position = AxisPosition.Left, Title = $"[{run.Converted.Species}] ({scale.Unit})", StartPosition = 0.32, EndPosition = 1, MajorGridlineStyle = LineStyle.Solid, MajorGridlineColor = PlotStyle.Grid });
+        m.Axes.Add(new LinearAxis { Key = "r", Position = AxisPosition.Left, Title = $"residual ({scale.Unit})", StartPosition = 0, EndPosition = 0.25, MajorGridlineStyle = LineStyle.Solid, MajorGridlineColor = PlotStyle.Grid });
+
+        var (xs, ys) = Decimation.Envelope(c.Times, c.Values, 900);
+        var dense = xs.Length < c.Count || c.Count > 400;
+        if (dense)
+        {
+            var line = new LineSeries { Title = "data", YAxisKey = "c", Color = PlotStyle.Data, StrokeThickness = 1 };
+            for (var i = 0; i < xs.Length; i++) line.Points.Add(new DataPoint(xs[i], ys[i] * scale.Factor));
+            m.Series.Add(line);
+        }
+        else
+        {
+            var pts = new ScatterSeries { Title = "data", YAxisKey = "c", MarkerType = MarkerType.Circle, MarkerSize = 2.5, MarkerFill = PlotStyle.Data };
+            for (var i = 0; i < c.Count; i++) pts.Points.Add(new ScatterPoint(c.Times[i], c.Values[i] * scale.Factor));
+            m.Series.Add(pts);
+        }
+        m.Annotations.Add(new RectangleAnnotation { MinimumX = h.WindowStart, MaximumX = h.WindowEnd, Fill = PlotStyle.Window, YAxisKey = "c", Layer = AnnotationLayer.BelowSeries });
+
+        var fit = new LineSeries { Title = h.Method, YAxisKey = "c", Color = PlotStyle.Fit, StrokeThickness = 2 };
+        for (var i = 0; i < h.Fitted.Length; i++) fit.Points.Add(new DataPoint(c.Times[i], h.Fitted[i] * scale.Factor));
+        m.Series.Add(fit);
+
+        var tEnd = Math.Min(c.Times[^1], 2 * h.WindowEnd);
+        var tangent = new LineSeries { Title = "initial-rate tangent", YAxisKey = "c", Color = PlotStyle.Tangent, LineStyle = LineStyle.Dash, StrokeThickness = 1.5 };
+        tangent.Points.Add(new DataPoint(0, h.ConcentrationAtZero * scale.Factor));
+        tangent.Points.Add(new DataPoint(tEnd, (h.ConcentrationAtZero + h.Slope * tEnd) * scale.Factor));
+        m.Series.Add(tangent);
+
+        var res = new ScatterSeries { Title = "", YAxisKey = "r", MarkerType = MarkerType.Circle, MarkerSize = 2, MarkerFill = PlotStyle.Fit };
+        for (var i = 0; i < h.Fitted.Length; i++) res.Points.Add(new ScatterPoint(c.Times[i], (c.Values[i] - h.Fitted[i]) * scale.Factor));
+        m.Series.Add(res);
+        m.Annotations.Add(new LineAnnotation { Type = LineAnnotationType.Horizontal, Y = 0, YAxisKey = "r", Color = PlotStyle.Tangent, StrokeThickness = 1 });
+        m.Legends.Add(new OxyPlot.Legends.Legend { LegendPosition = OxyPlot.Legends.LegendPosition.TopRight, LegendBackground = OxyColor.FromAColor(220, OxyColors.White) });
+        m.Subtitle = $"v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit} ({h.Method}, window {h.WindowStart:G3}–{h.WindowEnd:G3} s)";
+        return m;
+    }
+
+    /// <summary>A display unit for concentrations so that axis numbers stay readable.</summary>
+    public static (double Factor, string Unit) ConcentrationScale(ReadOnlySpan<double> values)
+    {
+        var max = 0.0;
+        foreach (var v in values) if (double.IsFinite(v)) max = Math.Max(max, Math.Abs(v));
+        return max switch
+        {
+            >= 0.1 => (1, "mol/L"),
+            >= 1e-4 => (1e3, "mmol/L"),
+            _ => (1e6, "µmol/L"),
+        };
+    }
+
+    public static string Safe(string id)
+    {
+        var chars = id.Select(ch => char.IsLetterOrDigit(ch) || ch is '-' or '_' or '.' ? ch : '_').ToArray();
+        return new string(chars);
+    }
+}

@@ -1,0 +1,200 @@
+using System.Text.Json;
+using TraceKin.Analysis;
+using TraceKin.Fitting;
+using TraceKin.Traces;
+
+namespace TraceKin.Reports;
+
+/// <summary>
+/// summary.json: the machine-readable results, with stable field names (documented in docs/formats.md and
+/// docs/summary.schema.json). Numbers are written round-trip exact; a number that is not finite is written as null.
+/// No time stamps, so the same inputs give the same bytes.
+/// </summary>
+public sealed class SummaryJson : ISeriesReportWriter
+{
+    public const string FileName = "summary.json";
+
+    public void Write(SeriesResult result, string outDir) =>
+        AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s));
+
+    public static void WriteTo(SeriesResult r, Stream stream)
+    {
+        using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
+        w.WriteStartObject();
+        w.WriteString("tool", "TraceKin");
+        w.WriteString("toolVersion", r.ToolVersion);
+        w.WriteString("series", r.Name);
+        w.WriteStartArray("runs");
+        foreach (var run in r.Runs)
+        {
+            w.WriteStartObject();
+            w.WriteString("id", run.Id);
+            w.WriteString("file", run.File);
+            w.WriteString("sha256", run.InputSha256);
+            Num(w, "temperature", run.Plan.TemperatureK);
+            w.WriteStartObject("initialConcentrations");
+            foreach (var (sp, c) in run.Plan.InitialConcentrations.OrderBy(kv => kv.Key, StringComparer.Ordinal)) Num(w, sp, c);
+            w.WriteEndObject();
+            var h = run.Rates.Headline;
+            w.WritePropertyName("initialRate");
+            InitialRate(w, h);
+            w.WriteStartArray("initialRateEstimates");
+            foreach (var e in run.Rates.Estimates) InitialRate(w, e);
+            w.WriteEndArray();
+            w.WriteStartArray("fits");
+            foreach (var f in run.Rates.Fits)
+            {
+                w.WriteStartObject();
+                w.WriteString("model", f.Law);
+                w.WriteBoolean("chosen", f.Chosen);
+                Fit(w, f.Fit);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            Num(w, "systematicRelativeUncertainty", run.Converted.RelativeSystematicUncertainty);
+            Warnings(w, run.Warnings);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+
+        var f0 = r.Findings;
+        w.WriteStartArray("orders");
+        foreach (var o in f0?.Orders ?? [])
+        {
+            w.WriteStartObject();
+            w.WriteString("species", o.Species);
+            Num(w, "value", o.Value);
+            Num(w, "stdError", o.StdError);
+            w.WriteNumber("dof", o.Dof);
+            Pair(w, "ci95", o.Ci95Low, o.Ci95High);
+            w.WriteString("method", o.Method);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        if (f0?.RateConstant is { } k)
+        {
+            w.WriteStartObject("rateConstant");
+            Num(w, "value", k.Value);
+            Num(w, "stdError", k.StdError);
+            w.WriteString("unit", k.Unit);
+            w.WriteNumber("dof", k.Dof);
+            Pair(w, "ci95", k.Ci95Low, k.Ci95High);
+            w.WriteString("method", k.Method);
+            w.WriteEndObject();
+        }
+        else w.WriteNull("rateConstant");
+        w.WriteStartArray("rateConstantPerRun");
+        foreach (var pk in f0?.PerRunK ?? [])
+        {
+            w.WriteStartObject();
+            w.WriteString("run", pk.RunId);
+            Num(w, "value", pk.Value);
+            Num(w, "stdError", pk.StdError);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("pairRatios");
+        foreach (var p in f0?.PairRatios ?? [])
+        {
+            w.WriteStartObject();
+            w.WriteString("runA", p.RunA);
+            w.WriteString("runB", p.RunB);
+            w.WriteString("species", p.Species);
+            Num(w, "concentrationRatio", p.ConcentrationRatio);
+            Num(w, "rateRatio", p.RateRatio);
+            Num(w, "order", p.Order);
+            Num(w, "stdError", p.StdError);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("rejected");
+        foreach (var p in r.Rejected)
+        {
+            w.WriteStartObject();
+            w.WriteString("file", p.File);
+            w.WriteNumber("line", p.Line);
+            w.WriteNumber("column", p.Column);
+            if (p.Key is not null) w.WriteString("key", p.Key);
+            w.WriteString("found", p.Found);
+            w.WriteString("expected", p.Expected);
+            w.WriteString("hint", p.Hint);
+            w.WriteString("message", p.Message);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        Warnings(w, r.Warnings.Concat(f0?.Warnings ?? []).ToList());
+        w.WriteEndObject();
+    }
+
+    private static void InitialRate(Utf8JsonWriter w, Rates.InitialRate h)
+    {
+        w.WriteStartObject();
+        Num(w, "value", h.Value);
+        Num(w, "stdError", h.StdError);
+        w.WriteNumber("dof", h.Dof);
+        w.WriteString("unit", h.Unit);
+        w.WriteString("method", h.Method);
+        Num(w, "windowStart", h.WindowStart);
+        Num(w, "windowEnd", h.WindowEnd);
+        w.WriteNumber("points", h.PointsUsed);
+        w.WriteEndObject();
+    }
+
+    private static void Fit(Utf8JsonWriter w, FitResult f)
+    {
+        w.WriteString("exit", f.Exit.ToString());
+        w.WriteBoolean("converged", f.Converged);
+        w.WriteStartArray("parameters");
+        foreach (var p in f.Parameters)
+        {
+            w.WriteStartObject();
+            w.WriteString("name", p.Name);
+            Num(w, "value", p.Value);
+            Num(w, "stdError", p.StdError);
+            w.WriteBoolean("varied", p.Varied);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteNumber("points", f.PointCount);
+        w.WriteNumber("dof", f.DegreesOfFreedom);
+        Num(w, "chiSquare", f.ChiSquare);
+        Num(w, "reducedChiSquare", f.ReducedChiSquare);
+        Num(w, "rSquared", f.RSquared);
+        Num(w, "aicc", f.AicC);
+        Num(w, "bic", f.Bic);
+    }
+
+    private static void Warnings(Utf8JsonWriter w, IReadOnlyList<Warning> warnings)
+    {
+        w.WriteStartArray("warnings");
+        foreach (var x in warnings)
+        {
+            w.WriteStartObject();
+            w.WriteString("code", x.Code);
+            w.WriteString("where", x.Where);
+            w.WriteString("message", x.Message);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+    }
+
+    private static void Pair(Utf8JsonWriter w, string name, double a, double b)
+    {
+        w.WriteStartArray(name);
+        Val(w, a);
+        Val(w, b);
+        w.WriteEndArray();
+    }
+
+    private static void Num(Utf8JsonWriter w, string name, double? v)
+    {
+        w.WritePropertyName(name);
+        Val(w, v);
+    }
+
+    private static void Val(Utf8JsonWriter w, double? v)
+    {
+        if (v is { } d && double.IsFinite(d)) w.WriteNumberValue(d);
+        else w.WriteNullValue();
+    }
+}
