@@ -89,8 +89,10 @@ public static class SaturationAnalysis
         var maxS = runs.Max(r => r.InitialConcentrations[b.S]);
         if (km.Value > KmBeyondRange * maxS)
         {
-            warnings.Add(new Warning("saturation-beyond-range", b.S, FormattableString.Invariant(
-                $"the fitted Km ({km.Value:G3} mol/L) lies far above the largest [{b.S}]0 ({maxS:G3} mol/L): the series never approaches saturation, so Vmax and Km are not determined; the power law is kept")));
+            // Only worth a warning when AICc alone would have picked the saturation law.
+            if (preferred == ModelSettings.Saturation)
+                warnings.Add(new Warning("saturation-beyond-range", b.S, FormattableString.Invariant(
+                    $"the fitted Km ({km.Value:G3} mol/L) lies far above the largest [{b.S}]0 ({maxS:G3} mol/L): the series never approaches saturation, so Vmax and Km are not determined; the power law is kept")));
             preferred = ModelSettings.Power;
         }
         else if (preferred == ModelSettings.Saturation)
