@@ -17,30 +17,31 @@ public sealed class RateConcentrationPlot : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir)
     {
         if (result.Findings is not { } f || Species(f) is null || f.Temperature is not null) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(f, result.Runs)));
+        var points = result.Runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(f, points)));
     }
 
-    private static string? Species(SeriesFindings f) =>
+    /// <summary>The species on the x axis, or null when there is nothing to draw (no saturation fit and several orders).</summary>
+    public static string? Species(SeriesFindings f) =>
         f.Saturation?.Substrate ?? (f.Orders.Count == 1 && f.PowerLawFit is { Converged: true } ? f.Orders[0].Species : null);
 
-    public static PlotModel Build(SeriesFindings f, IReadOnlyList<RunResult> runs)
+    public static PlotModel Build(SeriesFindings f, IReadOnlyList<RunPoint> runs)
     {
         var s = Species(f)!;
         var sat = f.Saturation;
         var m = PlotStyle.NewModel($"Initial rate against [{s}]0 (chosen law: {f.ChosenLaw})");
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Bottom, $"[{s}]0 (mmol/L)"));
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, "v0 (µmol/(L·s))" + (sat?.CoReactantOrders.Count > 0 ? " / Π[Y]0^n" : "")));
-        var byId = runs.ToDictionary(r => r.Id);
+        var byId = runs.ToDictionary(r => r.RunId);
         var co = sat?.CoReactantOrders ?? [];
         var pts = SeriesPlotParts.Points("runs (±1 se)", PlotStyle.Data);
         var xs = new List<double>();
         foreach (var id in f.RunsUsed)
         {
             if (!byId.TryGetValue(id, out var run)) continue;
-            var c = run.Plan.InitialConcentrations;
+            var c = run.InitialConcentrations;
             var adj = co.Aggregate(1.0, (acc, o) => acc * Math.Pow(c[o.Species], o.Value));
-            var h = run.Rates.Headline;
-            pts.Points.Add(new OxyPlot.Series.ScatterErrorPoint(c[s] * 1e3, h.Value / adj * 1e6, 0, h.StdError / adj * 1e6));
+            pts.Points.Add(new OxyPlot.Series.ScatterErrorPoint(c[s] * 1e3, run.Rate / adj * 1e6, 0, run.RateStdError / adj * 1e6));
             xs.Add(c[s]);
         }
         var (_, x1) = SeriesPlotParts.Range(xs);

@@ -131,7 +131,11 @@ public static class OrderAnalysis
         if (settings.Fits(ModelSettings.Saturation))
         {
             if (groups.Count > 1)
-                warnings.Add(new Warning("saturation-not-fitted", "series", "the saturation law is fitted only to a series at one temperature (Km depends on temperature)"));
+            {
+                // Said only when the user named a substrate; by default the saturation law is simply not tried here.
+                if (settings.Substrate is not null)
+                    warnings.Add(new Warning("saturation-not-fitted", "series", "the saturation law is fitted only to a series at one temperature (Km depends on temperature)"));
+            }
             else if (power.Converged)
             {
                 saturation = SaturationAnalysis.Analyse(usable, varied, fitted, power, weights, settings, warnings);

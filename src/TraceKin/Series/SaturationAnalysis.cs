@@ -39,6 +39,7 @@ public static class SaturationAnalysis
 
         (string S, FitResult Fit, string[] Co)? best = null;
         var failures = new List<string>();
+        var runaway = 0;
         foreach (var s in substrates)
         {
             var x = runs.Select(r => r.InitialConcentrations[s]).ToArray();
@@ -60,6 +61,8 @@ public static class SaturationAnalysis
             var fit = NonlinearLeastSquares.Fit(model, rates, start, new FitOptions { Weights = weights, Lower = lower });
             if (!fit.Converged || fit.Parameters.Any(q => !double.IsFinite(q.StdError)))
             {
+                // Km running off beyond the data is what a series without saturation does: no sign of saturation.
+                if (fit.Parameters[1].Value > KmBeyondRange * x.Max()) runaway++;
                 failures.Add($"{s}: {fit.Exit} ({fit.ExitDetail})");
                 continue;
             }
@@ -67,6 +70,7 @@ public static class SaturationAnalysis
         }
         if (best is not { } b)
         {
+            if (runaway == failures.Count && settings.Substrate is null) return null;
             warnings.Add(new Warning("saturation-fit-failed", "series", "the saturation law could not be fitted: " + string.Join("; ", failures)));
             return null;
         }

@@ -104,6 +104,12 @@ public class SaturationTests
         Assert.True(curv.Quadratic < 0);
         Assert.Contains(f.Warnings, w => w.Code == "power-law-wrong-shape");
         Assert.Contains(f.Warnings, w => w.Code == "saturation-preferred");
+
+        // The rate-concentration plot draws it (PNG signature, and text rendered: a blank plot is far smaller).
+        Assert.Equal("S", TraceKin.Reports.RateConcentrationPlot.Species(f));
+        var png = TraceKin.Reports.PlotStyle.ToPng(TraceKin.Reports.RateConcentrationPlot.Build(f, runs));
+        Assert.Equal(new byte[] { 0x89, (byte)'P', (byte)'N', (byte)'G' }, png[..4]);
+        Assert.True(png.Length > 5000);
     }
 
     [Fact]
