@@ -55,7 +55,10 @@ public static class SeriesRunner
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
-        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)
+        {
+            Trace = new RunTrace(r.Converted.Species, r.Converted.Coefficient, r.Converted.Concentration.Times, r.Converted.Concentration.Values),
+        }).ToList();
         var findings = OrderAnalysis.Analyse(points, config.Model);
         return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
     }

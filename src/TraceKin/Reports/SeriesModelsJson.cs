@@ -6,7 +6,7 @@ namespace TraceKin.Reports;
 
 /// <summary>
 /// The Series stage's model results inside summary.json, as a separate block of top-level fields: "chosenLaw", "design",
-/// "powerLaw", "saturation", "temperature", "arrhenius", "eyring" (documented in docs/formats.md). Absent results are null.
+/// "powerLaw", "saturation", "temperature", "arrhenius", "eyring", "globalFit" (documented in docs/formats.md). Absent results are null.
 /// </summary>
 public static class SeriesModelsJson
 {
@@ -136,6 +136,25 @@ public static class SeriesModelsJson
             w.WriteEndObject();
         }
         else w.WriteNull("eyring");
+
+        if (f?.GlobalFit is { } gf)
+        {
+            w.WriteStartObject("globalFit");
+            Orders(w, "orders", gf.Orders);
+            w.WriteStartArray("rateConstants");
+            foreach (var (group, k) in gf.RateConstants)
+            {
+                w.WriteStartObject();
+                w.WriteString("group", group);
+                RateConstant(w, "rateConstant", k);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            w.WriteNumber("runs", gf.Runs);
+            FitStats(w, "fit", gf.Fit);
+            w.WriteEndObject();
+        }
+        else w.WriteNull("globalFit");
     }
 
     private static void Orders(Utf8JsonWriter w, string name, IReadOnlyList<Order> orders)

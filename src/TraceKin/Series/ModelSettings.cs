@@ -27,6 +27,9 @@ public sealed record ModelSettings
     /// <summary>Temperature (K) at which ΔG‡ is given.</summary>
     public double EyringTemperatureK { get; init; } = 298.15;
 
+    /// <summary>Also fit the power law to every run's whole concentration–time course at once (slower).</summary>
+    public bool GlobalFit { get; init; }
+
     public bool Fits(string law) => Laws.Contains(law, StringComparer.Ordinal);
 
     public static ModelSettings Default { get; } = new();
@@ -52,6 +55,7 @@ public sealed record ModelSettings
             RoundOrders = s.Bool("round_orders") ?? true,
             ReferenceTemperatureK = tref,
             EyringTemperatureK = teyring ?? 298.15,
+            GlobalFit = s.Bool("global_fit") ?? false,
         };
     }
 }

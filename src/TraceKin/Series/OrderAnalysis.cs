@@ -147,8 +147,13 @@ public static class OrderAnalysis
         if (groups.Count > 1)
             temperature = TemperatureAnalysis.Analyse(usable, groups, atOrders, useRounded, settings, warnings);
 
+        GlobalFitFindings? global = null;
+        if (settings.GlobalFit)
+            global = GlobalFit.Analyse(usable, varied, groups, fitted, power.Converged ? power : null, warnings);
+
         return new SeriesFindings(orders, headline, free, useRounded ? rounded : null, perRun, pairs, logLog, used, warnings)
         {
+            GlobalFit = global,
             LogLogOrders = logLogOrders,
             PowerLawFit = power,
             Design = design,

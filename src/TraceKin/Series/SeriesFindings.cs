@@ -3,13 +3,28 @@ using TraceKin.Traces;
 
 namespace TraceKin.Series;
 
-/// <summary>One run as the Series stage sees it: its initial rate and starting conditions (mol/L, K).</summary>
+/// <summary>
+/// One run as the Series stage sees it: its initial rate and starting conditions (mol/L, K), and optionally its
+/// concentration–time course (for the global progress-curve fit).
+/// </summary>
 public sealed record RunPoint(
     string RunId,
     double Rate,
     double RateStdError,
     IReadOnlyDictionary<string, double> InitialConcentrations,
-    double? TemperatureK);
+    double? TemperatureK)
+{
+    public RunTrace? Trace { get; init; }
+}
+
+/// <summary>The followed species' concentration (mol/L) at times (s) after mixing, and its stoichiometric coefficient ν.</summary>
+public sealed record RunTrace(string Species, double Coefficient, double[] Times, double[] Concentrations);
+
+/// <summary>
+/// The power rate law fitted to the whole concentration–time courses of all runs at once (shared orders, one k per
+/// temperature group), by nonlinear least squares on the untransformed concentrations.
+/// </summary>
+public sealed record GlobalFitFindings(IReadOnlyList<Order> Orders, IReadOnlyList<KeyValuePair<string, RateConstant>> RateConstants, FitResult Fit, int Runs);
 
 /// <summary>A reaction order with its standard error, dof and 95 % Student-t interval.</summary>
 public sealed record Order(string Species, double Value, double StdError, int Dof, double Ci95Low, double Ci95High, string Method);
@@ -133,4 +148,5 @@ public sealed record SeriesFindings(
     public SaturationFindings? Saturation { get; init; }
     public string ChosenLaw { get; init; } = "power";
     public TemperatureFindings? Temperature { get; init; }
+    public GlobalFitFindings? GlobalFit { get; init; }
 }

@@ -18,17 +18,19 @@ public class ModelSettingsTests
         Assert.True(m.RoundOrders);
         Assert.Equal(298.15, m.EyringTemperatureK);
         Assert.Null(m.ReferenceTemperatureK);
+        Assert.False(m.GlobalFit);
     }
 
     [Fact]
     public void Keys_are_read_from_the_model_table()
     {
-        var m = Parse("laws = [\"saturation\"]\nsubstrate = \"S\"\nround_orders = false\nreference_temperature = 310.0\neyring_temperature = 310.15\n");
+        var m = Parse("laws = [\"saturation\"]\nsubstrate = \"S\"\nround_orders = false\nreference_temperature = 310.0\neyring_temperature = 310.15\nglobal_fit = true\n");
         Assert.Equal(["power", "saturation"], m.Laws); // the power law is always fitted, as the reference
         Assert.Equal("S", m.Substrate);
         Assert.False(m.RoundOrders);
         Assert.Equal(310.0, m.ReferenceTemperatureK);
         Assert.Equal(310.15, m.EyringTemperatureK);
+        Assert.True(m.GlobalFit);
     }
 
     [Fact]
