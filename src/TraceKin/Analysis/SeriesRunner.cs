@@ -63,7 +63,13 @@ public static class SeriesRunner
         {
             Trace = new RunTrace(r.Converted.Species, r.Converted.Coefficient, r.Converted.Concentration.Times, r.Converted.Concentration.Values),
         }).ToList();
-        var findings = OrderAnalysis.Analyse(points, config.Model);
+        SeriesFindings? findings = null;
+        try { findings = OrderAnalysis.Analyse(points, config.Model); }
+        catch (Exception ex) when (ex is not OperationCanceledException)
+        {
+            // A defect in the series analysis must not lose the per-run results: report it plainly instead.
+            warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
+        }
         return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
     }
 
