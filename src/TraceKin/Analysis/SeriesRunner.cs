@@ -40,30 +40,46 @@ public static class SeriesRunner
         if (config is null || plan is null)
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
 
-        var slots = new (RunResult? Run, Problem? Problem)[plan.Rows.Count];
+        var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
             var (run, problem) = AnalyseRun(folder, row, config);
+            RunTrace? fitTrace = null;
             if (run is not null)
             {
                 if (options.RunSink is { } sink) run = Deliver(sink, run);
                 options.Progress?.Invoke(row.Run, $"{row.File}: v0 = {run.Rates.Headline.Value:G4} ± {run.Rates.Headline.StdError:G2} {run.Rates.Headline.Unit}");
-                // Only what the summary, the report and the series need stays alive once the sink has seen every point.
-                if (options.Retention == TraceRetention.Display) run = RunThinning.Thin(run, options.RetainedColumns);
+                // Only what the summary, the report and the series need stays alive once the sink has seen every point:
+                // the series stage gets the points of the full trace its global fit uses, the rest a display copy.
+                if (options.Retention == TraceRetention.Display)
+                {
+                    fitTrace = GlobalFit.Thin(SeriesTrace(run));
+                    run = RunThinning.Thin(run, options.RetainedColumns);
+                }
             }
             else options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
-            slots[i] = (run, problem);
+            slots[i] = (run, problem, fitTrace);
         });
 
-        var runs = slots.Where(s => s.Run is not null).Select(s => s.Run!).ToList();
+        var analysed = slots.Where(s => s.Run is not null).ToList();
+        var runs = analysed.Select(s => s.Run!).ToList();
         rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
         var warnings = new List<Warning>();
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
-        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
-        var findings = OrderAnalysis.Analyse(points, config.Model);
+        var points = analysed.Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
+        {
+            Trace = x.FitTrace ?? SeriesTrace(x.Run),
+        }).ToList();
+        SeriesFindings? findings = null;
+        try { findings = OrderAnalysis.Analyse(points, config.Model); }
+        catch (Exception ex) when (ex is not OperationCanceledException)
+        {
+            // A defect in the series analysis must not lose the per-run results: report it plainly instead.
+            warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
+        }
         return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
     }
 
@@ -99,6 +115,9 @@ public static class SeriesRunner
                 "please report this with the file attached"));
         }
     }
+
+    private static RunTrace SeriesTrace(RunResult r) =>
+        new(r.Converted.Species, r.Converted.Coefficient, r.Converted.Concentration.Times, r.Converted.Concentration.Values);
 
     /// <summary>Hands a run to the sink; a sink that fails (a plot that cannot be written) becomes a warning on that run.</summary>
     private static RunResult Deliver(IRunSink sink, RunResult run)
