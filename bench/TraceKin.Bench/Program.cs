@@ -120,7 +120,7 @@ if (args[0] == "render")
     }
     Time("fresh_exporter", r => { using var s = new MemoryStream(); new OxyPlot.SkiaSharp.PngExporter { Width = 900, Height = 650 }.Export(RunPlot.Build(r), s); return s.ToArray(); });
     foreach (var (z, shaping, filter, opaque) in new[] { (6, true, SkiaSharp.SKPngEncoderFilterFlags.AllFilters, false), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, false),
-        (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, false, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Sub, true) })
+        (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, false, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Sub, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.None, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true) })
     {
         using var renderer = new PngRenderer(zlibLevel: z, textShaping: shaping, filter: filter, opaque: opaque);
         Time($"reused_zlib{z}_shaping{(shaping ? "on" : "off")}_{filter}_{(opaque ? "opaque" : "alpha")}", r => renderer.Render(RunPlot.Build(r)));
