@@ -81,6 +81,11 @@ if (args[0] == "phases")
     Console.WriteLine(string.Create(ci, $"heap_after_analyse_mb={GC.GetTotalMemory(false) / 1e6:F1}"));
     Console.WriteLine(string.Create(ci, $"heap_after_analyse_live_mb={GC.GetTotalMemory(true) / 1e6:F1}"));
     Console.WriteLine(string.Create(ci, $"pair_ratios={result.Findings?.PairRatios.Count ?? 0}"));
+    // The series stage alone, run again on the same per-run results (it is the serial tail of the run stage).
+    var points = result.Runs.Select(r => new TraceKin.Series.RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+    sw.Restart();
+    _ = TraceKin.Series.OrderAnalysis.Analyse(points, config.Model);
+    Console.WriteLine(string.Create(ci, $"series_stage_again_seconds={sw.Elapsed.TotalSeconds:F3}"));
     foreach (var writer in ReportSet.SeriesWriters(plotsWanted))
     {
         sw.Restart();
