@@ -8,8 +8,8 @@ public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenMo
 /// <summary>
 /// Fits every candidate integrated law (with and, if asked, without a linear drift term) to a whole trace and picks
 /// one by AICc (Burnham &amp; Anderson 2002, "Model Selection and Multimodel Inference", §2.4–2.6; Akaike weights
-/// eq. 2.14). A law's drift variant is preferred only when its AICc is lower by more than 2 (ibid. §2.6: Δ &lt; 2 means
-/// substantial support for the simpler model); order n only when it beats every integer law by more than 10.
+/// eq. 2.14). A law's drift variant is preferred only when its AICc is lower by more than 7 (ibid. §2.6: Δ = 4–7 means
+/// considerably less support for the simpler model); order n only when it beats every integer law by more than 10.
 /// Fits that did not converge take no part in the choice.
 /// </summary>
 public static class IntegratedLawFitter
@@ -48,7 +48,8 @@ public static class IntegratedLawFitter
             all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2)));
         }
 
-        // Per law, the drift variant only with evidence (AICc lower by more than 2); then the integer law with the
+        // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
+        // give Δ = 4–7 as "considerably less support", so the drift-free model is dropped only beyond that); then the integer law with the
         // lowest AICc; order n only when it beats that by more than 10 (Burnham &amp; Anderson 2002, §2.6: Δ &gt; 10 leaves
         // essentially no support for the worse model). Akaike weights over every converged fit.
         var noise = DifferenceNoise(t, y, weights);
@@ -61,7 +62,7 @@ public static class IntegratedLawFitter
             var withDrift = g.FirstOrDefault(r => r.Model.Drift);
             if (plain.Fit is null) return withDrift;
             if (withDrift.Fit is null) return plain;
-            return withDrift.Fit.AicC < plain.Fit.AicC - 2 ? withDrift : plain;
+            return withDrift.Fit.AicC < plain.Fit.AicC - 7 ? withDrift : plain;
         }).ToList();
         var bestInteger = picks.Where(r => r.Model.Law is not NthOrderLaw).OrderBy(r => r.Fit.AicC).FirstOrDefault();
         var nth = picks.FirstOrDefault(r => r.Model.Law is NthOrderLaw);

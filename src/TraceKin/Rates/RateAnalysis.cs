@@ -86,9 +86,12 @@ public static class RateAnalysis
                 break;
         }
 
+        // Disagreement check between the estimates that aim at the slope at t0 itself; the straight line is a chord
+        // (biased low by about half the conversion it spans), so it is compared only when it is the headline.
         foreach (var e in estimates)
         {
             if (ReferenceEquals(e, headline)) continue;
+            if (ReferenceEquals(e, line)) continue;
             var combined = Math.Sqrt(e.StdError * e.StdError + headline.StdError * headline.StdError);
             if (Math.Abs(e.Value - headline.Value) > 2 * combined)
                 warnings.Add(new Warning("initial-rate-disagreement", where, string.Format(ci,
@@ -106,7 +109,7 @@ public static class RateAnalysis
         {
             if (selection.DriftChosen && chosenFit.Fit.Parameters.FirstOrDefault(p => p.Name == "drift") is { } d)
                 warnings.Add(new Warning("baseline-drift", where, string.Format(ci,
-                    "a linear baseline drift of {0:G3} ± {1:G2} per s was fitted (AICc lower by more than 2 with it)", d.Value, d.StdError)));
+                    "a linear baseline drift of {0:G3} ± {1:G2} per s was fitted (AICc lower by more than 7 with it)", d.Value, d.StdError)));
             else if (UnmodelledDrift(t, w, chosenFit.Fit.Residuals))
                 warnings.Add(new Warning("unmodelled-drift", where, "the residuals of the late trace trend with time: the baseline may drift"));
         }
