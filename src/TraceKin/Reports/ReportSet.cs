@@ -6,5 +6,5 @@ namespace TraceKin.Reports;
 public static class ReportSet
 {
     public static IReadOnlyList<ISeriesReportWriter> SeriesWriters(bool plots) =>
-        plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot()] : [new SummaryJson(), new RunsCsv()];
+        plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot(), new RateConcentrationPlot(), new RateConstantPlot(), new ArrheniusPlot(), new EyringPlot()] : [new SummaryJson(), new RunsCsv()];
 }

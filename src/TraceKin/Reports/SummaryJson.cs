@@ -132,6 +132,7 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteEndObject();
         }
         w.WriteEndArray();
+        SeriesModelsJson.Write(w, f0);
         w.WriteStartArray("rejected");
         foreach (var p in r.Rejected)
         {
