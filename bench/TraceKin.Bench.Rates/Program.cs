@@ -6,7 +6,7 @@ using Trace = TraceKin.Traces.Trace;
 
 // Times the Rates stage (spikes, every integrated law with and without drift, three initial-rate estimators) on
 // synthetic first- and second-order traces (invented: closed-form laws, Gaussian noise 0.4 % of [A]0, 0.5 % spikes,
-// fixed seeds). Usage: dotnet run -c Release --project bench/RatesBench -- [traces=1000] [points=10000]
+// fixed seeds). Usage: dotnet run -c Release --project bench/TraceKin.Bench.Rates -- [traces=1000] [points=10000]
 var ci = CultureInfo.InvariantCulture;
 var traces = args.Length > 0 ? int.Parse(args[0], ci) : 1000;
 var points = args.Length > 1 ? int.Parse(args[1], ci) : 10000;
