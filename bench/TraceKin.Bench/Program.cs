@@ -78,6 +78,12 @@ if (args[0] == "phases")
         Retention = full ? TraceRetention.Full : TraceRetention.Display,
     });
     Console.WriteLine(string.Create(ci, $"analyse_seconds={sw.Elapsed.TotalSeconds:F3}"));
+    if (result.Runs.Count > 0)
+    {
+        // What a retained run still holds, array by array (to find per-point data that escapes thinning).
+        var r0 = result.Runs[0];
+        Console.WriteLine(string.Create(ci, $"retained_run0=channels {string.Join("/", r0.Export.Channels.Select(c => c.Count))} concentration {r0.Converted.Concentration.Count} stdErrors {r0.Converted.StdErrors?.Length ?? 0} estimates {string.Join("/", r0.Rates.Estimates.Select(e => e.Fitted.Length))} fits {string.Join("/", r0.Rates.Fits.Select(f => $"{f.Fitted.Length}:{f.Fit.Residuals.Length}"))} spikes {r0.Rates.Spikes.Count}"));
+    }
     Console.WriteLine(string.Create(ci, $"heap_after_analyse_mb={GC.GetTotalMemory(false) / 1e6:F1}"));
     Console.WriteLine(string.Create(ci, $"heap_after_analyse_live_mb={GC.GetTotalMemory(true) / 1e6:F1}"));
     Console.WriteLine(string.Create(ci, $"pair_ratios={result.Findings?.PairRatios.Count ?? 0}"));

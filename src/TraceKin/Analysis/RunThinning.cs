@@ -8,8 +8,9 @@ namespace TraceKin.Analysis;
 /// Shrinks a run's per-point arrays to a display copy: the samples kept are the min/max envelope of the concentration
 /// trace (<see cref="Decimation.EnvelopeIndices"/>), and every array aligned with those samples — export channels,
 /// the concentration, fitted values and residuals — is thinned at the same indices, so they stay aligned and a plot
-/// drawn from the copy looks like one drawn from every point. Scalars (rates, parameters, point counts, χ²) are
-/// untouched. Arrays shared between traces (the time axis) stay shared.
+/// drawn from the copy looks like one drawn from every point. Integrated-law candidates that were not chosen lose
+/// their curves (their numbers stay). Scalars (rates, parameters, point counts, χ²) are untouched. Arrays shared
+/// between traces (the time axis) stay shared.
 /// </summary>
 public static class RunThinning
 {
@@ -52,7 +53,10 @@ public static class RunThinning
         {
             Estimates = run.Rates.Estimates.Select(ThinRate).ToArray(),
             Headline = ThinRate(run.Rates.Headline),
-            Fits = run.Rates.Fits.Select(f => f with { Fitted = Aligned(f.Fitted), Fit = f.Fit with { Residuals = Aligned(f.Fit.Residuals) } }).ToArray(),
+            // The chosen law's curve is kept for drawing; the other candidates keep their numbers but not their curves.
+            Fits = run.Rates.Fits.Select(f => f.Chosen
+                ? f with { Fitted = Aligned(f.Fitted), Fit = f.Fit with { Residuals = Aligned(f.Fit.Residuals) } }
+                : f with { Fitted = [], Fit = f.Fit with { Residuals = [] } }).ToArray(),
         };
         return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
     }

@@ -75,7 +75,9 @@ public sealed class RunPlot : IRunSink, IDisposable
         m.Annotations.Add(new RectangleAnnotation { MinimumX = h.WindowStart, MaximumX = h.WindowEnd, Fill = PlotStyle.Window, YAxisKey = "c", Layer = AnnotationLayer.BelowSeries });
 
         var fit = new LineSeries { Title = h.Method, YAxisKey = "c", Color = PlotStyle.Fit, StrokeThickness = 2 };
-        for (var i = 0; i < h.Fitted.Length; i++) fit.Points.Add(new DataPoint(c.Times[i], h.Fitted[i] * scale.Factor));
+        // Dense fits and residuals are drawn from their min/max envelope per pixel column, like the data.
+        var fitTimes = c.Times.AsSpan(0, h.Fitted.Length);
+        foreach (var i in Visible(fitTimes, h.Fitted)) fit.Points.Add(new DataPoint(c.Times[i], h.Fitted[i] * scale.Factor));
         m.Series.Add(fit);
 
         var tEnd = Math.Min(c.Times[^1], 2 * h.WindowEnd);
@@ -85,13 +87,19 @@ public sealed class RunPlot : IRunSink, IDisposable
         m.Series.Add(tangent);
 
         var res = new ScatterSeries { Title = "", YAxisKey = "r", MarkerType = MarkerType.Circle, MarkerSize = 2, MarkerFill = PlotStyle.Fit };
-        for (var i = 0; i < h.Fitted.Length; i++) res.Points.Add(new ScatterPoint(c.Times[i], (c.Values[i] - h.Fitted[i]) * scale.Factor));
+        var residuals = new double[h.Fitted.Length];
+        for (var i = 0; i < residuals.Length; i++) residuals[i] = c.Values[i] - h.Fitted[i];
+        foreach (var i in Visible(fitTimes, residuals)) res.Points.Add(new ScatterPoint(c.Times[i], residuals[i] * scale.Factor));
         m.Series.Add(res);
         m.Annotations.Add(new LineAnnotation { Type = LineAnnotationType.Horizontal, Y = 0, YAxisKey = "r", Color = PlotStyle.Tangent, StrokeThickness = 1 });
         m.Legends.Add(new OxyPlot.Legends.Legend { LegendPosition = OxyPlot.Legends.LegendPosition.TopRight, LegendBackground = OxyColor.FromAColor(220, OxyColors.White) });
         m.Subtitle = $"v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit} ({h.Method}, window {h.WindowStart:G3}–{h.WindowEnd:G3} s)";
         return m;
     }
+
+    /// <summary>Indices of the points worth drawing: the envelope over the plot's pixel columns, or every point when few.</summary>
+    private static IEnumerable<int> Visible(ReadOnlySpan<double> x, ReadOnlySpan<double> y) =>
+        (IEnumerable<int>?)Decimation.EnvelopeIndices(x, y, PlotStyle.Width) ?? Enumerable.Range(0, x.Length);
 
     /// <summary>A display unit for concentrations so that axis numbers stay readable.</summary>
     public static (double Factor, string Unit) ConcentrationScale(ReadOnlySpan<double> values)
