@@ -17,7 +17,7 @@ public static class RateAnalysis
         var c = concentration.Values.AsSpan(0, count);
         var estimates = new List<InitialRate>();
 
-        var quad = LocalQuadratic(t, c, coefficient, end);
+        var quad = LocalPolynomial(t, c, coefficient, end);
         if (quad is not null) estimates.Add(quad);
         var line = StraightLine(t, c, coefficient, end);
         if (line is not null) estimates.Add(line);
@@ -35,18 +35,21 @@ public static class RateAnalysis
     }
 
     /// <summary>
-    /// Quadratic [X](t) ≈ c0 + c1·t + c2·t² fitted over the early window; d[X]/dt at t = 0 is c1 with the fit's standard error.
+    /// Polynomial [X](t) ≈ Σ c_j·t^j fitted over the early window; d[X]/dt at t = 0 is c1 with the fit's standard error.
     /// Differentiating a local polynomial at the window's edge is the Savitzky–Golay idea (Savitzky &amp; Golay 1964,
-    /// Anal. Chem. 36, 1627); the quadratic removes the first-order curvature bias of a straight chord.
+    /// Anal. Chem. 36, 1627). Projecting the neglected t^(d+1) term onto the fitted degree d over [0, T] (shifted Legendre
+    /// polynomials) gives a slope bias of −(3/5)·a3·T² for d = 2 and +(2/7)·a4·T³ for d = 3: over 20 % conversion of a
+    /// second-order trace that is −3.8 % and −0.5 %, so a cubic is used whenever the window holds enough points.
     /// </summary>
-    private static InitialRate? LocalQuadratic(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, double end)
+    private static InitialRate? LocalPolynomial(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, double end)
     {
         if (t.Length < 6) return null;
-        var fit = LinearLeastSquares.Polynomial(t, c, 2);
+        var degree = t.Length >= 12 ? 3 : 2;
+        var fit = LinearLeastSquares.Polynomial(t, c, degree);
         if (!fit.Converged) return null;
         var slope = fit.Parameters[1];
         return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), fit.DegreesOfFreedom, Units.RateUnit,
-            "local quadratic at t0", t[0], end, t.Length, slope.Value, fit.Parameters[0].Value, Fitted(c, fit.Residuals));
+            degree == 3 ? "local cubic at t0" : "local quadratic at t0", t[0], end, t.Length, slope.Value, fit.Parameters[0].Value, Fitted(c, fit.Residuals));
     }
 
     /// <summary>Straight line over the first half of the early window (a chord: biased low on a curving trace).</summary>

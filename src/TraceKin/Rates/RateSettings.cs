@@ -5,7 +5,7 @@ namespace TraceKin.Rates;
 /// <summary>The [rates] table of series.toml: how each run's initial rate is extracted.</summary>
 public sealed record RateSettings
 {
-    /// <summary>"auto", "line" (straight line over an early window) or "polynomial" (local quadratic at t0).</summary>
+    /// <summary>"auto", "line" (straight line over an early window) or "polynomial" (local cubic, or quadratic for few points, at t0).</summary>
     public string Method { get; init; } = "auto";
     /// <summary>The early window ends when this fraction of the tracked species has reacted.</summary>
     public double WindowConversion { get; init; } = 0.2;

@@ -50,8 +50,8 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             {
                 var unitText = sm.Groups["unit"].Success ? sm.Groups["unit"].Value : "";
                 if (unitText.Length == 0)
-                    throw Fail.At(file, headerIndex + 1, c + 1, Fail.Quote(h), "a concentration unit in the header, e.g. \"[A]0 (mmol/L)\"");
-                species.Add((sm.Groups["sp"].Value.Trim(), c, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, c + 1)));
+                    throw Fail.At(file, headerIndex + 1, Col(headerLine, delimiter, c), Fail.Quote(h), "a concentration unit in the header, e.g. \"[A]0 (mmol/L)\"");
+                species.Add((sm.Groups["sp"].Value.Trim(), c, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, Col(headerLine, delimiter, c))));
                 continue;
             }
             var um = UnitHeader().Match(h);
@@ -64,8 +64,8 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                     tempCol = c;
                     var u = um.Groups["unit"].Success ? um.Groups["unit"].Value : "";
                     if (u.Length == 0)
-                        throw Fail.At(file, headerIndex + 1, c + 1, Fail.Quote(h), "a temperature unit in the header, e.g. \"temperature (°C)\" or \"temperature (K)\"");
-                    tempUnit = Units.Require(u, Quantity.Temperature, file, headerIndex + 1, c + 1);
+                        throw Fail.At(file, headerIndex + 1, Col(headerLine, delimiter, c), Fail.Quote(h), "a temperature unit in the header, e.g. \"temperature (°C)\" or \"temperature (K)\"");
+                    tempUnit = Units.Require(u, Quantity.Temperature, file, headerIndex + 1, Col(headerLine, delimiter, c));
                     break;
                 default: extra.Add((h, c)); break;
             }
@@ -83,28 +83,28 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             if (line.Trim().Length == 0 || line.TrimStart().StartsWith('#')) continue;
             var cells = Split(line, delimiter);
             if (cells.Length != header.Length)
-                throw Fail.At(file, i + 1, Math.Min(cells.Length, header.Length) + 1, $"{cells.Length} cells", $"{header.Length} cells, as in the header", "check for a missing or extra delimiter");
+                throw Fail.At(file, i + 1, Col(line, delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header", "check for a missing or extra delimiter");
             var run = cells[runCol].Trim();
-            if (run.Length == 0) throw Fail.At(file, i + 1, runCol + 1, "an empty run id", "a run id");
+            if (run.Length == 0) throw Fail.At(file, i + 1, Col(line, delimiter, runCol), "an empty run id", "a run id");
             if (seenRuns.TryGetValue(run, out var firstLine))
-                throw Fail.At(file, i + 1, runCol + 1, $"run id {Fail.Quote(run)} again (first on line {firstLine})", "a unique run id per row");
+                throw Fail.At(file, i + 1, Col(line, delimiter, runCol), $"run id {Fail.Quote(run)} again (first on line {firstLine})", "a unique run id per row");
             seenRuns[run] = i + 1;
             var fileName = cells[fileCol].Trim();
-            if (fileName.Length == 0) throw Fail.At(file, i + 1, fileCol + 1, "an empty file name", "the export's file name");
+            if (fileName.Length == 0) throw Fail.At(file, i + 1, Col(line, delimiter, fileCol), "an empty file name", "the export's file name");
             double? temp = null;
             if (tempCol >= 0 && cells[tempCol].Trim().Length > 0)
             {
-                var t = tempUnit!.ToInternal(Number(cells[tempCol], culture, file, i + 1, tempCol + 1));
+                var t = tempUnit!.ToInternal(Number(cells[tempCol], culture, file, i + 1, Col(line, delimiter, tempCol)));
                 if (!(t > 0 && t < 1000))
-                    throw Fail.At(file, i + 1, tempCol + 1, Fail.Quote(cells[tempCol]), "a temperature between 0 K and 1000 K");
+                    throw Fail.At(file, i + 1, Col(line, delimiter, tempCol), Fail.Quote(cells[tempCol]), "a temperature between 0 K and 1000 K");
                 temp = t;
             }
             var conc = new Dictionary<string, double>(StringComparer.Ordinal);
             foreach (var (sp, col, unit) in species)
             {
                 if (cells[col].Trim().Length == 0) continue;
-                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, col + 1));
-                if (v < 0) throw Fail.At(file, i + 1, col + 1, Fail.Quote(cells[col]), "a concentration ≥ 0");
+                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, Col(line, delimiter, col)));
+                if (v < 0) throw Fail.At(file, i + 1, Col(line, delimiter, col), Fail.Quote(cells[col]), "a concentration ≥ 0");
                 conc[sp] = v;
             }
             var ex = extra.ToDictionary(e => e.Name, e => cells[e.Col].Trim(), StringComparer.Ordinal);
@@ -125,6 +125,19 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                 if (t.Length > 0 && char.IsDigit(t[0]) && t.Contains('.') && !t.Contains(',')) return false;
             }
         return false;
+    }
+
+    /// <summary>1-based character position where cell <paramref name="index"/> starts (quotes ignored: plan cells rarely hold delimiters).</summary>
+    private static int Col(string line, char delimiter, int index)
+    {
+        var pos = 0;
+        for (var k = 0; k < index; k++)
+        {
+            var next = line.IndexOf(delimiter, pos);
+            if (next < 0) return line.Length + 1;
+            pos = next + 1;
+        }
+        return pos + 1;
     }
 
     private static double Number(string cell, CultureInfo culture, string file, int line, int col)
