@@ -6,7 +6,7 @@ namespace TraceKin.Tests.Reports;
 /// <summary>
 /// Runs every documented `tracekin` command, so the docs cannot rot. Per document: a fresh folder holding a copy of
 /// sample-traces/, the files the document shows in fences marked <c>file=PATH</c> written out, and each line starting
-/// with "tracekin " inside a <c>sh</c> fence run by the built CLI in document order, in that folder. Each must exit 0.
+/// with "tracekin " (or "dotnet run --project src/TraceKin.Cli -- ") inside a <c>sh</c> fence run by the built CLI in document order, in that folder. Each must exit 0.
 /// `tracekin watch` lines (they run until stopped) are not run here.
 /// </summary>
 public sealed class DocsCommandTests
@@ -17,6 +17,9 @@ public sealed class DocsCommandTests
         if (File.Exists(Path.Combine(RepoPaths.Root, "README.md"))) data.Add("README.md");
         return data;
     }
+
+    /// <summary>How a documented line invokes the CLI: installed, or from a clone without installing.</summary>
+    public static readonly string[] CommandPrefixes = ["tracekin ", "dotnet run --project src/TraceKin.Cli -- "];
 
     /// <summary>A step of a document: a file to write or a command to run.</summary>
     public sealed record Step(string? FilePath, string? FileText, string[]? Command, int Line);
@@ -49,8 +52,13 @@ public sealed class DocsCommandTests
             if (info is null) continue;
             block.Append(line).Append('\n');
             var lang = info.Split(' ', 2)[0];
-            if (lang is "sh" or "bash" or "shell" && line.StartsWith("tracekin ", StringComparison.Ordinal))
-                steps.Add(new Step(null, null, SplitArgs(line["tracekin ".Length..]), i + 1));
+            if (lang is not ("sh" or "bash" or "shell")) continue;
+            foreach (var prefix in CommandPrefixes)
+                if (line.StartsWith(prefix, StringComparison.Ordinal))
+                {
+                    steps.Add(new Step(null, null, SplitArgs(line[prefix.Length..]), i + 1));
+                    break;
+                }
         }
         return steps;
     }
