@@ -62,6 +62,31 @@ public sealed class ReportAttentionTests : IDisposable
     }
 
     [Fact]
+    public void Report_is_written_even_when_series_toml_is_rejected()
+    {
+        var series = RepoPaths.NewTempDir("tracekin-bad-toml");
+        var outDir = RepoPaths.NewTempDir("tracekin-bad-toml-out");
+        try
+        {
+            RepoPaths.CopyDir(RepoPaths.Sample, series);
+            // Invented: a misspelt key on line 2 must be rejected, not silently defaulted.
+            File.WriteAllText(Path.Combine(series, "series.toml"), "[signal]\nmolar_absorbtivity = 1480\n");
+            AnalysedSample.Analyse(series, outDir, plots: true);
+            var (doc, errors) = ReportHtmlTests.Parse(File.ReadAllText(Path.Combine(outDir, ReportHtml.FileName)));
+            Assert.Empty(errors);
+            var problem = Assert.Single(doc.QuerySelectorAll("#rejected li.problem"));
+            Assert.Contains("signal.molar_absorbtivity", problem.TextContent);
+            Assert.Contains("could not be read", doc.GetElementById("settings")!.TextContent);
+            Assert.Contains("No run was analysed", doc.GetElementById("runs")!.TextContent);
+        }
+        finally
+        {
+            Directory.Delete(series, recursive: true);
+            Directory.Delete(outDir, recursive: true);
+        }
+    }
+
+    [Fact]
     public void Escape_replaces_the_five_html_special_characters()
     {
         Assert.Equal("a &lt;b&gt; &amp; &quot;c&quot; &#39;d&#39;", Html.Escape("a <b> & \"c\" 'd'"));
