@@ -188,6 +188,14 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         }
     }
 
+    /// <summary>The generic rendering of one Series result, as HTML (used for results without a dedicated section).</summary>
+    internal static string RenderGeneric(object? value)
+    {
+        var h = new Html();
+        Generic(h, value, 0);
+        return h.ToString();
+    }
+
     private static void Generic(Html h, object? v, int depth)
     {
         switch (v)
@@ -248,8 +256,8 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     private static string Scalar(object? v) => v switch
     {
         null => "—",
-        double d => ReportNumber.Plain(d, 6),
-        float f => ReportNumber.Plain(f, 6),
+        double d => ReportNumber.Plain(d),
+        float f => ReportNumber.Plain(f),
         IFormattable x => x.ToString(null, CultureInfo.InvariantCulture),
         _ => v.ToString() ?? "",
     };
