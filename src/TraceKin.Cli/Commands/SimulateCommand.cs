@@ -35,6 +35,7 @@ public static class SimulateCommand
             {
                 var dir = pr.GetValue(series)!.FullName;
                 var config = SeriesConfig.FromFile(Path.Combine(dir, "series.toml"));
+                config = config with { Signal = config.Signal.WithFilesFrom(dir) };
                 var plan = Plan.FromFile(Path.Combine(dir, "plan.csv"));
                 var ord = Pairs(pr.GetValue(orders) ?? [], "--order");
                 var nu = ord.Keys.ToDictionary(s => s, _ => -1.0);

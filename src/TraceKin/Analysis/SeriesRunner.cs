@@ -27,7 +27,11 @@ public static class SeriesRunner
         var rejected = new List<Problem>();
         SeriesConfig? config = null;
         Plan? plan = null;
-        try { config = SeriesConfig.FromFile(Path.Combine(folder, ConfigFile)); }
+        try
+        {
+            config = SeriesConfig.FromFile(Path.Combine(folder, ConfigFile));
+            config = config with { Signal = config.Signal.WithFilesFrom(folder) };
+        }
         catch (InputException ex) { rejected.Add(ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
         try { plan = Plan.FromFile(Path.Combine(folder, PlanFile)); }

@@ -397,10 +397,21 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         }
         else
         {
-            h.Raw("<table class=\"settings\">\n<thead><tr><th>setting</th><th>value</th><th>from</th></tr></thead>\n<tbody>\n");
-            foreach (var s in SettingsProvenance.Rows(r.Config, r.Folder))
-                h.Raw($"<tr class=\"source-{(s.Source == "default" ? "default" : "file")}\">").Element("td", s.Key, "class=\"name\"").Element("td", s.Value).Element("td", s.Source).Raw("</tr>\n");
-            h.Raw("</tbody>\n</table>\n");
+            var rows = SettingsProvenance.Rows(r.Config, r.Folder);
+            // What the chemist wrote first; then every default in effect, smaller (many apply only to other signal kinds).
+            foreach (var (title, group, cls) in new[]
+            {
+                ("Written in series.toml", rows.Where(x => x.Source != "default").ToList(), "settings"),
+                ("Defaults in effect", rows.Where(x => x.Source == "default").ToList(), "settings defaults"),
+            })
+            {
+                if (group.Count == 0) continue;
+                h.Element("h3", title);
+                h.Raw($"<table class=\"{cls}\">\n<thead><tr><th>setting</th><th>value</th><th>from</th></tr></thead>\n<tbody>\n");
+                foreach (var s in group)
+                    h.Raw($"<tr class=\"source-{(s.Source == "default" ? "default" : "file")}\">").Element("td", s.Key, "class=\"name\"").Element("td", s.Value).Element("td", s.Source).Raw("</tr>\n");
+                h.Raw("</tbody>\n</table>\n");
+            }
             h.Element("p", "Initial concentrations and temperatures come from plan.csv (see the runs table). Values are shown in the units the analysis used.", "class=\"note\"");
         }
         var groups = r.Runs.GroupBy(x => string.Join("\n", x.Converted.ConstantsUsed.Select(kv => kv.Key + "\u0001" + kv.Value)), StringComparer.Ordinal).ToList();

@@ -28,6 +28,8 @@ tr.flagged td { background: var(--warn-bg); }
 tr.not-used td { color: var(--muted); }
 td.warn-cell { color: var(--warn); }
 tr.source-default td { color: var(--muted); }
+table.defaults { font-size: 11.5px; }
+table.defaults td, table.defaults th { padding: 2px 6px; }
 .box { border: 2px solid; border-radius: 4px; padding: 4px 14px 8px; margin: 10px 0; }
 .box ul { margin: 4px 0; padding-left: 20px; }
 .box li { margin: 4px 0; }

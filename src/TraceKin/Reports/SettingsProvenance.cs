@@ -54,11 +54,15 @@ public static class SettingsProvenance
             var sectionKey = Snake(section.Name);
             var table = raw is not null && raw.TryGetValue(sectionKey, out var t) ? t as TomlTable : null;
             var matched = new HashSet<string>(StringComparer.Ordinal);
-            foreach (var p in type.GetProperties(BindingFlags.Public | BindingFlags.Instance))
+            var props = type.GetProperties(BindingFlags.Public | BindingFlags.Instance).Where(p => p.GetIndexParameters().Length == 0).ToList();
+            var propKeys = props.Select(p => Snake(p.Name)).ToHashSet(StringComparer.Ordinal);
+            foreach (var p in props)
             {
-                if (p.GetIndexParameters().Length > 0 || p.GetMethod?.IsStatic == true) continue;
                 var key = Snake(p.Name);
-                var fileKey = table?.Keys.FirstOrDefault(k => k == key || key.StartsWith(k + "_", StringComparison.Ordinal));
+                // A file key names this property exactly, or is a shorter spelling of it (decimal → decimal_separator)
+                // that names no other property (so molar_absorptivity does not claim molar_absorptivity_u).
+                var fileKey = table?.Keys.FirstOrDefault(k => k == key)
+                    ?? table?.Keys.FirstOrDefault(k => !propKeys.Contains(k) && key.StartsWith(k + "_", StringComparison.Ordinal));
                 if (fileKey is not null) matched.Add(fileKey);
                 var text = Describe(p.GetValue(value));
                 if (UnitOf.TryGetValue(p.Name, out var unit) && text != "not set") text += " " + unit;

@@ -14,50 +14,40 @@ public sealed record ConvertedRun(
     double Coefficient,
     double RelativeSystematicUncertainty,
     IReadOnlyList<KeyValuePair<string, string>> ConstantsUsed,
-    IReadOnlyList<Warning> Warnings);
+    IReadOnlyList<Warning> Warnings)
+{
+    /// <summary>Each uncertain conversion input (series.toml key) and its relative contribution to <see cref="RelativeSystematicUncertainty"/>.</summary>
+    public IReadOnlyList<KeyValuePair<string, double>> UncertaintyBudget { get; init; } = [];
+    /// <summary>Per-point standard error of the concentration (mol/L) when the conversion gives one (calibration curves); else null.</summary>
+    public double[]? StdErrors { get; init; }
+}
 
 /// <summary>The Signal stage's front door: picks the conversion named by signal.kind.</summary>
 public static class Conversion
 {
+    /// <summary>Signal → concentration for one run (see <see cref="SignalModel"/> for the conversions and their sources).</summary>
     public static ConvertedRun ToConcentration(RunExport export, PlanRow row, SignalSettings settings, string configFile = "series.toml")
     {
-        var channel = export.Channel(settings.Channel);
-        return settings.Kind switch
+        var s = settings.Source == configFile ? settings : settings with { Source = configFile };
+        var result = RunConversion.Convert(export, row, s);
+        var used = new List<KeyValuePair<string, string>>
         {
-            "absorbance" => BeerLambert(export, channel, settings, configFile),
-            _ => throw Fail.Setting(configFile, "signal.kind", Fail.Quote(settings.Kind), "absorbance"),
+            new("conversion", s.Kind),
+            new("channel", export.Channel(s.Channel).Name),
+        };
+        if (s.ReferenceChannel is { } r) used.Add(new("reference channel", r));
+        used.AddRange(result.Model.ConstantsUsed);
+        return new ConvertedRun(result.Concentration, s.Species, s.Coefficient, result.Model.RelativeSystematicUncertainty, used, result.Warnings)
+        {
+            UncertaintyBudget = result.Model.Budget,
+            StdErrors = result.StdErrors,
         };
     }
 
     /// <summary>
-    /// Beer–Lambert law A − A_blank = ε·l·c (IUPAC Gold Book, "Beer–Lambert law", doi:10.1351/goldbook.B00626).
+    /// Concentration → signal for one run: what the instrument would record for a concentration trace of the followed
+    /// species (used by simulation). Values are in the signal's internal unit (AU, L, Pa, S/m).
     /// </summary>
-    private static ConvertedRun BeerLambert(RunExport export, Trace channel, SignalSettings s, string configFile)
-    {
-        if (channel.Quantity != Quantity.Absorbance)
-            throw Fail.Setting(configFile, "signal.channel", $"{channel.Name} ({channel.Quantity})", "an absorbance channel for signal.kind = \"absorbance\"");
-        var eps = s.MolarAbsorptivity ?? throw Fail.Setting(configFile, "signal.molar_absorptivity", "no value", "the molar absorptivity ε in L/(mol·cm)");
-        var el = eps * s.PathLength;
-        var c = new double[channel.Count];
-        var warnings = new List<Warning>();
-        var maxA = 0.0;
-        for (var i = 0; i < c.Length; i++)
-        {
-            c[i] = (channel.Values[i] - s.Blank) / el;
-            maxA = Math.Max(maxA, channel.Values[i]);
-        }
-        // Absorbance above ~1.5 leaves the linear range of most spectrophotometers (common practice, no source).
-        if (maxA > 1.5)
-            warnings.Add(new Warning("absorbance-above-linear-range", export.File, $"absorbance reaches {maxA:0.###}; above about 1.5 Beer–Lambert may not hold for this instrument"));
-        var used = new List<KeyValuePair<string, string>>
-        {
-            new("conversion", "Beer–Lambert"),
-            new("molar absorptivity", $"{eps:G6} L/(mol·cm)"),
-            new("path length", $"{s.PathLength:G6} cm"),
-            new("blank absorbance", $"{s.Blank:G6}"),
-            new("channel", channel.Name),
-        };
-        var trace = channel.WithValues($"[{s.Species}]", Quantity.Concentration, Units.MolPerLitre, c);
-        return new ConvertedRun(trace, s.Species, s.Coefficient, 0, used, warnings);
-    }
+    public static Trace ToSignal(Trace concentration, PlanRow row, SignalSettings settings, Trace? temperature = null) =>
+        RunConversion.ToSignal(concentration, row, settings, temperature);
 }

@@ -30,19 +30,38 @@ public static class SampleWriter
         sb.AppendLine(ci, $"# simulated by TraceKin {Analysis.SeriesRunner.ToolVersion}; seed {sampling.Seed}");
         sb.AppendLine(ci, $"run: {row.Run}");
         if (row.TemperatureK is { } tk) sb.AppendLine(ci, $"temperature: {tk - 273.15:0.00} °C");
-        var header = s.Kind switch
-        {
-            "absorbance" => s.Channel ?? "A",
-            _ => throw Fail.Setting(config.File, "signal.kind", Fail.Quote(s.Kind), "absorbance (the kinds simulate can write)"),
-        };
+        var (header, unit) = SignalHeader(s);
         sb.AppendLine($"time (s),{header}");
-        var eps = s.MolarAbsorptivity ?? throw Fail.Setting(config.File, "signal.molar_absorptivity", "no value", "ε in L/(mol·cm)");
+        var signal = Conversion.ToSignal(new Trace($"[{s.Species}]", Quantity.Concentration, Units.MolPerLitre, times, tracked), row, s with { Source = config.File });
         for (var i = 0; i < count; i++)
         {
-            var signal = s.Blank + eps * s.PathLength * tracked[i] + RateLawSimulator.Gaussian(rng, sampling.Noise);
-            sb.AppendLine(ci, $"{times[i]:0.###},{signal:0.000000}");
+            var value = unit.FromInternal(signal.Values[i]) + RateLawSimulator.Gaussian(rng, sampling.Noise);
+            var text = value.ToString(s.Kind == "absorbance" ? "0.000000" : "G9", ci);
+            sb.AppendLine(ci, $"{times[i]:0.###},{text}");
         }
         return sb.ToString();
+    }
+
+    /// <summary>The signal column's header and the unit its numbers are written in: signal.channel when set, else a default per kind.</summary>
+    private static (string Header, UnitInfo Unit) SignalHeader(SignalSettings s)
+    {
+        var header = s.Channel ?? s.Kind switch
+        {
+            "gas_volume" => "volume (mL)",
+            "pressure" => "pressure (kPa)",
+            "conductivity" => "conductivity (mS/cm)",
+            "calibrated" => "signal (AU)",
+            _ => "A",
+        };
+        var open = header.LastIndexOfAny(['(', '[']);
+        var unit = open >= 0 ? Units.Find(header[(open + 1)..].TrimEnd(')', ']', ' ')) : null;
+        return (header, unit ?? Units.Find(s.Kind switch
+        {
+            "gas_volume" => Units.Litre,
+            "pressure" => Units.Pascal,
+            "conductivity" => Units.SiemensPerMetre,
+            _ => Units.Absorbance,
+        })!);
     }
 
     private static int StableHash(string s)

@@ -175,9 +175,10 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         Assert.Equal(("0.045", "series.toml"), rows["signal.blank"]);
         Assert.Equal("default", rows["rates.window_end"].Source);
         Assert.Equal("default", rows["ingest.delimiter"].Source);
-        var constants = Report().QuerySelectorAll("#settings table.constants th").Select(th => th.TextContent).ToList();
-        Assert.Contains("molar absorptivity", constants);
-        Assert.Contains("path length", constants);
+        // The conversion constants shown are exactly those the Signal stage reports it used (all runs share them here).
+        var constants = Report().QuerySelectorAll("#settings table.constants tr").Select(tr => (tr.Children[0].TextContent, tr.Children[1].TextContent)).ToList();
+        Assert.Equal(sample.Result.Runs[0].Converted.ConstantsUsed.Select(kv => (kv.Key, kv.Value)).ToList(), constants);
+        Assert.NotEmpty(constants);
     }
 
     [Fact]

@@ -1,0 +1,58 @@
+using TraceKin.Setup;
+using TraceKin.Traces;
+
+namespace TraceKin.Signal;
+
+/// <summary>
+/// The [signal.calibration] table: standards (inline arrays, or a CSV file beside series.toml) and the curve's model.
+/// The curve is fitted when the settings are read, so a bad table is reported before any run is touched.
+/// </summary>
+public sealed record CalibrationSettings
+{
+    /// <summary>"linear" or "quadratic".</summary>
+    public string Model { get; init; } = "linear";
+    /// <summary>CSV file of standards, relative to the series folder; null when the standards are inline.</summary>
+    public string? File { get; init; }
+    /// <summary>Other contributing species: name and stoichiometric coefficient (their concentrations are in the standards).</summary>
+    public IReadOnlyList<(string Species, double Coefficient)> OtherSpecies { get; init; } = [];
+    /// <summary>The standards, once read (inline at once; from <see cref="File"/> by <see cref="SignalSettings.WithFilesFrom"/>).</summary>
+    public CalibrationStandards? Standards { get; init; }
+    /// <summary>The fitted curve, once the standards are known.</summary>
+    public CalibrationCurve? Curve { get; init; }
+
+    internal static CalibrationSettings FromToml(TomlSection s, string species)
+    {
+        var model = s.Choice("model", "linear", "linear", "quadratic");
+        var file = s.String("file");
+        var unit = SignalSettings.UnitOf(s, "concentration_unit", "mol/L", Quantity.Concentration);
+        var signals = s.Doubles("signal");
+        var conc = s.Doubles("concentration");
+        var others = new List<(string, double)>();
+        var otherConc = new List<double[]?>();
+        foreach (var o in s.Sections("other"))
+        {
+            var sp = o.String("species") ?? throw Fail.Setting(s.File, o.KeyName("species"), "nothing", "the name of the other species, as in plan.csv");
+            var nu = o.Double("coefficient") ?? throw Fail.Setting(s.File, o.KeyName("coefficient"), "nothing", $"the stoichiometric coefficient of {sp}");
+            others.Add((sp, nu));
+            otherConc.Add(o.Doubles("concentration")?.Select(unit.ToInternal).ToArray());
+            SignalSettings.RejectUnknown(o);
+        }
+        SignalSettings.RejectUnknown(s);
+
+        var result = new CalibrationSettings { Model = model, File = file, OtherSpecies = others };
+        if (file is not null)
+        {
+            if (signals is not null || conc is not null)
+                throw Fail.Setting(s.File, s.KeyName("file"), "both a file and inline standards", "one of them", "remove either file or signal/concentration");
+            return result;
+        }
+        if (signals is null) throw Fail.Setting(s.File, s.KeyName("signal"), "nothing", "the signal of each standard, e.g. signal = [0.0, 0.21, 0.40]", "or name a CSV of standards with file = \"standards.csv\"");
+        if (conc is null) throw Fail.Setting(s.File, s.KeyName("concentration"), "nothing", $"the concentration of {species} in each standard, e.g. concentration = [0, 1, 2]");
+        for (var k = 0; k < others.Count; k++)
+            if (otherConc[k] is null)
+                throw Fail.Setting(s.File, $"{s.KeyName("other")}[{k}].concentration", "nothing", $"the concentration of {others[k].Item1} in each standard");
+        var standards = new CalibrationStandards(signals, conc.Select(unit.ToInternal).ToArray(),
+            others.Select((o, k) => new CalibrationOther(o.Item1, o.Item2, otherConc[k]!)).ToArray());
+        return result with { Standards = standards, Curve = CalibrationCurve.FromStandards(standards, model, s.File, s.Prefix) };
+    }
+}
