@@ -12,6 +12,8 @@ public static class Program
         var root = new RootCommand("TraceKin: reaction kinetics from instrument time-course exports — initial rates, integrated-law fits, orders, rate constants, plots and reports.");
         root.Subcommands.Add(AnalyseCommand.Create());
         root.Subcommands.Add(SimulateCommand.Create());
+        root.Subcommands.Add(InspectCommand.Create());
+        root.Subcommands.Add(WatchCommand.Create());
         return root;
     }
 }

@@ -59,8 +59,17 @@ public static class SeriesRunner
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
-        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
-        var findings = OrderAnalysis.Analyse(points, config.Model);
+        var points = runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)
+        {
+            Trace = new RunTrace(r.Converted.Species, r.Converted.Coefficient, r.Converted.Concentration.Times, r.Converted.Concentration.Values),
+        }).ToList();
+        SeriesFindings? findings = null;
+        try { findings = OrderAnalysis.Analyse(points, config.Model); }
+        catch (Exception ex) when (ex is not OperationCanceledException)
+        {
+            // A defect in the series analysis must not lose the per-run results: report it plainly instead.
+            warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
+        }
         return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
     }
 

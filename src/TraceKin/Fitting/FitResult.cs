@@ -13,6 +13,8 @@ public enum FitExit
     InvalidValues,
     AtBound,
     TooFewPoints,
+    /// <summary>No trial step lowers chi-square although the gradient is not zero (e.g. a kink or noise in the model).</summary>
+    Stalled,
 }
 
 /// <summary>One parameter of a fit: value, standard error (NaN when it cannot be estimated), start value, varied or fixed.</summary>

@@ -42,6 +42,7 @@ public sealed class OrderPlot : ISeriesReportWriter
                 xmin = Math.Min(xmin, x);
                 xmax = Math.Max(xmax, x);
             }
+            if (Band(f, s, xmin, xmax) is { } band) m.Series.Add(band);
             m.Series.Add(pts);
             var line = new LineSeries { Color = color, StrokeThickness = 1.5 };
             line.Points.Add(new DataPoint(xmin, lnk + o.Value * xmin));
@@ -50,5 +51,24 @@ public sealed class OrderPlot : ISeriesReportWriter
         }
         m.Legends.Add(new OxyPlot.Legends.Legend { LegendPosition = OxyPlot.Legends.LegendPosition.TopLeft });
         return m;
+    }
+
+    /// <summary>
+    /// 95 % confidence band of the fitted line ln k + n·x from the nonlinear fit's covariance (delta method:
+    /// var = var(k)/k² + x²·var(n) + 2x·cov(k, n)/k), for a single-temperature series.
+    /// </summary>
+    private static AreaSeries? Band(Series.SeriesFindings f, int s, double xmin, double xmax)
+    {
+        if (f.PowerLawFit is not { Converged: true, Covariance: { } cov } pf || pf.Parameters.Count != f.Orders.Count + 1) return null;
+        var k = pf.Parameters[0].Value;
+        var j = s + 1;
+        var t = pf.T95;
+        return SeriesPlotParts.Band(s == 0 ? "95 % confidence band" : null, x =>
+        {
+            var y = Math.Log(k) + pf.Parameters[j].Value * x;
+            var v = cov[0, 0] / (k * k) + x * x * cov[j, j] + 2 * x * cov[0, j] / k;
+            var h = t * Math.Sqrt(Math.Max(v, 0));
+            return (y - h, y + h);
+        }, xmin, xmax);
     }
 }

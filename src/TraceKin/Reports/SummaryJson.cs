@@ -107,19 +107,7 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteEndObject();
         }
         w.WriteEndArray();
-        // k at the fitted (unrounded) orders, shown beside the headline k in report.html.
-        if (f0?.RateConstantAtFittedOrders is { } kf)
-        {
-            w.WriteStartObject("rateConstantAtFittedOrders");
-            Num(w, "value", kf.Value);
-            Num(w, "stdError", kf.StdError);
-            w.WriteString("unit", kf.Unit);
-            w.WriteNumber("dof", kf.Dof);
-            Pair(w, "ci95", kf.Ci95Low, kf.Ci95High);
-            w.WriteString("method", kf.Method);
-            w.WriteEndObject();
-        }
-        else w.WriteNull("rateConstantAtFittedOrders");
+        SeriesModelsJson.Write(w, f0);
         w.WriteStartArray("rejected");
         foreach (var p in r.Rejected)
         {

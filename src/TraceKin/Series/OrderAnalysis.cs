@@ -4,12 +4,18 @@ using TraceKin.Traces;
 namespace TraceKin.Series;
 
 /// <summary>
-/// Reaction orders from initial rates: ln v0 = ln k + Σ n_X·ln[X]0, least squares over the runs
-/// (the "method of initial rates"; Espenson, Chemical Kinetics and Reaction Mechanisms, 2nd ed., §1.3, from memory).
-/// Only species whose starting concentration varies get an order; the others are folded into k and said so.
+/// The Series stage's front door: from per-run initial rates to orders, rate constant, saturation check and temperature
+/// dependence. Orders come from the "method of initial rates" (Espenson, Chemical Kinetics and Reaction Mechanisms,
+/// 2nd ed., §1.3, from memory): first the log–log line ln v0 = ln k + Σ n_X·ln[X]0 (a cross-check and the start values),
+/// then the weighted nonlinear fit of v0 = k·Π[X]0^n on the untransformed rates with weights 1/se(v0)², which is reported.
+/// Runs at different temperatures get one k each and share the orders. Only species whose starting concentration varies
+/// independently get an order; the others are folded into k and said so.
 /// </summary>
 public static class OrderAnalysis
 {
+    /// <summary>The simple orders a fitted order is rounded to when its interval contains one.</summary>
+    public static readonly double[] SimpleOrders = [0, 0.5, 1, 1.5, 2];
+
     public static SeriesFindings Analyse(IReadOnlyList<RunPoint> runs, ModelSettings settings)
     {
         var warnings = new List<Warning>();
@@ -20,6 +26,7 @@ public static class OrderAnalysis
                 warnings.Add(new Warning("rate-not-positive", r.RunId, $"initial rate {r.Rate:G4} is not positive; run left out of the order fit"));
             else usable.Add(r);
         }
+        var used = usable.Select(r => r.RunId).ToArray();
 
         var allSpecies = usable.SelectMany(r => r.InitialConcentrations.Keys).Distinct().OrderBy(s => s, StringComparer.Ordinal).ToList();
         var candidates = settings.Species ?? allSpecies.ToArray();
@@ -33,6 +40,7 @@ public static class OrderAnalysis
                 continue;
             }
             var values = usable.Select(r => r.InitialConcentrations[sp]).ToArray();
+            if (values.Length == 0) continue; // no usable run at all: "too-few-runs" below says so
             if (values.Max() / values.Min() - 1 < 1e-9)
             {
                 warnings.Add(new Warning("species-constant", sp, $"[{sp}]0 is the same in every run; its order cannot be found and k includes [{sp}]0^n"));
@@ -42,85 +50,165 @@ public static class OrderAnalysis
         }
 
         var pairs = PairRatios(usable, varied);
-        var p = varied.Count + 1;
+        var groups = TemperatureGroups.Of(usable);
+        var p = varied.Count + groups.Count;
         if (usable.Count < p + 1 || varied.Count == 0)
         {
-            warnings.Add(new Warning("too-few-runs", "series", $"{usable.Count} usable runs for {varied.Count} order(s) and k; need at least {p + 1}"));
-            return new SeriesFindings([], null, null, null, [], pairs, null, usable.Select(r => r.RunId).ToArray(), warnings);
+            warnings.Add(new Warning("too-few-runs", "series", $"{usable.Count} usable runs for {varied.Count} order(s) and {groups.Count} rate constant(s); need at least {p + 1}"));
+            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings);
         }
 
-        var design = new double[usable.Count, p];
-        var y = new double[usable.Count];
-        for (var i = 0; i < usable.Count; i++)
+        // Can the design separate the orders at all? If not, say which species move together and fit nothing.
+        var design = OrderDesign.Check(usable, varied, groups.Index);
+        if (!design.Separable)
         {
-            design[i, 0] = 1;
-            for (var j = 0; j < varied.Count; j++) design[i, j + 1] = Math.Log(usable[i].InitialConcentrations[varied[j]]);
-            y[i] = Math.Log(usable[i].Rate);
+            foreach (var set in design.Confounded)
+                warnings.Add(new Warning("orders-not-separable", string.Join(", ", set),
+                    set.Contains("temperature")
+                        ? $"[{set[0]}]0 changes only together with the temperature, so its order cannot be told apart from the temperature dependence of k; vary it at a fixed temperature"
+                        : $"the starting concentrations of {string.Join(" and ", set)} never vary independently of each other (in every run they keep the same ratio), so their orders cannot be told apart; add runs that change one of them while holding the other(s) fixed"));
+            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings) { Design = design };
         }
-        var names = new[] { "ln k" }.Concat(varied.Select(s => $"n({s})")).ToArray();
-        var fit = LinearLeastSquares.Fit("ln v0 = ln k + Σ n·ln[X]0", names, design, y);
-        if (!fit.Converged)
+        if (design.ConditionNumber > OrderDesign.StrongCollinearity)
+            warnings.Add(new Warning("design-ill-conditioned", "series",
+                $"the species' starting concentrations are strongly correlated across runs (condition number {design.ConditionNumber:G3}); orders are poorly determined and their intervals are wide"));
+
+        var n = usable.Count;
+        var lnc = new double[n, varied.Count];
+        for (var i = 0; i < n; i++)
+            for (var j = 0; j < varied.Count; j++) lnc[i, j] = Math.Log(usable[i].InitialConcentrations[varied[j]]);
+
+        // Log–log line with one intercept per temperature group: the cross-check, and the start of the nonlinear fit.
+        var logLog = LogLog(usable, lnc, varied, groups);
+        if (!logLog.Converged)
         {
-            warnings.Add(new Warning("orders-not-separable", "series", fit.ExitDetail + "; vary each species independently of the others"));
-            return new SeriesFindings([], null, null, null, [], pairs, fit, usable.Select(r => r.RunId).ToArray(), warnings);
+            warnings.Add(new Warning("orders-not-separable", "series", logLog.ExitDetail + "; vary each species independently of the others"));
+            return new SeriesFindings([], null, null, null, [], pairs, logLog, used, warnings) { Design = design };
+        }
+        var logLogOrders = OrdersFrom(logLog, varied, groups.Count, "log-log least squares (cross-check)");
+
+        // Weighted nonlinear fit on the untransformed rates: the reported orders.
+        var rates = usable.Select(r => r.Rate).ToArray();
+        var weights = RateWeights(usable);
+        var model = new PowerLawModel(lnc, groups.Index, groups.Names, varied);
+        var start = Enumerable.Range(0, groups.Count).Select(g => Math.Exp(logLog.Parameters[g].Value))
+            .Concat(logLogOrders.Select(o => o.Value)).ToArray();
+        var power = NonlinearLeastSquares.Fit(model, rates, start, new FitOptions { Weights = weights });
+        IReadOnlyList<Order> orders;
+        if (power.Converged && power.Parameters.All(q => double.IsFinite(q.StdError)))
+            orders = OrdersFrom(power, varied, groups.Count, weights is null ? "nonlinear least squares on v0" : "weighted nonlinear least squares on v0 (weights 1/se²)");
+        else
+        {
+            warnings.Add(new Warning("power-law-fit-failed", "series", $"the nonlinear fit of v0 = k·Π[X]0^n did not converge ({power.Exit}: {power.ExitDetail}); orders are from the log-log line"));
+            orders = logLogOrders;
         }
 
-        var t = fit.T95;
-        var orders = varied.Select((sp, j) =>
-        {
-            var prm = fit.Parameters[j + 1];
-            return new Order(sp, prm.Value, prm.StdError, fit.DegreesOfFreedom, prm.Value - t * prm.StdError, prm.Value + t * prm.StdError, "log-log least squares");
-        }).ToArray();
-        var lnk = fit.Parameters[0];
-        var k = Math.Exp(lnk.Value);
-        var total = orders.Sum(o => o.Value);
-        // The interval of k is the exponential of ln k's symmetric interval; its standard error by the delta method.
-        var free = new RateConstant(k, k * lnk.StdError, RateConstantUnit(total), fit.DegreesOfFreedom,
-            Math.Exp(lnk.Value - t * lnk.StdError), Math.Exp(lnk.Value + t * lnk.StdError), "log-log least squares (fitted orders)");
+        // Rounded orders: only when every interval holds a simple value; k is then refitted there and both are shown.
+        var rounded = orders.ToDictionary(o => o.Species, o => SimpleOrders.MinBy(s => Math.Abs(s - o.Value)));
+        var useRounded = settings.RoundOrders && orders.All(o => o.Ci95Low <= rounded[o.Species] && rounded[o.Species] <= o.Ci95High);
+        if (settings.RoundOrders && !useRounded)
+            warnings.Add(new Warning("orders-not-simple", "series", "not every order's 95 % interval contains a simple value (0, ½, 1, 3/2, 2); k is given at the fitted orders"));
+        var fitted = orders.ToDictionary(o => o.Species, o => o.Value);
+        var atOrders = useRounded ? rounded : fitted;
 
-        // k extrapolated to [X]0 = 1 mol/L through free orders carries their uncertainty. When every order's interval
-        // holds a simple value (a multiple of 1/2), k is refitted at those orders, as chemists report it.
-        var rounded = orders.ToDictionary(o => o.Species, o => Math.Round(o.Value * 2, MidpointRounding.AwayFromZero) / 2);
-        var useRounded = orders.All(o => o.Ci95Low <= rounded[o.Species] && rounded[o.Species] <= o.Ci95High);
-        var atOrders = useRounded ? rounded : orders.ToDictionary(o => o.Species, o => o.Value);
-        var headline = useRounded ? AtFixedOrders(usable, rounded, warnings) ?? free : free;
-        if (!useRounded)
-            warnings.Add(new Warning("orders-not-simple", "series", "not every order's 95 % interval contains a simple value (0, ½, 1, 3/2, 2…); k is given at the fitted orders"));
+        RateConstant? headline = null, free = null;
+        if (groups.Count == 1)
+        {
+            free = power.Converged && orders != logLogOrders
+                ? FromParameter(power, 0, RateConstantUnit(orders.Sum(o => o.Value)), "weighted nonlinear least squares (fitted orders)")
+                : FromLnK(logLog, 0, RateConstantUnit(orders.Sum(o => o.Value)));
+            headline = useRounded ? FixedOrderRateConstant.Fit(usable, rounded, warnings) ?? free : free;
+        }
 
         var perRun = usable.Select(r =>
         {
             var denom = atOrders.Aggregate(1.0, (acc, o) => acc * Math.Pow(r.InitialConcentrations[o.Key], o.Value));
             return new RunRateConstant(r.RunId, r.Rate / denom, r.RateStdError / denom);
         }).ToArray();
-        return new SeriesFindings(orders, headline, free, useRounded ? rounded : null, perRun, pairs, fit, usable.Select(r => r.RunId).ToArray(), warnings);
+
+        var curvature = PowerLawCurvature.Check(usable, lnc, varied, groups, weights, warnings);
+        SaturationFindings? saturation = null;
+        var chosen = ModelSettings.Power;
+        if (settings.Fits(ModelSettings.Saturation))
+        {
+            if (groups.Count > 1)
+            {
+                // Said only when the user named a substrate; by default the saturation law is simply not tried here.
+                if (settings.Substrate is not null)
+                    warnings.Add(new Warning("saturation-not-fitted", "series", "the saturation law is fitted only to a series at one temperature (Km depends on temperature)"));
+            }
+            else if (power.Converged)
+            {
+                saturation = SaturationAnalysis.Analyse(usable, varied, fitted, power, weights, settings, warnings);
+                if (saturation?.Preferred == ModelSettings.Saturation) chosen = ModelSettings.Saturation;
+            }
+        }
+
+        TemperatureFindings? temperature = null;
+        if (groups.Count > 1)
+            temperature = TemperatureAnalysis.Analyse(usable, groups, atOrders, useRounded, settings, warnings);
+
+        GlobalFitFindings? global = null;
+        if (settings.GlobalFit)
+            global = GlobalFit.Analyse(usable, varied, groups, fitted, power.Converged ? power : null, warnings);
+
+        return new SeriesFindings(orders, headline, free, useRounded ? rounded : null, perRun, pairs, logLog, used, warnings)
+        {
+            GlobalFit = global,
+            LogLogOrders = logLogOrders,
+            PowerLawFit = power,
+            Design = design,
+            Curvature = curvature,
+            Saturation = saturation,
+            ChosenLaw = chosen,
+            Temperature = temperature,
+        };
     }
 
-    /// <summary>
-    /// k at fixed orders by weighted least squares on the untransformed rates, v_i = k·x_i with x_i = Π[X]0^n and weights
-    /// 1/se(v_i)² (relative; the error is scaled by the reduced chi-square), a straight line through the origin.
-    /// </summary>
-    private static RateConstant? AtFixedOrders(IReadOnlyList<RunPoint> runs, IReadOnlyDictionary<string, double> orders, List<Warning> warnings)
+    /// <summary>Weights 1/se(v0)² when every run has a positive standard error, else null (equal weights).</summary>
+    public static double[]? RateWeights(IReadOnlyList<RunPoint> runs) =>
+        runs.All(r => r.RateStdError > 0 && double.IsFinite(r.RateStdError)) ? runs.Select(r => 1 / (r.RateStdError * r.RateStdError)).ToArray() : null;
+
+    private static FitResult LogLog(IReadOnlyList<RunPoint> runs, double[,] lnc, IReadOnlyList<string> varied, TemperatureGroups groups)
     {
-        var design = new double[runs.Count, 1];
-        var v = new double[runs.Count];
-        var w = new double[runs.Count];
-        for (var i = 0; i < runs.Count; i++)
+        int n = runs.Count, g = groups.Count, m = varied.Count;
+        var design = new double[n, g + m];
+        var y = new double[n];
+        for (var i = 0; i < n; i++)
         {
-            design[i, 0] = orders.Aggregate(1.0, (acc, o) => acc * Math.Pow(runs[i].InitialConcentrations[o.Key], o.Value));
-            v[i] = runs[i].Rate;
-            w[i] = runs[i].RateStdError > 0 ? 1 / (runs[i].RateStdError * runs[i].RateStdError) : 1;
+            design[i, groups.Index[i]] = 1;
+            for (var j = 0; j < m; j++) design[i, g + j] = lnc[i, j];
+            y[i] = Math.Log(runs[i].Rate);
         }
-        var fit = LinearLeastSquares.Fit("v0 = k·Π[X]0^n", ["k"], design, v, w);
-        if (!fit.Converged)
+        var names = groups.Names.Select(s => s.Length == 0 ? "ln k" : $"ln k({s})").Concat(varied.Select(s => $"n({s})")).ToArray();
+        return LinearLeastSquares.Fit("ln v0 = ln k + Σ n·ln[X]0", names, design, y);
+    }
+
+    private static Order[] OrdersFrom(FitResult fit, IReadOnlyList<string> varied, int offset, string method)
+    {
+        var t = fit.T95;
+        return varied.Select((sp, j) =>
         {
-            warnings.Add(new Warning("rate-constant-fit-failed", "series", fit.ExitDetail));
-            return null;
-        }
-        var k = fit.Parameters[0];
+            var prm = fit.Parameters[offset + j];
+            return new Order(sp, prm.Value, prm.StdError, fit.DegreesOfFreedom, prm.Value - t * prm.StdError, prm.Value + t * prm.StdError, method);
+        }).ToArray();
+    }
+
+    private static RateConstant FromParameter(FitResult fit, int index, string unit, string method)
+    {
+        var k = fit.Parameters[index];
         var h = fit.T95 * k.StdError;
-        var label = string.Join(", ", orders.Select(o => $"{o.Key} {o.Value:0.#}"));
-        return new RateConstant(k.Value, k.StdError, RateConstantUnit(orders.Values.Sum()), fit.DegreesOfFreedom, k.Value - h, k.Value + h,
-            $"weighted least squares at rounded orders ({label})");
+        return new RateConstant(k.Value, k.StdError, unit, fit.DegreesOfFreedom, k.Value - h, k.Value + h, method);
+    }
+
+    /// <summary>k = exp(ln k): its interval is the exponential of ln k's symmetric one, its standard error by the delta method.</summary>
+    private static RateConstant FromLnK(FitResult fit, int index, string unit)
+    {
+        var lnk = fit.Parameters[index];
+        var k = Math.Exp(lnk.Value);
+        var t = fit.T95;
+        return new RateConstant(k, k * lnk.StdError, unit, fit.DegreesOfFreedom,
+            Math.Exp(lnk.Value - t * lnk.StdError), Math.Exp(lnk.Value + t * lnk.StdError), "log-log least squares (fitted orders)");
     }
 
     /// <summary>Unit of k for a total order n: (mol/L)^(1−n)·s⁻¹, written plainly.</summary>

@@ -44,6 +44,8 @@ public static class Units
             Add(Quantity.Concentration, 1e-6, 0, $"{mu}mol/L", $"{mu}mol/l", $"{mu}M");
             Add(Quantity.GasVolume, 1e-6, 0, $"{mu}L", $"{mu}l");
             Add(Quantity.Conductivity, 1e-4, 0, $"{mu}S/cm");
+            Add(Quantity.Conductivity, 1e-6, 0, $"{mu}S/m");
+            Add(Quantity.Time, 1e-6, 0, $"{mu}s");
         }
         Add(Quantity.Concentration, 1e-9, 0, "nmol/L", "nmol/l", "nM");
         Add(Quantity.Temperature, 1, 0, "K", "kelvin");
@@ -57,12 +59,14 @@ public static class Units
         Add(Quantity.Pressure, 6894.757293168, 0, "psi");
         Add(Quantity.Pressure, 101325.0 / 760, 0, "Torr", "torr");
         Add(Quantity.Pressure, 133.322387415, 0, "mmHg");
-        Add(Quantity.GasVolume, 1, 0, "L", "l", "dm3");
-        Add(Quantity.GasVolume, 1e-3, 0, "mL", "ml", "cm3", "cc");
+        Add(Quantity.GasVolume, 1, 0, "L", "l", "dm3", "dm³");
+        Add(Quantity.GasVolume, 1e-3, 0, "mL", "ml", "cm3", "cm³", "cc");
         Add(Quantity.GasVolume, 1e3, 0, "m3");
         Add(Quantity.Conductivity, 1, 0, "S/m");
         Add(Quantity.Conductivity, 0.1, 0, "mS/cm");
         Add(Quantity.Conductivity, 1e-3, 0, "mS/m");
+        Add(Quantity.Conductivity, 100, 0, "S/cm");
+        Add(Quantity.Absorbance, 1e-3, 0, "mAU", "mOD");
         Add(Quantity.Absorbance, 1, 0, "AU", "au", "A", "OD", "abs", "");
         Add(Quantity.Other, 1, 0, "cm");
         Add(Quantity.Other, 0.1, 0, "mm");
@@ -71,6 +75,17 @@ public static class Units
 
     /// <summary>The unit of that spelling, or null when TraceKin does not know it (callers report it, never guess).</summary>
     public static UnitInfo? Find(string symbol) => Table.GetValueOrDefault(symbol.Trim());
+
+    /// <summary>
+    /// The unit of that spelling, else the one unit whose spelling matches ignoring case ("KPA" → kPa, as upper-case
+    /// formats such as JCAMP-DX write them); null when none or more than one quantity matches.
+    /// </summary>
+    public static UnitInfo? FindIgnoringCase(string symbol)
+    {
+        if (Find(symbol) is { } exact) return exact;
+        var matches = Table.Where(p => string.Equals(p.Key, symbol.Trim(), StringComparison.OrdinalIgnoreCase)).Select(p => p.Value).ToArray();
+        return matches.Length > 0 && matches.All(m => m.Quantity == matches[0].Quantity && m.Factor == matches[0].Factor && m.Offset == matches[0].Offset) ? matches[0] : null;
+    }
 
     /// <summary>The unit of that spelling, which must measure <paramref name="quantity"/>; else a located error.</summary>
     public static UnitInfo Require(string symbol, Quantity quantity, string file, int line, int column)

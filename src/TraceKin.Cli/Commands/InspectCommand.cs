@@ -1,0 +1,118 @@
+using System.CommandLine;
+using System.Globalization;
+using TraceKin.Ingest;
+using TraceKin.Setup;
+using TraceKin.Traces;
+
+namespace TraceKin.Cli.Commands;
+
+/// <summary>
+/// `tracekin inspect FILE…`: reads each export as `analyse` would and prints what was detected — encoding, delimiter,
+/// decimal separator, preamble metadata, columns with quantity and unit, points, time span and sampling interval,
+/// warnings — or the located reason it was rejected. Exit 0 when every file was read, 2 when some were rejected.
+/// </summary>
+public static class InspectCommand
+{
+    public static Command Create()
+    {
+        var files = new Argument<FileInfo[]>("files") { Description = "Export files to read.", Arity = ArgumentArity.OneOrMore };
+        var settings = new Option<FileInfo?>("--settings", "-s")
+        {
+            Description = "series.toml whose [ingest] table forces format decisions (default: series.toml beside each file, when present).",
+        };
+        var cmd = new Command("inspect", "Show how TraceKin reads instrument exports: detected format, columns, units, time span, warnings.")
+        {
+            files, settings,
+        };
+        cmd.SetAction(pr => Run(pr.GetValue(files) ?? [], pr.GetValue(settings), Console.Out));
+        return cmd;
+    }
+
+    public static int Run(IReadOnlyList<FileInfo> files, FileInfo? settingsFile, TextWriter output)
+    {
+        if (settingsFile is { Exists: false })
+        {
+            output.WriteLine($"tracekin: settings file not found: {settingsFile.FullName}");
+            return ExitCodes.Usage;
+        }
+        var rejected = 0;
+        foreach (var file in files)
+        {
+            output.WriteLine(file.Name);
+            try
+            {
+                var (settings, source) = SettingsFor(file, settingsFile);
+                if (source is not null) output.WriteLine($"  {"settings",-20} [ingest] of {source}");
+                var run = ExportReader.FromFile(file.FullName, settings);
+                Print(run, output);
+            }
+            catch (InputException ex)
+            {
+                rejected++;
+                output.WriteLine($"  rejected: {ex.Problem.Message}");
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                rejected++;
+                output.WriteLine($"  rejected: {file.Name}: could not be read ({ex.Message})");
+            }
+            output.WriteLine();
+        }
+        output.WriteLine($"{files.Count - rejected} of {files.Count} file{(files.Count == 1 ? "" : "s")} read, {rejected} rejected");
+        return rejected == 0 ? ExitCodes.Ok : ExitCodes.SomeRejected;
+    }
+
+    private static (IngestSettings Settings, string? Source) SettingsFor(FileInfo file, FileInfo? explicitFile)
+    {
+        var path = explicitFile?.FullName ?? Path.Combine(file.DirectoryName ?? ".", "series.toml");
+        if (!File.Exists(path)) return (IngestSettings.Default, null);
+        return (SeriesConfig.FromFile(path).Ingest, Path.GetFileName(path));
+    }
+
+    private static void Print(RunExport run, TextWriter o)
+    {
+        foreach (var (key, value) in run.Detected)
+        {
+            if (key.StartsWith("column ", StringComparison.Ordinal)) continue;
+            o.WriteLine($"  {key,-20} {value}");
+        }
+        if (run.Metadata.Count > 0)
+        {
+            o.WriteLine("  metadata");
+            foreach (var (key, value) in run.Metadata) o.WriteLine($"    {key,-18} {value}");
+        }
+        o.WriteLine("  columns");
+        foreach (var (key, value) in run.Detected.Where(d => d.Key.StartsWith("column ", StringComparison.Ordinal)))
+            o.WriteLine($"    {key["column ".Length..],-18} {value}");
+        o.WriteLine("  traces");
+        foreach (var t in run.Channels) o.WriteLine("    " + Describe(t, "channel"));
+        foreach (var t in run.Auxiliary) o.WriteLine("    " + Describe(t, "auxiliary"));
+        if (run.Warnings.Count == 0) o.WriteLine("  warnings             none");
+        else
+        {
+            o.WriteLine("  warnings");
+            foreach (var w in run.Warnings) o.WriteLine($"    [{w.Code}] {w}");
+        }
+    }
+
+    private static string Describe(Trace t, string role)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        var span = t.Count > 0 ? $"{t.Times[0].ToString("G6", inv)} to {t.Times[^1].ToString("G6", inv)} s" : "no points";
+        var unit = t.Unit.Length == 0 ? "no unit" : t.Unit;
+        var source = t.SourceUnit is { Length: > 0 } s && s != t.Unit ? $" (read in {s})" : "";
+        return $"{t.Name,-18} {role,-9} {Units.Describe(t.Quantity),-13} {unit}{source}; {t.Count} point{(t.Count == 1 ? "" : "s")}, {span}, {Interval(t.Times)}";
+    }
+
+    /// <summary>The median step between samples, and whether the steps are even.</summary>
+    private static string Interval(double[] times)
+    {
+        if (times.Length < 2) return "no interval";
+        var steps = new double[times.Length - 1];
+        for (var k = 1; k < times.Length; k++) steps[k - 1] = times[k] - times[k - 1];
+        Array.Sort(steps);
+        var median = steps[steps.Length / 2];
+        var even = steps[^1] - steps[0] <= 1e-6 * Math.Max(1, Math.Abs(median));
+        return $"every {median.ToString("G6", CultureInfo.InvariantCulture)} s{(even ? "" : $" (median; steps {steps[0].ToString("G4", CultureInfo.InvariantCulture)} to {steps[^1].ToString("G4", CultureInfo.InvariantCulture)} s)")}";
+    }
+}

@@ -1,0 +1,39 @@
+using Serilog;
+using TraceKin.Analysis;
+using TraceKin.Reports;
+
+namespace TraceKin.Cli.Watch;
+
+/// <summary>
+/// Draws a run's plot only when something it depends on changed (the export's content, plan.csv, series.toml or
+/// the tool version) or the picture is missing, so re-analysing a series after one new export redraws one plot,
+/// not all — also after a restart. What each plot was drawn from is kept in a small key file beside the snapshot,
+/// written after the picture, so a kill in between only costs one redraw. A plot that cannot be written is logged and
+/// counted, never thrown.
+/// </summary>
+public sealed class ChangedRunPlots(string outDir, string keyDir, IReadOnlyDictionary<string, string> inputs, ILogger log) : IRunSink
+{
+    private readonly RunPlot _plot = new(outDir);
+    private int _failures;
+
+    public int Failures => Volatile.Read(ref _failures);
+
+    public void Accept(RunResult run)
+    {
+        var name = RunPlot.FileNameFor(run.Id);
+        var png = Path.Combine(outDir, "plots", name);
+        var keyFile = Path.Combine(keyDir, name + ".key");
+        var key = string.Join(' ', run.InputSha256, inputs.GetValueOrDefault(SeriesRunner.PlanFile), inputs.GetValueOrDefault(SeriesRunner.ConfigFile), SeriesRunner.ToolVersion);
+        try
+        {
+            if (File.Exists(png) && File.Exists(keyFile) && File.ReadAllText(keyFile) == key) return;
+            _plot.Accept(run);
+            AtomicFile.WriteAllText(keyFile, key);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            Interlocked.Increment(ref _failures);
+            log.Error("could not write the plot of run {Run}: {Message}", run.Id, ex.Message);
+        }
+    }
+}

@@ -1,0 +1,334 @@
+using System.Security.Cryptography;
+using Serilog;
+using TraceKin.Analysis;
+using TraceKin.Reports;
+using TraceKin.Setup;
+using TraceKin.Traces;
+
+namespace TraceKin.Cli.Watch;
+
+/// <summary>
+/// One watched series folder. A pass takes every settled input (plan.csv, series.toml and the exports plan.csv names),
+/// reading each raw file once, read-only and without blocking its writer, into a private snapshot in the output folder;
+/// compares their SHA-256 with the series' last ledger record; and when anything differs, analyses the snapshot,
+/// refreshes the outputs, and only then appends the new ledger record. Exports still missing or still being written
+/// are "pending": reported as warnings, analysed when they settle. Not thread-safe: one pass of a series at a time.
+/// </summary>
+public sealed class SeriesWatch
+{
+    public const string WorkFolder = ".work";
+
+    private readonly string _folder;
+    private readonly string _outDir;
+    private readonly string _snapshotDir;
+    private readonly string _plotKeyDir;
+    private readonly WatchOptions _options;
+    private readonly FileStability _stability;
+    private readonly Ledger _ledger;
+    private readonly TimeProvider _time;
+    private readonly ILogger _log;
+    private readonly Action<string> _status;
+    private readonly Dictionary<string, (FileSignature Signature, string Sha256)> _snapshot = new(StringComparer.Ordinal);
+    private readonly HashSet<string> _unreadable = new(StringComparer.Ordinal);
+    private bool _cleaned;
+    private DateTimeOffset? _settlingSince;
+
+    /// <summary>How many settle intervals a series waits for its settling exports before it is analysed without them.</summary>
+    public const int MaxWaitForSettling = 5;
+
+    public SeriesWatch(string folder, WatchOptions options, FileStability stability, Ledger ledger, TimeProvider time, ILogger log, Action<string> status)
+    {
+        _folder = folder;
+        Name = Path.GetFileName(Path.TrimEndingDirectorySeparator(folder));
+        _outDir = Path.Combine(options.Out, Name);
+        _snapshotDir = Path.Combine(options.Out, WorkFolder, Name);
+        _plotKeyDir = Path.Combine(options.Out, WorkFolder, ".plots", Name);
+        _options = options;
+        _stability = stability;
+        _ledger = ledger;
+        _time = time;
+        _log = log;
+        _status = status;
+    }
+
+    public string Name { get; }
+
+    /// <summary>A series folder holds both plan.csv and series.toml.</summary>
+    public static bool IsSeriesFolder(string folder) =>
+        File.Exists(Path.Combine(folder, SeriesRunner.PlanFile)) && File.Exists(Path.Combine(folder, SeriesRunner.ConfigFile));
+
+    public SeriesPass Pass()
+    {
+        var now = _time.GetUtcNow();
+        DateTimeOffset? recheck = null;
+        var inputs = new SortedDictionary<string, string>(StringComparer.Ordinal);
+        var pending = new SortedSet<string>(StringComparer.Ordinal);
+        var settling = 0;
+
+        var setupTaken = true;
+        foreach (var setup in new[] { SeriesRunner.PlanFile, SeriesRunner.ConfigFile })
+        {
+            if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } sig) return SeriesPass.Vanished;
+            if (TryTake(setup, sig, now, ref recheck, out var sha)) inputs[setup] = sha;
+            else setupTaken = false;
+        }
+        if (!setupTaken) return new SeriesPass(false, false, recheck, _ledger.Latest(Name));
+
+        var plan = ReadSetup();
+        if (plan is not null)
+        {
+            foreach (var file in plan.Rows.Select(r => r.File).Distinct(StringComparer.Ordinal))
+            {
+                if (!IsInside(file)) continue;
+                var raw = Path.Combine(_folder, file);
+                if (FileSignature.Of(raw) is not { } sig)
+                {
+                    _stability.Forget(raw);
+                    pending.Add(file);
+                }
+                else if (TryTake(file, sig, now, ref recheck, out var sha)) inputs[file] = sha;
+                else
+                {
+                    pending.Add(file);
+                    settling++;
+                }
+            }
+        }
+        PruneSnapshot(inputs.Keys);
+
+        // While exports are still settling, wait for them (they usually arrive together) rather than analyse the
+        // series once per file; but not for ever: a file written for longer than this is analysed without it.
+        if (settling > 0)
+        {
+            _settlingSince ??= now;
+            if (now - _settlingSince.Value < MaxWaitForSettling * _options.Settle)
+                return new SeriesPass(false, false, recheck, _ledger.Latest(Name));
+        }
+        else _settlingSince = null;
+
+        var committed = _ledger.Latest(Name);
+        if (committed is not null && SameState(committed, inputs, pending) && File.Exists(Path.Combine(_outDir, SummaryJson.FileName)))
+            return new SeriesPass(false, false, recheck, committed);
+
+        _settlingSince = null;
+        var record = Analyse(committed, inputs, pending);
+        if (record is null) recheck = Earliest(recheck, now + _options.Settle);
+        return new SeriesPass(false, record is not null, recheck, record ?? committed);
+    }
+
+    /// <summary>Parses the snapshot's setup; null when either file is bad (the analysis then reports it).</summary>
+    private Plan? ReadSetup()
+    {
+        try
+        {
+            SeriesConfig.FromFile(Path.Combine(_snapshotDir, SeriesRunner.ConfigFile));
+            return Plan.FromFile(Path.Combine(_snapshotDir, SeriesRunner.PlanFile));
+        }
+        catch (Exception ex) when (ex is InputException or IOException)
+        {
+            return null;
+        }
+    }
+
+    /// <summary>
+    /// Takes a settled file into the snapshot and gives its SHA-256; false (with a time to look again) while it is
+    /// still settling, cannot be opened, or changes while being read.
+    /// </summary>
+    private bool TryTake(string file, FileSignature sig, DateTimeOffset now, ref DateTimeOffset? recheck, out string sha)
+    {
+        sha = "";
+        var raw = Path.Combine(_folder, file);
+        var stableAt = _stability.Observe(raw, sig);
+        if (stableAt > now)
+        {
+            recheck = Earliest(recheck, stableAt);
+            return false;
+        }
+        var copy = Path.Combine(_snapshotDir, file);
+        if (_snapshot.TryGetValue(file, out var taken) && taken.Signature == sig && File.Exists(copy))
+        {
+            sha = taken.Sha256;
+            return true;
+        }
+        byte[] bytes;
+        try
+        {
+            // Read-only, sharing everything, so the instrument can go on writing, renaming or deleting.
+            using var fs = new FileStream(raw, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
+            var before = new FileSignature(fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
+            using var ms = new MemoryStream(before.Length > 0 && before.Length < int.MaxValue ? (int)before.Length : 0);
+            fs.CopyTo(ms);
+            var after = new FileSignature(fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
+            if (before != sig || after != sig || ms.Length != sig.Length)
+            {
+                // It changed between the look and the read: let it settle again.
+                _stability.Restart(raw);
+                recheck = Earliest(recheck, now + _options.Settle);
+                return false;
+            }
+            bytes = ms.ToArray();
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            // Said once per file (a writer holding it exclusively is normal for a while); tried again every settle interval.
+            if (_unreadable.Add(file)) _log.Warning("{Series}/{File} cannot be opened for reading yet: {Message}", Name, file, ex.Message);
+            _stability.Restart(raw);
+            recheck = Earliest(recheck, now + _options.Settle);
+            return false;
+        }
+        _unreadable.Remove(file);
+        sha = Convert.ToHexStringLower(SHA256.HashData(bytes));
+        Directory.CreateDirectory(Path.GetDirectoryName(copy)!);
+        File.WriteAllBytes(copy, bytes);
+        _snapshot[file] = (sig, sha);
+        return true;
+    }
+
+    /// <summary>Removes snapshot files that are not inputs now, so the analysis sees exactly the settled inputs.</summary>
+    private void PruneSnapshot(IEnumerable<string> keep)
+    {
+        var wanted = new HashSet<string>(keep.Select(k => Path.GetFullPath(Path.Combine(_snapshotDir, k))), StringComparer.Ordinal);
+        if (!Directory.Exists(_snapshotDir)) return;
+        foreach (var f in Directory.EnumerateFiles(_snapshotDir, "*", SearchOption.AllDirectories))
+        {
+            if (wanted.Contains(Path.GetFullPath(f))) continue;
+            File.Delete(f);
+            _snapshot.Remove(Path.GetRelativePath(_snapshotDir, f));
+        }
+    }
+
+    private bool IsInside(string file)
+    {
+        var full = Path.GetFullPath(Path.Combine(_folder, file));
+        var root = Path.GetFullPath(_folder) + Path.DirectorySeparatorChar;
+        return full.StartsWith(root, StringComparison.Ordinal);
+    }
+
+    private static bool SameState(LedgerRecord committed, IReadOnlyDictionary<string, string> inputs, SortedSet<string> pending) =>
+        committed.Inputs.Count == inputs.Count
+        && committed.Inputs.All(i => inputs.TryGetValue(i.File, out var sha) && sha == i.Sha256)
+        && pending.SetEquals(committed.Pending);
+
+    private LedgerRecord? Analyse(LedgerRecord? committed, SortedDictionary<string, string> inputs, SortedSet<string> pending)
+    {
+        Directory.CreateDirectory(_outDir);
+        if (!_cleaned)
+        {
+            RemoveOrphanTemporaries();
+            _cleaned = true;
+        }
+        var plots = _options.Plots ? new ChangedRunPlots(_outDir, _plotKeyDir, inputs, _log) : null;
+        var options = new AnalysisOptions
+        {
+            Workers = Math.Max(1, _options.Workers),
+            RunSink = plots,
+            Progress = (run, status) => _log.Debug("{Series} {Run}: {Status}", Name, run, status),
+        };
+        var clock = System.Diagnostics.Stopwatch.StartNew();
+        var result = SeriesRunner.Analyse(_snapshotDir, options);
+
+        // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for.
+        var waiting = result.Rejected.Where(p => pending.Contains(p.File) && p.Line == 0).ToList();
+        result = result with
+        {
+            Rejected = result.Rejected.Except(waiting).ToList(),
+            Warnings = result.Warnings.Concat(pending.Select(f => new Warning("export-pending", f,
+                "named in plan.csv but not (yet) complete in the inbox; it is analysed as soon as it has settled"))).ToList(),
+        };
+
+        var failures = plots?.Failures ?? 0;
+        foreach (var writer in ReportSet.SeriesWriters(_options.Plots))
+        {
+            try { writer.Write(result, _outDir); }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                failures++;
+                _log.Error("{Series}: could not write {Writer} output: {Message}", Name, writer.GetType().Name, ex.Message);
+            }
+        }
+        if (result.Plan is not null) RemoveStalePlots(result);
+        if (failures > 0) return null; // not committed: the series is tried again
+
+        var setupOk = result.Config is not null && result.Plan is not null;
+        var records = new List<LedgerInput>();
+        foreach (var (file, sha) in inputs)
+        {
+            var isNew = committed?.Input(file)?.Sha256 != sha;
+            var problem = result.Rejected.FirstOrDefault(p => p.File == file);
+            var isSetup = file is SeriesRunner.PlanFile or SeriesRunner.ConfigFile;
+            var status = problem is not null ? LedgerInput.Rejected : isSetup ? LedgerInput.Setup : LedgerInput.Analysed;
+            records.Add(new LedgerInput(file, sha, status, isNew, problem?.Message));
+        }
+        var record = _ledger.Append(new LedgerRecord
+        {
+            Series = Name,
+            At = _time.GetUtcNow(),
+            Setup = setupOk ? LedgerRecord.SetupOk : LedgerRecord.SetupRejected,
+            Inputs = records,
+            Pending = pending.ToList(),
+            Outputs = HashOutputs(),
+        });
+        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
+            Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
+        Announce(record, result);
+        return record;
+    }
+
+    /// <summary>One status line per input taken for the first time in this content version.</summary>
+    private void Announce(LedgerRecord record, SeriesResult result)
+    {
+        foreach (var input in record.Inputs.Where(i => i.New))
+        {
+            if (input.Status == LedgerInput.Rejected)
+                _status(input.File is SeriesRunner.PlanFile or SeriesRunner.ConfigFile
+                    ? $"{Name}/{input.File}: rejected, the series waits for a fix — {input.Message}"
+                    : $"{Name}/{input.File}: rejected — {input.Message}");
+            else if (input.Status == LedgerInput.Analysed && result.Runs.FirstOrDefault(r => r.File == input.File) is { } run)
+            {
+                var h = run.Rates.Headline;
+                _status($"{Name}/{input.File}: analysed, v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit}");
+            }
+            else if (input.Status == LedgerInput.Setup)
+                _status($"{Name}/{input.File}: taken");
+        }
+    }
+
+    private void RemoveStalePlots(SeriesResult result)
+    {
+        var analysed = new HashSet<string>(result.Runs.Select(r => r.Id), StringComparer.Ordinal);
+        foreach (var row in result.Plan!.Rows.Where(r => !analysed.Contains(r.Run)))
+        {
+            var png = Path.Combine(_outDir, "plots", RunPlot.FileNameFor(row.Run));
+            if (File.Exists(png)) File.Delete(png);
+        }
+    }
+
+    /// <summary>Temporary files of an atomic write that a killed process never renamed (only ever ours: the lock is held).</summary>
+    private void RemoveOrphanTemporaries()
+    {
+        foreach (var f in Directory.EnumerateFiles(_outDir, ".*.tmp", SearchOption.AllDirectories))
+        {
+            try { File.Delete(f); }
+            catch (IOException) { }
+        }
+    }
+
+    private List<LedgerOutput> HashOutputs()
+    {
+        var outputs = new List<LedgerOutput>();
+        foreach (var f in Directory.EnumerateFiles(_outDir, "*", SearchOption.AllDirectories).Order(StringComparer.Ordinal))
+        {
+            var rel = Path.GetRelativePath(_outDir, f).Replace('\\', '/');
+            if (rel.Split('/').Any(part => part.StartsWith('.'))) continue;
+            try
+            {
+                using var fs = new FileStream(f, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);
+                outputs.Add(new LedgerOutput(rel, Convert.ToHexStringLower(SHA256.HashData(fs))));
+            }
+            catch (FileNotFoundException) { }
+        }
+        return outputs;
+    }
+
+    private static DateTimeOffset Earliest(DateTimeOffset? a, DateTimeOffset b) => a is { } x && x < b ? x : b;
+}

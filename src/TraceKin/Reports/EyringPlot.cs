@@ -1,0 +1,36 @@
+using OxyPlot;
+using OxyPlot.Axes;
+using TraceKin.Analysis;
+using TraceKin.Series;
+
+namespace TraceKin.Reports;
+
+/// <summary>The Eyring plot: ln(k/T) against 1/T with the fitted Eyring curve. Written as plots/eyring.png.</summary>
+public sealed class EyringPlot : ISeriesReportWriter
+{
+    public const string FileName = "eyring.png";
+
+    public void Write(SeriesResult result, string outDir)
+    {
+        if (result.Findings?.Temperature is not { Eyring: not null } t) return;
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)));
+    }
+
+    public static PlotModel Build(TemperatureFindings t)
+    {
+        var e = t.Eyring!;
+        var m = PlotStyle.NewModel($"Eyring: ΔH‡ = {e.EnthalpyOfActivation.Value:0.0} kJ/mol, ΔS‡ = {e.EntropyOfActivation.Value:0} J/(mol·K)");
+        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Bottom, "1000 K / T"));
+        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, "ln((k / T) / (k-unit/K))"));
+        var pts = SeriesPlotParts.Points("k per temperature", PlotStyle.Data);
+        foreach (var g in t.Groups)
+            pts.Points.Add(new OxyPlot.Series.ScatterErrorPoint(1000 / g.TemperatureK, Math.Log(g.RateConstant.Value / g.TemperatureK), 0, g.RateConstant.StdError / g.RateConstant.Value));
+        var (x0, x1) = SeriesPlotParts.Range(t.Groups.Select(g => 1000 / g.TemperatureK));
+        var pad = 0.05 * (x1 - x0);
+        double dH = e.EnthalpyOfActivation.Value * 1000, dS = e.EntropyOfActivation.Value;
+        m.Series.Add(SeriesPlotParts.Curve("Eyring fit (on k)", PlotStyle.Fit, x => Math.Log(Eyring.RateConstant(dH, dS, 1000 / x) / (1000 / x)), x0 - pad, x1 + pad));
+        m.Series.Add(pts);
+        SeriesPlotParts.Legend(m, OxyPlot.Legends.LegendPosition.TopRight);
+        return m;
+    }
+}

@@ -1,0 +1,44 @@
+using OxyPlot;
+using OxyPlot.Axes;
+using TraceKin.Analysis;
+
+namespace TraceKin.Reports;
+
+/// <summary>
+/// k per run (v0/Π[X]0^n at the orders used, ±1 se) in plan order, with the series' k and its 95 % interval as a band:
+/// a run that stands apart shows at a glance. Written as plots/k-per-run.png.
+/// </summary>
+public sealed class RateConstantPlot : ISeriesReportWriter
+{
+    public const string FileName = "k-per-run.png";
+
+    public void Write(SeriesResult result, string outDir)
+    {
+        if (result.Findings is not { PerRunK.Count: > 0 }) return;
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)));
+    }
+
+    public static PlotModel Build(SeriesResult r)
+    {
+        var f = r.Findings!;
+        var unit = f.RateConstant?.Unit ?? f.Temperature?.Groups.FirstOrDefault()?.RateConstant.Unit ?? "";
+        var m = PlotStyle.NewModel("Rate constant per run");
+        var labels = new CategoryAxis { Position = AxisPosition.Bottom, Title = "run", MajorGridlineStyle = LineStyle.None };
+        m.Axes.Add(labels);
+        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, $"k ({unit})"));
+        var pts = SeriesPlotParts.Points("k per run (±1 se)", PlotStyle.Data);
+        for (var i = 0; i < f.PerRunK.Count; i++)
+        {
+            labels.Labels.Add(f.PerRunK[i].RunId);
+            pts.Points.Add(new OxyPlot.Series.ScatterErrorPoint(i, f.PerRunK[i].Value, 0, f.PerRunK[i].StdError));
+        }
+        if (f.RateConstant is { } k && double.IsFinite(k.Ci95Low))
+        {
+            m.Series.Add(SeriesPlotParts.Band($"series k, 95 % interval ({k.Ci95Low:G3} to {k.Ci95High:G3})", _ => (k.Ci95Low, k.Ci95High), -0.5, f.PerRunK.Count - 0.5, 2));
+            m.Series.Add(SeriesPlotParts.Curve($"series k = {k.Value:G4}", PlotStyle.Fit, _ => k.Value, -0.5, f.PerRunK.Count - 0.5, 2));
+        }
+        m.Series.Add(pts);
+        SeriesPlotParts.Legend(m, OxyPlot.Legends.LegendPosition.TopRight);
+        return m;
+    }
+}

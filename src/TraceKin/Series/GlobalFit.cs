@@ -1,0 +1,69 @@
+using TraceKin.Fitting;
+using TraceKin.Traces;
+
+namespace TraceKin.Series;
+
+/// <summary>
+/// The global progress-curve fit: <see cref="ProgressCurveModel"/> fitted to the concentration traces of all runs at
+/// once by Levenberg–Marquardt (finite-difference Jacobian, equal weights), started from the initial-rate orders and k.
+/// The followed species always gets an order (its depletion shapes each curve), as does every species whose [X]0 varies.
+/// Traces longer than <see cref="MaxPointsPerRun"/> are thinned to every m-th point so all runs weigh alike.
+/// </summary>
+public static class GlobalFit
+{
+    public const int MaxPointsPerRun = 300;
+
+    public static GlobalFitFindings? Analyse(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied, TemperatureGroups groups,
+        IReadOnlyDictionary<string, double> startOrders, FitResult? power, List<Warning> warnings)
+    {
+        if (runs.Any(r => r.Trace is null))
+        {
+            warnings.Add(new Warning("global-fit-not-done", "series", "not every run has a concentration trace; the global progress-curve fit needs them all"));
+            return null;
+        }
+        var followed = runs.Select(r => r.Trace!.Species).Distinct().ToList();
+        if (followed.Count != 1 || runs.Any(r => !r.InitialConcentrations.ContainsKey(followed[0])))
+        {
+            warnings.Add(new Warning("global-fit-not-done", "series", $"the global fit needs one followed species with its [X]0 in every run (found {string.Join(", ", followed)})"));
+            return null;
+        }
+        var species = varied.Contains(followed[0]) ? varied.ToList() : varied.Append(followed[0]).ToList();
+        var thinned = runs.Select(r => r with { Trace = Thin(r.Trace!) }).ToList();
+        var model = new ProgressCurveModel(thinned, groups.Index, groups.Names, species);
+        var start = new double[groups.Count + species.Count];
+        for (var g = 0; g < groups.Count; g++)
+            start[g] = power is { Converged: true } && power.Parameters.Count > g ? power.Parameters[g].Value : 1;
+        for (var j = 0; j < species.Count; j++) start[groups.Count + j] = startOrders.GetValueOrDefault(species[j], 1);
+        var lower = Enumerable.Repeat(double.NegativeInfinity, start.Length).ToArray();
+        for (var g = 0; g < groups.Count; g++) lower[g] = 0;
+        var fit = NonlinearLeastSquares.Fit(model, model.Observed, start, new FitOptions { Lower = lower, MaxIterations = 200, Tolerance = 1e-10 });
+        if (!fit.Converged || fit.Parameters.Any(q => !double.IsFinite(q.StdError)))
+        {
+            warnings.Add(new Warning("global-fit-failed", "series", $"the global progress-curve fit did not converge ({fit.Exit}: {fit.ExitDetail})"));
+            return null;
+        }
+        var t = fit.T95;
+        var dof = fit.DegreesOfFreedom;
+        var orders = species.Select((s, j) =>
+        {
+            var q = fit.Parameters[groups.Count + j];
+            return new Order(s, q.Value, q.StdError, dof, q.Value - t * q.StdError, q.Value + t * q.StdError, "global progress-curve fit");
+        }).ToArray();
+        var unit = OrderAnalysis.RateConstantUnit(orders.Sum(o => o.Value));
+        var ks = Enumerable.Range(0, groups.Count).Select(g =>
+        {
+            var q = fit.Parameters[g];
+            return new KeyValuePair<string, RateConstant>(groups.Names[g],
+                new RateConstant(q.Value, q.StdError, unit, dof, q.Value - t * q.StdError, q.Value + t * q.StdError, "global progress-curve fit"));
+        }).ToArray();
+        return new GlobalFitFindings(orders, ks, fit, runs.Count);
+    }
+
+    private static RunTrace Thin(RunTrace tr)
+    {
+        var keep = Enumerable.Range(0, tr.Times.Length).Where(i => tr.Times[i] >= 0 && double.IsFinite(tr.Times[i]) && double.IsFinite(tr.Concentrations[i])).ToArray();
+        var stride = Math.Max(1, (int)Math.Ceiling(keep.Length / (double)MaxPointsPerRun));
+        keep = keep.Where((_, i) => i % stride == 0).ToArray();
+        return tr with { Times = keep.Select(i => tr.Times[i]).ToArray(), Concentrations = keep.Select(i => tr.Concentrations[i]).ToArray() };
+    }
+}
