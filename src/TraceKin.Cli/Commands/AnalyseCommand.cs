@@ -67,8 +67,32 @@ public static class AnalyseCommand
                 log.Information("order in {Species}: {Value:0.000} ± {Se:0.000} (95 % CI {Lo:0.000} to {Hi:0.000})", o.Species, o.Value, o.StdError, o.Ci95Low, o.Ci95High);
             if (f.RateConstant is { } k)
                 log.Information("rate constant k = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", k.Value, k.Unit, k.Ci95Low, k.Ci95High);
+            if (f.Saturation is { } sat)
+            {
+                log.Information("rate law preferred by AICc: {Law} (evidence ratio {Ratio:G3})", sat.Preferred, sat.EvidenceRatio);
+                if (f.ChosenLaw == "saturation")
+                {
+                    LogEstimate(log, "Vmax", sat.Vmax);
+                    LogEstimate(log, "Km", sat.Km);
+                }
+            }
+            foreach (var g in f.Temperature?.Groups ?? [])
+                log.Information("k at {T:0.00} K = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", g.TemperatureK, g.RateConstant.Value, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High);
+            if (f.Temperature?.Arrhenius is { } arr)
+            {
+                LogEstimate(log, "activation energy Ea", arr.ActivationEnergy);
+                LogEstimate(log, "pre-exponential factor A", arr.PreExponential);
+            }
+            if (f.Temperature?.Eyring is { } ey)
+            {
+                LogEstimate(log, "enthalpy of activation ΔH‡", ey.EnthalpyOfActivation);
+                LogEstimate(log, "entropy of activation ΔS‡", ey.EntropyOfActivation);
+            }
         }
         log.Information("{Analysed} run(s) analysed, {Rejected} rejected; results in {Out}", result.Runs.Count, result.Rejected.Count, outDir);
         return result;
     }
+
+    private static void LogEstimate(ILogger log, string name, TraceKin.Series.Estimate e) =>
+        log.Information("{Name} = {Value:G4} ± {Se:G2} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", name, e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High);
 }
