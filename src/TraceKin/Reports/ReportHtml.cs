@@ -256,6 +256,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     private static string Scalar(object? v) => v switch
     {
         null => "—",
+        bool b => b ? "yes" : "no",
         double d => ReportNumber.Plain(d),
         float f => ReportNumber.Plain(f),
         IFormattable x => x.ToString(null, CultureInfo.InvariantCulture),
