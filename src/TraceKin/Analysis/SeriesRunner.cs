@@ -90,7 +90,11 @@ public static class SeriesRunner
             var export = ExportReader.FromBytes(bytes, row.File, config.Ingest);
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
             double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
-            var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File);
+            // With exactly one other reacting species in the plan, its [B]0 lets the Rates stage also try the
+            // mixed second-order and pseudo-first-order laws.
+            var others = row.InitialConcentrations.Where(kv => kv.Key != converted.Species && kv.Value > 0).ToList();
+            double? partner = reference is not null && others.Count == 1 ? others[0].Value : null;
+            var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner);
             var warnings = export.Warnings.Concat(converted.Warnings).Concat(rates.Warnings).ToList();
             return (new RunResult(row, hash, export, converted, rates, warnings), null);
         }

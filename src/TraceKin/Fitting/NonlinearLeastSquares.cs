@@ -77,6 +77,7 @@ public static class NonlinearLeastSquares
             _rhs = new double[2 * _np]; _delta = new double[_np]; _step = new double[_np]; _g = new double[_np];
         }
 
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         public FitResult Run()
         {
             for (var i = 0; i < _n; i++)
@@ -246,6 +247,7 @@ public static class NonlinearLeastSquares
 
         private string Name(int j) => _model.ParameterNames[j];
 
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         private bool Residuals(double[] p, double[] f, double[] r, out double chi2, out int bad)
         {
             _model.Evaluate(p, f);
@@ -262,6 +264,7 @@ public static class NonlinearLeastSquares
         }
 
         /// <summary>√W-weighted ∂f/∂p (row-major n × P), analytic when the model offers it, else differences.</summary>
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         private bool Jacobian(double[] p, out int bad)
         {
             bad = -1;
@@ -313,14 +316,22 @@ public static class NonlinearLeastSquares
                     return Fail(FitExit.InvalidValues, "the model's derivative is not finite at the solution", iterations);
                 var cols = Enumerable.Range(0, _np).Where(j => _varied[j] && !atBound.Contains(j)).ToArray();
                 var m = cols.Length;
-                var jm = Matrix<double>.Build.Dense(_n, m);
+                // Column-scaled J = Q·R (thin Householder QR), then the SVD of the small R: same singular values and
+                // right vectors as J, without ever forming an n×n factor.
                 var norm = new double[m];
                 for (var k = 0; k < m; k++)
                 {
                     double s = 0;
                     for (var i = 0; i < _n; i++) { var v = _jac[i * _np + cols[k]]; s += v * v; }
                     norm[k] = Math.Sqrt(s);
-                    for (var i = 0; i < _n; i++) jm[i, k] = norm[k] > 0 ? _jac[i * _np + cols[k]] / norm[k] : 0;
+                    for (var i = 0; i < _n; i++) _a[k * _n + i] = norm[k] > 0 ? _jac[i * _np + cols[k]] / norm[k] : 0;
+                }
+                Householder.Factor(_a.AsSpan(0, _n * m), _n, m, _tau, _rDiag);
+                var jm = Matrix<double>.Build.Dense(m, m);
+                for (var k = 0; k < m; k++)
+                {
+                    jm[k, k] = _rDiag[k];
+                    for (var i = 0; i < k; i++) jm[i, k] = _a[k * _n + i];
                 }
                 if (m > 0)
                 {

@@ -1,86 +1,154 @@
+using System.Globalization;
 using TraceKin.Fitting;
 using TraceKin.Traces;
 
 namespace TraceKin.Rates;
 
-/// <summary>The Rates stage's front door: initial rate (and, later, integrated-law fits) for one concentration trace.</summary>
+/// <summary>
+/// The Rates stage's front door: spikes, integrated-law fits and three initial-rate estimators for one concentration
+/// trace, a documented headline choice, and warnings. Times are seconds from the moment of mixing (t0 = 0).
+/// </summary>
 public static class RateAnalysis
 {
     /// <param name="concentration">[X](t) in mol/L, times in s from the moment of mixing.</param>
     /// <param name="coefficient">Stoichiometric coefficient ν of X (negative for a reactant).</param>
     /// <param name="referenceConcentration">The amount conversion is measured against (e.g. [X]0 from the plan); null = from the trace.</param>
-    public static RunRates Analyse(Trace concentration, double coefficient, double? referenceConcentration, RateSettings settings, string where)
-    {
-        var warnings = new List<Warning>();
-        var (end, count) = Window(concentration, referenceConcentration, settings, minPoints: 8);
-        var t = concentration.Times.AsSpan(0, count);
-        var c = concentration.Values.AsSpan(0, count);
-        var estimates = new List<InitialRate>();
+    public static RunRates Analyse(Trace concentration, double coefficient, double? referenceConcentration, RateSettings settings, string where) =>
+        Analyse(concentration, coefficient, referenceConcentration, settings, where, null);
 
-        var quad = LocalPolynomial(t, c, coefficient, end);
-        if (quad is not null) estimates.Add(quad);
-        var line = StraightLine(t, c, coefficient, end);
+    /// <param name="partnerConcentration">[B]0 of a second reactant, when known: enables the mixed second-order and
+    /// pseudo-first-order laws.</param>
+    public static RunRates Analyse(Trace concentration, double coefficient, double? referenceConcentration, RateSettings settings, string where,
+        double? partnerConcentration)
+    {
+        var ci = CultureInfo.InvariantCulture;
+        var warnings = new List<Warning>();
+        var t = concentration.Times;
+        var y = concentration.Values;
+        var n = t.Length;
+        if (n < 4)
+            throw Fail.At(where, 0, 0, $"{n} samples", "at least 4 samples to estimate an initial rate", "check the export's time column");
+
+        // Spikes: model-free candidates, confirmed against the fitted law (see SpikeFilter).
+        var w = Enumerable.Repeat(1.0, n).ToArray();
+        var candidates = settings.Spikes ? SpikeFilter.Candidates(y) : new bool[n];
+        for (var i = 0; i < n; i++) if (candidates[i]) w[i] = 0;
+        var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
+        var spikes = candidates;
+        if (settings.Spikes && selection.ChosenModel is { } cm && candidates.Any(c => c))
+        {
+            var chosen = selection.Fits.First(f => f.Chosen);
+            var resid = new double[n];
+            for (var i = 0; i < n; i++) resid[i] = y[i] - chosen.Fitted[i];
+            var floor = 1e-9 * (y.Max() - y.Min());
+            var confirmed = SpikeFilter.FromResiduals(resid, floor);
+            spikes = candidates.Zip(confirmed, (a, b) => a && b).ToArray();
+            if (!spikes.SequenceEqual(candidates))
+            {
+                for (var i = 0; i < n; i++) w[i] = spikes[i] ? 0 : 1;
+                selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
+            }
+        }
+        var spikeList = Enumerable.Range(0, n).Where(i => spikes[i]).Select(i => new Spike(i, t[i], y[i])).ToList();
+        var (tv, yv) = IntegratedLawFitter.Valid(t, y, w);
+
+        // Early window on the spike-free trace.
+        var (end, count) = Window(tv, yv, referenceConcentration, settings, minPoints: 8);
+        var estimates = new List<InitialRate>();
+        var poly = InitialRateEstimators.Polynomial(tv, yv, coefficient, count);
+        var line = InitialRateEstimators.StraightLine(tv, yv, coefficient, count);
+        var chosenFit = selection.Fits.FirstOrDefault(f => f.Chosen);
+        var lawRate = chosenFit is not null && selection.ChosenModel is not null
+            ? InitialRateEstimators.FromLaw(selection.ChosenModel, chosenFit, t, coefficient) : null;
+        if (lawRate is not null) estimates.Add(lawRate);
+        if (poly is not null) estimates.Add(poly);
         if (line is not null) estimates.Add(line);
         if (estimates.Count == 0)
-            throw Fail.At(where, 0, 0, $"{count} points in the early window", "at least 4 points to estimate an initial rate", "sample faster or widen rates.window_conversion");
+            throw Fail.At(where, 0, 0, $"{count} usable points in the early window (ending {end:G4} s)", "at least 4 points to estimate an initial rate",
+                "sample faster or widen rates.window_conversion");
 
-        var headline = settings.Method switch
+        // Headline rule (docs/methods.md, "Initial rates and integrated laws").
+        var lawUsable = lawRate is not null && chosenFit is { LackOfFit: false };
+        InitialRate headline;
+        string rule;
+        switch (settings.Method)
         {
-            "line" => line ?? estimates[0],
-            _ => quad ?? estimates[0],
+            case "line" when line is not null:
+                headline = line; rule = "straight line, as set in rates.method"; break;
+            case "polynomial" when poly is not null:
+                headline = poly; rule = "polynomial at t0, as set in rates.method"; break;
+            case "law" when lawRate is not null:
+                headline = lawRate; rule = "integrated law at t0, as set in rates.method"; break;
+            default:
+                if (lawUsable) { headline = lawRate!; rule = $"integrated law ({chosenFit!.Law}) at t0: chosen by AICc, converged, residuals pass the runs test"; }
+                else if (poly is not null) { headline = poly; rule = lawRate is null ? "polynomial at t0: no integrated law converged" : "polynomial at t0: the chosen law shows lack of fit"; }
+                else { headline = estimates[0]; rule = $"{estimates[0].Method}: the only estimate available"; }
+                break;
+        }
+
+        // Disagreement check between the estimates that aim at the slope at t0 itself; the straight line is a chord
+        // (biased low by about half the conversion it spans), so it is compared only when it is the headline.
+        foreach (var e in estimates)
+        {
+            if (ReferenceEquals(e, headline)) continue;
+            if (ReferenceEquals(e, line)) continue;
+            var combined = Math.Sqrt(e.StdError * e.StdError + headline.StdError * headline.StdError);
+            if (Math.Abs(e.Value - headline.Value) > 2 * combined)
+                warnings.Add(new Warning("initial-rate-disagreement", where, string.Format(ci,
+                    "{0} gives {1:G4} but {2} gives {3:G4} {4}; they differ by more than twice their combined standard error ({5:G2})",
+                    e.Method, e.Value, headline.Method, headline.Value, Units.RateUnit, combined)));
+        }
+        if (t[0] > 0)
+            warnings.Add(new Warning("dead-time", where, string.Format(ci, "first sample {0:G4} s after mixing; the rate is extrapolated to t = 0", t[0])));
+        if (spikeList.Count > 0)
+            warnings.Add(new Warning("spikes", where, string.Format(ci, "{0} sample(s) excluded as spikes at t = {1}{2} s", spikeList.Count,
+                string.Join(", ", spikeList.Take(10).Select(s => s.Time.ToString("G6", ci))), spikeList.Count > 10 ? ", …" : "")));
+        if (chosenFit is null)
+            warnings.Add(new Warning("no-law-fit", where, "no integrated rate law converged on this trace"));
+        else
+        {
+            if (selection.DriftChosen && chosenFit.Fit.Parameters.FirstOrDefault(p => p.Name == "drift") is { } d)
+                warnings.Add(new Warning("baseline-drift", where, string.Format(ci,
+                    "a linear baseline drift of {0:G3} ± {1:G2} per s was fitted (AICc lower by more than 7 with it)", d.Value, d.StdError)));
+            else if (UnmodelledDrift(t, w, chosenFit.Fit.Residuals))
+                warnings.Add(new Warning("unmodelled-drift", where, "the residuals of the late trace trend with time: the baseline may drift"));
+        }
+        if (selection.NoIntegerLawFits && chosenFit is not null)
+        {
+            var nth = selection.Fits.FirstOrDefault(f => f.Law.StartsWith("order n", StringComparison.Ordinal) && f.Drift == selection.DriftChosen && f.Fit.Converged);
+            var nText = nth is null ? "" : string.Format(ci, " (order n fit: n = {0:G3} ± {1:G2})", nth.Fit.Value("n"), nth.Fit["n"].StdError);
+            warnings.Add(new Warning("no-integer-law", where, "no integer-order law fits this trace: every one shows a residual pattern or excess scatter" + nText));
+        }
+
+        return new RunRates(headline, estimates, selection.Fits, warnings)
+        {
+            DeadTime = t[0],
+            Spikes = spikeList,
+            HeadlineRule = rule,
+            NoIntegerLawFits = selection.NoIntegerLawFits,
         };
-        if (concentration.Times[0] > 0)
-            warnings.Add(new Warning("dead-time", where, $"first sample {concentration.Times[0]:G4} s after mixing; the rate is extrapolated to t = 0"));
-        return new RunRates(headline, estimates, [], warnings);
     }
 
-    /// <summary>
-    /// Polynomial [X](t) ≈ Σ c_j·t^j fitted over the early window; d[X]/dt at t = 0 is c1 with the fit's standard error.
-    /// Differentiating a local polynomial at the window's edge is the Savitzky–Golay idea (Savitzky &amp; Golay 1964,
-    /// Anal. Chem. 36, 1627). Projecting the neglected t^(d+1) term onto the fitted degree d over [0, T] (shifted Legendre
-    /// polynomials) gives a slope bias of −(3/5)·a3·T² for d = 2 and +(2/7)·a4·T³ for d = 3: over 20 % conversion of a
-    /// second-order trace that is −3.8 % and −0.5 %, so a cubic is used whenever the window holds enough points.
-    /// </summary>
-    private static InitialRate? LocalPolynomial(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, double end)
+    /// <summary>Residuals over the last third of the trace regressed on time; |slope| &gt; 4·SE flags a drift the model misses.</summary>
+    private static bool UnmodelledDrift(double[] t, double[] w, double[] residuals)
     {
-        if (t.Length < 6) return null;
-        var degree = t.Length >= 12 ? 3 : 2;
-        var fit = LinearLeastSquares.Polynomial(t, c, degree);
-        if (!fit.Converged) return null;
-        var slope = fit.Parameters[1];
-        return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), fit.DegreesOfFreedom, Units.RateUnit,
-            degree == 3 ? "local cubic at t0" : "local quadratic at t0", t[0], end, t.Length, slope.Value, fit.Parameters[0].Value, Fitted(c, fit.Residuals));
-    }
-
-    /// <summary>Straight line over the first half of the early window (a chord: biased low on a curving trace).</summary>
-    private static InitialRate? StraightLine(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, double end)
-    {
-        var n = Math.Max(4, t.Length / 2);
-        if (t.Length < 4) return null;
-        var fit = LinearLeastSquares.Line(t[..n], c[..n]);
-        if (!fit.Converged) return null;
-        var slope = fit.Parameters[1];
-        return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), fit.DegreesOfFreedom, Units.RateUnit,
-            "straight line", t[0], t[n - 1], n, slope.Value, fit.Parameters[0].Value, Fitted(c[..n], fit.Residuals));
-    }
-
-    private static double[] Fitted(ReadOnlySpan<double> c, double[] residuals)
-    {
-        var f = new double[residuals.Length];
-        for (var i = 0; i < f.Length; i++) f[i] = c[i] - residuals[i];
-        return f;
+        if (residuals.Length != t.Length) return false;
+        var tt = new List<double>(); var rr = new List<double>();
+        for (var i = 2 * t.Length / 3; i < t.Length; i++) if (w[i] > 0) { tt.Add(t[i]); rr.Add(residuals[i]); }
+        if (tt.Count < 8) return false;
+        var f = LinearLeastSquares.Line(tt.ToArray(), rr.ToArray());
+        return f.Converged && Math.Abs(f.Parameters[1].Value) > 4 * f.Parameters[1].StdError;
     }
 
     /// <summary>The early window: until |[X] − [X]first| reaches the conversion fraction of the reference amount.</summary>
-    private static (double End, int Count) Window(Trace trace, double? reference, RateSettings s, int minPoints)
+    private static (double End, int Count) Window(double[] times, double[] v, double? reference, RateSettings s, int minPoints)
     {
-        var v = trace.Values;
         var n = v.Length;
         if (s.WindowEnd is { } fixedEnd)
         {
-            var k = Array.FindIndex(trace.Times, x => x > fixedEnd);
+            var k = Array.FindIndex(times, x => x > fixedEnd);
             var cnt = k < 0 ? n : Math.Max(Math.Min(minPoints, n), k);
-            return (trace.Times[cnt - 1], cnt);
+            return (times[cnt - 1], cnt);
         }
         // Start level from the mean of the first few points (robust to one noisy first sample).
         var head = Math.Min(5, n);
@@ -93,6 +161,6 @@ public static class RateAnalysis
         for (var i = 0; i < n; i++)
             if (Math.Abs(v[i] - start) >= limit) { count = i + 1; break; }
         count = Math.Max(Math.Min(minPoints, n), count);
-        return (trace.Times[count - 1], count);
+        return (times[count - 1], count);
     }
 }

@@ -5,12 +5,18 @@ namespace TraceKin.Rates;
 /// <summary>The [rates] table of series.toml: how each run's initial rate is extracted.</summary>
 public sealed record RateSettings
 {
-    /// <summary>"auto", "line" (straight line over an early window) or "polynomial" (local cubic, or quadratic for few points, at t0).</summary>
+    /// <summary>"auto" (see docs/methods.md), "line" (straight line over an early window), "polynomial" (degree 2–3 at t0)
+    /// or "law" (derivative at t0 of the integrated law chosen by AICc).</summary>
     public string Method { get; init; } = "auto";
     /// <summary>The early window ends when this fraction of the tracked species has reacted.</summary>
     public double WindowConversion { get; init; } = 0.2;
     /// <summary>Alternatively, a fixed window end in seconds (overrides the conversion rule when set).</summary>
     public double? WindowEnd { get; init; }
+
+    /// <summary>Exclude spikes found by the Hampel identifier (true by default).</summary>
+    public bool Spikes { get; init; } = true;
+    /// <summary>Linear baseline-drift term in the integrated-law fits: "auto" (by AICc evidence), "off" or "on".</summary>
+    public string Drift { get; init; } = "auto";
 
     public static RateSettings Default { get; } = new();
 
@@ -22,7 +28,9 @@ public sealed record RateSettings
             throw Traces.Fail.Setting(s.File, s.KeyName("window_conversion"), conv.ToString(System.Globalization.CultureInfo.InvariantCulture), "a fraction between 0 and 1, e.g. 0.2");
         return d with
         {
-            Method = s.Choice("method", d.Method, "auto", "line", "polynomial"),
+            Method = s.Choice("method", d.Method, "auto", "line", "polynomial", "law"),
+            Spikes = s.Bool("spikes") ?? d.Spikes,
+            Drift = s.Choice("drift", d.Drift, "auto", "off", "on"),
             WindowConversion = conv,
             WindowEnd = s.Positive("window_end"),
         };

@@ -48,6 +48,31 @@ public sealed class SummaryJson : ISeriesReportWriter
                 w.WriteString("model", f.Law);
                 w.WriteBoolean("chosen", f.Chosen);
                 Fit(w, f.Fit);
+                w.WriteBoolean("drift", f.Drift);
+                Num(w, "deltaAicc", f.DeltaAicc);
+                Num(w, "akaikeWeight", f.AkaikeWeight);
+                w.WriteStartObject("rateConstant");
+                Num(w, "value", f.RateConstant);
+                Num(w, "stdError", f.RateConstantStdError);
+                w.WriteString("unit", f.RateConstantUnit);
+                Pair(w, "ci95", f.Ci95Low, f.Ci95High);
+                w.WriteEndObject();
+                Num(w, "halfLife", f.HalfLife);
+                Num(w, "halfLifeStdError", f.HalfLifeStdError);
+                Num(w, "runsTestP", f.Runs?.PValue);
+                w.WriteBoolean("lackOfFit", f.LackOfFit);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            w.WriteString("headlineRule", run.Rates.HeadlineRule);
+            Num(w, "deadTime", run.Rates.DeadTime);
+            w.WriteBoolean("noIntegerLawFits", run.Rates.NoIntegerLawFits);
+            w.WriteStartArray("spikes");
+            foreach (var sp in run.Rates.Spikes)
+            {
+                w.WriteStartObject();
+                Num(w, "time", sp.Time);
+                Num(w, "value", sp.Value);
                 w.WriteEndObject();
             }
             w.WriteEndArray();

@@ -1,3 +1,4 @@
+using TraceKin.Traces;
 namespace TraceKin.Signal;
 
 /// <summary>

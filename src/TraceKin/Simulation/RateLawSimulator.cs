@@ -13,8 +13,7 @@ public sealed record SimulatedLaw(
     double ActivationEnergy = 0,
     double ReferenceTemperatureK = 298.15)
 {
-    /// <summary>CODATA 2018 molar gas constant (exact), J/(mol·K).</summary>
-    private const double R = 8.31446261815324;
+    private const double R = PhysicalConstants.GasConstant;
 
     public double RateConstantAt(double? temperatureK) =>
         temperatureK is { } t && ActivationEnergy != 0

@@ -60,9 +60,13 @@ public class SeriesOutputTests
         Assert.Equal("power", root.GetProperty("chosenLaw").GetString());
         Assert.Equal(JsonValueKind.Null, root.GetProperty("arrhenius").ValueKind);
         AssertPng(Path.Combine(outDir.Path, "plots", OrderPlot.FileName));
-        // No sign of saturation in a true power-law series: no saturation block, no warning about it.
-        Assert.Equal(JsonValueKind.Null, root.GetProperty("saturation").ValueKind);
-        Assert.DoesNotContain(root.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString()!.StartsWith("saturation", StringComparison.Ordinal));
+        // No sign of saturation in a true power-law series: the saturation law is never preferred. (With the integrated-law
+        // initial rates, whose errors are a few tenths of a percent, a saturation fit may converge to a Km far beyond the
+        // range studied; it is then shown but not used, and the power law is kept.)
+        var saturation = root.GetProperty("saturation");
+        if (saturation.ValueKind != JsonValueKind.Null)
+            Assert.True(saturation.GetProperty("km").GetProperty("value").GetDouble() > 10 * 0.25, "a Km inside the studied range would mean saturation");
+        Assert.DoesNotContain(root.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString() == "saturation-preferred");
         AssertPng(Path.Combine(outDir.Path, "plots", RateConstantPlot.FileName));
         Assert.False(File.Exists(Path.Combine(outDir.Path, "plots", ArrheniusPlot.FileName)));
     }

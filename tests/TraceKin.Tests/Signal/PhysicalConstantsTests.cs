@@ -1,3 +1,4 @@
+using TraceKin.Traces;
 using TraceKin.Signal;
 
 namespace TraceKin.Tests.Signal;

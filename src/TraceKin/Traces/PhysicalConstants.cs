@@ -1,7 +1,7 @@
-namespace TraceKin.Signal;
+namespace TraceKin.Traces;
 
 /// <summary>
-/// Physical constants, CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010 (2021)) with the SI Brochure,
+/// Physical constants shared by every stage, CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010 (2021)) with the SI Brochure,
 /// 9th ed. (BIPM 2019), which fixes h, k, N_A and e exactly. R = N_A·k and F = N_A·e are exact products; the
 /// decimal expansions below were checked against the exact products.
 /// </summary>
@@ -25,4 +25,8 @@ public static class PhysicalConstants
     public const double StandardPressure = 100000;
     /// <summary>0 °C in kelvin (SI Brochure, 9th ed.).</summary>
     public const double CelsiusZero = 273.15;
+    /// <summary>k_B/h in 1/(s·K): 2.083 661 912 332 757 × 10¹⁰ (exact quotient, CODATA 2018 listing).</summary>
+    public const double BoltzmannOverPlanck = 2.083661912332757e10;
+    /// <summary>ln(k_B/h / (1/(s·K))) = 23.759 977 810 504 (computed from the exact quotient).</summary>
+    public static double LnBoltzmannOverPlanck => Math.Log(BoltzmannOverPlanck);
 }

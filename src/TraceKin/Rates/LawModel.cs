@@ -1,0 +1,93 @@
+using TraceKin.Fitting;
+
+namespace TraceKin.Rates;
+
+/// <summary>
+/// A rate law as a least-squares model of one trace: y(t) = y_end + (y0 − y_end)·u(t; kk = |ν|·k, [A]0, shape)
+/// (+ drift·t when a linear baseline drift is included). Parameters: y0, yEnd, k, shape…, [drift].
+/// [A]0 is the plan's value when known (held exact), else |y0 − y_end|. Jacobian analytic by the chain rule.
+/// </summary>
+public sealed class LawModel : IFitModel
+{
+    private readonly double[] _t;
+    private readonly double[] _grad;
+    private readonly int _shapeCount;
+
+    public LawModel(RateLaw law, double[] times, double nu, double? initialConcentration, bool drift)
+    {
+        Law = law;
+        _t = times;
+        Nu = Math.Abs(nu);
+        InitialConcentration = initialConcentration;
+        Drift = drift;
+        _shapeCount = law.ShapeNames.Count;
+        _grad = new double[2 + _shapeCount];
+        var names = new List<string> { "y0", "yEnd", "k" };
+        names.AddRange(law.ShapeNames);
+        if (drift) names.Add("drift");
+        ParameterNames = names;
+        Name = drift ? law.Name + " + drift" : law.Name;
+    }
+
+    public RateLaw Law { get; }
+    public double Nu { get; }
+    public double? InitialConcentration { get; }
+    public bool Drift { get; }
+    public string Name { get; }
+    public IReadOnlyList<string> ParameterNames { get; }
+    public int PointCount => _t.Length;
+    public const int Y0 = 0, YEnd = 1, K = 2, FirstShape = 3;
+    public int DriftIndex => Drift ? FirstShape + _shapeCount : -1;
+
+    /// <summary>[A]0 used by the law at these parameters.</summary>
+    public double A0(ReadOnlySpan<double> p) => InitialConcentration ?? Math.Abs(p[Y0] - p[YEnd]);
+
+    public double Value(ReadOnlySpan<double> p, double t)
+    {
+        var u = Law.Fraction(t, Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount), _grad);
+        var y = p[YEnd] + (p[Y0] - p[YEnd]) * u;
+        return Drift ? y + p[DriftIndex] * t : y;
+    }
+
+    /// <summary>d y/dt at t0 = 0 from the chemistry alone (drift excluded): −(y0 − y_end)·kk·g([A]0, shape).</summary>
+    public double InitialSlope(ReadOnlySpan<double> p) =>
+        -(p[Y0] - p[YEnd]) * Nu * p[K] * Law.InitialFactor(A0(p), p.Slice(FirstShape, _shapeCount));
+
+    public double HalfLife(ReadOnlySpan<double> p) => Law.HalfLife(Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount));
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void Evaluate(ReadOnlySpan<double> parameters, Span<double> values)
+    {
+        var a0 = A0(parameters);
+        var shape = parameters.Slice(FirstShape, _shapeCount);
+        var kk = Nu * parameters[K];
+        double y0 = parameters[Y0], yEnd = parameters[YEnd], d = Drift ? parameters[DriftIndex] : 0;
+        var span = y0 - yEnd;
+        for (var i = 0; i < _t.Length; i++)
+            values[i] = yEnd + span * Law.Fraction(_t[i], kk, a0, shape, _grad) + d * _t[i];
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public bool TryJacobian(ReadOnlySpan<double> parameters, Span<double> jacobian)
+    {
+        var a0 = A0(parameters);
+        var shape = parameters.Slice(FirstShape, _shapeCount);
+        var kk = Nu * parameters[K];
+        var span = parameters[Y0] - parameters[YEnd];
+        var fromTrace = InitialConcentration is null;
+        var sgn = span >= 0 ? 1.0 : -1.0;
+        var np = ParameterNames.Count;
+        for (var i = 0; i < _t.Length; i++)
+        {
+            var u = Law.Fraction(_t[i], kk, a0, shape, _grad);
+            var row = jacobian.Slice(i * np, np);
+            var viaA0 = fromTrace ? span * _grad[1] * sgn : 0;
+            row[Y0] = u + viaA0;
+            row[YEnd] = 1 - u - viaA0;
+            row[K] = span * Nu * _grad[0];
+            for (var s = 0; s < _shapeCount; s++) row[FirstShape + s] = span * _grad[2 + s];
+            if (Drift) row[DriftIndex] = _t[i];
+        }
+        return true;
+    }
+}
