@@ -6,5 +6,7 @@ namespace TraceKin.Reports;
 public static class ReportSet
 {
     public static IReadOnlyList<ISeriesReportWriter> SeriesWriters(bool plots) =>
-        plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot(), new RateConcentrationPlot(), new RateConstantPlot(), new ArrheniusPlot(), new EyringPlot()] : [new SummaryJson(), new RunsCsv()];
+        [.. plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot(), new RateConcentrationPlot(), new RateConstantPlot(), new ArrheniusPlot(), new EyringPlot()]
+                  : new ISeriesReportWriter[] { new SummaryJson(), new RunsCsv() },
+         new ReportHtml(images: plots)]; // last, so it embeds every plot written before it
 }

@@ -1,0 +1,462 @@
+using System.Collections;
+using System.Globalization;
+using System.Reflection;
+using System.Security.Cryptography;
+using TraceKin.Analysis;
+using TraceKin.Series;
+
+namespace TraceKin.Reports;
+
+/// <summary>
+/// report.html: one self-contained page per series that a chemist can open or print. Plots are embedded as PNG data
+/// URIs (read from outDir/plots as written earlier in the same analysis), so the file needs no network and no script.
+/// Problems come first (rejected files, warnings, flagged fits), then results, runs, plots, settings with their source,
+/// method notes, cautions and the inputs' SHA-256. No time stamps: the same inputs give the same bytes.
+/// </summary>
+public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
+{
+    public const string FileName = "report.html";
+
+    /// <summary>Findings properties drawn by dedicated sections; any other property is rendered generically.</summary>
+    private static readonly HashSet<string> KnownFindings =
+    [
+        nameof(SeriesFindings.Orders), nameof(SeriesFindings.RateConstant), nameof(SeriesFindings.RateConstantAtFittedOrders),
+        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
+        nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
+    ];
+
+    public void Write(SeriesResult result, string outDir) =>
+        AtomicFile.WriteAllText(Path.Combine(outDir, FileName), Render(result, images ? Path.Combine(outDir, "plots") : null));
+
+    /// <summary>The page; <paramref name="plotDir"/> null leaves the plots out (analyse --no-plots).</summary>
+    public static string Render(SeriesResult r, string? plotDir)
+    {
+        var h = new Html();
+        h.Raw("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
+            .Raw("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
+            .Element("title", $"{r.Name} — TraceKin series report")
+            .Raw("<style>\n").Raw(ReportStyle.Css).Raw("</style>\n</head>\n<body>\n<main>\n");
+
+        h.Raw("<header>\n").Element("p", $"TraceKin {r.ToolVersion} · series report", "class=\"kicker\"").Element("h1", r.Name);
+        if (r.Config is { Description.Length: > 0 } c) h.Element("p", c.Description, "class=\"description\"");
+        h.Element("p", $"{r.Runs.Count} run(s) analysed, {r.Rejected.Count} input(s) rejected.", "class=\"counts\"");
+        h.Raw("</header>\n");
+
+        Attention(h, r);
+        Results(h, r);
+        Runs(h, r);
+        LawFits(h, r);
+        Plots(h, r, plotDir);
+        Settings(h, r);
+        Notes(h, "methods", "Method notes", ReportNotes.Methods);
+        Notes(h, "cautions", "Cautions", ReportNotes.Cautions);
+        Provenance(h, r);
+        h.Raw("</main>\n</body>\n</html>\n");
+        return h.ToString();
+    }
+
+    private static List<Traces.Warning> AllWarnings(SeriesResult r) =>
+        r.Warnings.Concat(r.Findings?.Warnings ?? []).Concat(r.Runs.SelectMany(x => x.Warnings)).ToList();
+
+    private static void Attention(Html h, SeriesResult r)
+    {
+        var warnings = AllWarnings(r);
+        var unconverged = r.Runs.SelectMany(x => x.Rates.Fits.Where(f => !f.Fit.Converged).Select(f => (Run: x.Id, Fit: f))).ToList();
+        var orderFitBad = r.Findings?.OrderFit is { Converged: false };
+        var clear = r.Rejected.Count == 0 && warnings.Count == 0 && unconverged.Count == 0 && !orderFitBad;
+        h.Raw($"<section id=\"attention\" class=\"{(clear ? "all-clear" : "needs-attention")}\">\n");
+        h.Element("h2", clear ? "Checks" : "Needs attention");
+        if (clear)
+        {
+            h.Element("p", "No input was rejected, no warning was raised and every fit converged.");
+            h.Raw("</section>\n");
+            return;
+        }
+        if (r.Rejected.Count > 0)
+        {
+            h.Raw("<div id=\"rejected\" class=\"box rejected\">\n").Element("h3", $"Rejected inputs ({r.Rejected.Count}) — not part of the results");
+            h.Raw("<ul>\n");
+            foreach (var p in r.Rejected)
+            {
+                var where = p.File + (p.Line > 0 ? $", line {p.Line}" : "") + (p.Column > 0 ? $", column {p.Column}" : "") + (p.Key is null ? "" : $", setting {p.Key}");
+                h.Raw("<li class=\"problem\">").Raw("<span class=\"where\">").Text(where).Raw("</span>: found ").Text(p.Found)
+                    .Raw("; expected ").Text(p.Expected).Raw(".");
+                if (!string.IsNullOrWhiteSpace(p.Hint)) h.Raw(" <span class=\"hint\">Hint: ").Text(p.Hint).Raw("</span>");
+                h.Raw("</li>\n");
+            }
+            h.Raw("</ul>\n</div>\n");
+        }
+        if (warnings.Count > 0 || unconverged.Count > 0 || orderFitBad)
+        {
+            h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Warnings ({warnings.Count + unconverged.Count + (orderFitBad ? 1 : 0)})");
+            h.Raw("<ul>\n");
+            foreach (var w in warnings)
+                h.Raw($"<li class=\"warning\" {Html.Attr("data-code", w.Code)}><span class=\"where\">").Text(w.Where).Raw("</span>: ").Text(w.Message)
+                    .Raw(" <span class=\"code\">").Text(w.Code).Raw("</span></li>\n");
+            foreach (var (run, f) in unconverged)
+                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">").Text(run).Raw("</span>: the ")
+                    .Text(f.Law).Raw(" fit did not converge (").Text(f.Fit.Exit.ToString()).Raw("); its numbers are not results.</li>\n");
+            if (orderFitBad)
+                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">orders</span>: the order fit did not converge; its numbers are not results.</li>\n");
+            h.Raw("</ul>\n</div>\n");
+        }
+        h.Raw("</section>\n");
+    }
+
+    private static void Results(Html h, SeriesResult r)
+    {
+        h.Raw("<section id=\"results\">\n").Element("h2", "Series results");
+        var f = r.Findings;
+        if (f is null || (f.Orders.Count == 0 && f.RateConstant is null))
+        {
+            h.Element("p", "No orders or rate constant could be determined from the analysed runs (see the checks above).", "class=\"none\"");
+            if (f is not null) Extras(h, f);
+            h.Raw("</section>\n");
+            return;
+        }
+        if (f.Orders.Count > 0)
+        {
+            h.Element("h3", "Reaction orders");
+            h.Raw("<table class=\"results orders\">\n<thead><tr><th>species</th><th>order n ± SE</th><th>95 % interval</th><th>dof</th><th>method</th></tr></thead>\n<tbody>\n");
+            foreach (var o in f.Orders)
+            {
+                var sp = Html.Attr("data-species", o.Species);
+                h.Raw("<tr>").Element("td", o.Species, "class=\"name\"")
+                    .Raw($"<td class=\"num\" data-quantity=\"order\" {sp} {Exact(o.Value, o.StdError)}>").Text(ReportNumber.Measured(o.Value, o.StdError)).Raw("</td>")
+                    .Raw($"<td class=\"num\" data-quantity=\"order-ci\" {sp}>").Text(ReportNumber.Interval(o.Value, o.StdError, o.Ci95Low, o.Ci95High)).Raw("</td>")
+                    .Raw($"<td class=\"num\">{o.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", o.Method).Raw("</tr>\n");
+            }
+            h.Raw("</tbody>\n</table>\n");
+            if (f.RoundedOrders is { Count: > 0 } ro)
+                h.Element("p", "Every order's 95 % interval contains a simple value, so the headline k is computed at the rounded orders: " +
+                    string.Join(", ", ro.OrderBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => $"n({kv.Key}) = {kv.Value.ToString(CultureInfo.InvariantCulture)}")) + ".", "class=\"note\"");
+        }
+        if (f.RateConstant is { } k || f.RateConstantAtFittedOrders is not null)
+        {
+            h.Element("h3", "Rate constant");
+            h.Raw("<table class=\"results rate-constants\">\n<thead><tr><th></th><th>k ± SE</th><th>95 % interval</th><th>unit</th><th>dof</th><th>method</th></tr></thead>\n<tbody>\n");
+            if (f.RateConstant is { } head) RateConstantRow(h, "k (headline)", "rate-constant", head);
+            if (f.RateConstantAtFittedOrders is { } fitted && !ReferenceEquals(fitted, f.RateConstant) && fitted != f.RateConstant)
+                RateConstantRow(h, "k at the fitted orders", "rate-constant-fitted", fitted);
+            h.Raw("</tbody>\n</table>\n");
+        }
+        if (f.PairRatios.Count > 0)
+        {
+            h.Element("h3", "Orders from pairs of runs");
+            h.Raw("<table class=\"results pairs\">\n<thead><tr><th>runs</th><th>species</th><th>[X]0 ratio</th><th>v0 ratio</th><th>order ± SE</th></tr></thead>\n<tbody>\n");
+            foreach (var p in f.PairRatios)
+                h.Raw("<tr>").Element("td", $"{p.RunA} / {p.RunB}").Element("td", p.Species)
+                    .Element("td", ReportNumber.Plain(p.ConcentrationRatio), "class=\"num\"").Element("td", ReportNumber.Plain(p.RateRatio), "class=\"num\"")
+                    .Element("td", ReportNumber.Measured(p.Order, p.StdError), "class=\"num\"").Raw("</tr>\n");
+            h.Raw("</tbody>\n</table>\n");
+        }
+        Extras(h, f);
+        if (f.OrderFit is { } fit)
+        {
+            h.Element("h3", "Order fit in detail");
+            h.Element("pre", fit.ToReport(), "class=\"fit-report\"");
+        }
+        h.Raw("</section>\n");
+    }
+
+    private static void RateConstantRow(Html h, string label, string quantity, RateConstant k) =>
+        h.Raw("<tr>").Element("td", label, "class=\"name\"")
+            .Raw($"<td class=\"num\" data-quantity=\"{quantity}\" {Exact(k.Value, k.StdError)}>").Text(ReportNumber.Measured(k.Value, k.StdError)).Raw("</td>")
+            .Raw($"<td class=\"num\" data-quantity=\"{quantity}-ci\">").Text(ReportNumber.Interval(k.Value, k.StdError, k.Ci95Low, k.Ci95High)).Raw("</td>")
+            .Element("td", k.Unit).Raw($"<td class=\"num\">{k.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", k.Method).Raw("</tr>\n");
+
+    /// <summary>Round-trip values as attributes, so a reader (or a test) can get the exact numbers behind the printed text.</summary>
+    private static string Exact(double value, double se) =>
+        $"data-value=\"{R(value)}\" data-std-error=\"{R(se)}\"";
+
+    private static string R(double v) => double.IsFinite(v) ? v.ToString("R", CultureInfo.InvariantCulture) : "";
+
+    /// <summary>
+    /// Results the Series stage adds beyond orders and k (e.g. temperature dependence) are drawn generically: an estimate
+    /// (a record with Value and StdError) as value ± SE with its unit and interval, anything else as a small table.
+    /// </summary>
+    private static void Extras(Html h, SeriesFindings f)
+    {
+        foreach (var p in typeof(SeriesFindings).GetProperties(BindingFlags.Public | BindingFlags.Instance).OrderBy(p => p.MetadataToken))
+        {
+            if (KnownFindings.Contains(p.Name) || p.GetIndexParameters().Length > 0) continue;
+            var v = p.GetValue(f);
+            if (v is null || v is ICollection { Count: 0 }) continue;
+            h.Raw($"<div class=\"extra\" {Html.Attr("data-finding", p.Name)}>\n").Element("h3", Words(p.Name));
+            Generic(h, v, 0);
+            h.Raw("</div>\n");
+        }
+    }
+
+    /// <summary>The generic rendering of one Series result, as HTML (used for results without a dedicated section).</summary>
+    internal static string RenderGeneric(object? value)
+    {
+        var h = new Html();
+        Generic(h, value, 0);
+        return h.ToString();
+    }
+
+    private static void Generic(Html h, object? v, int depth)
+    {
+        switch (v)
+        {
+            case null: h.Element("p", "not available"); return;
+            case string s: h.Element("p", s); return;
+            case double or float or int or long or bool: h.Element("p", Scalar(v)); return;
+        }
+        if (depth > 3) { h.Element("p", v.ToString()); return; }
+        if (v is Fitting.FitResult fit) { h.Element("pre", fit.ToReport(), "class=\"fit-report\""); return; }
+        if (v is IEnumerable e and not string)
+        {
+            var items = e.Cast<object?>().ToList();
+            if (items.Count > 0 && items.All(i => i is not null && Estimate(i) is null && !IsScalar(i)))
+            {
+                var props = Props(items[0]!.GetType());
+                h.Raw("<table class=\"generic\">\n<thead><tr>");
+                foreach (var p in props) h.Element("th", Words(p.Name));
+                h.Raw("</tr></thead>\n<tbody>\n");
+                foreach (var item in items)
+                {
+                    h.Raw("<tr>");
+                    foreach (var p in props) h.Element("td", Cell(p.GetValue(item)));
+                    h.Raw("</tr>\n");
+                }
+                h.Raw("</tbody>\n</table>\n");
+            }
+            else
+            {
+                h.Raw("<ul>\n");
+                foreach (var item in items) h.Element("li", Cell(item));
+                h.Raw("</ul>\n");
+            }
+            return;
+        }
+        if (Estimate(v) is { } est) { h.Element("p", est, "class=\"num estimate\""); return; }
+        h.Raw("<table class=\"generic\">\n<tbody>\n");
+        foreach (var p in Props(v.GetType()))
+        {
+            var pv = p.GetValue(v);
+            if (pv is null) continue;
+            h.Raw("<tr>").Element("th", Words(p.Name), "scope=\"row\"");
+            if (IsScalar(pv) || Estimate(pv) is not null) h.Element("td", Cell(pv));
+            else { h.Raw("<td>"); Generic(h, pv, depth + 1); h.Raw("</td>"); }
+            h.Raw("</tr>\n");
+        }
+        h.Raw("</tbody>\n</table>\n");
+    }
+
+    private static PropertyInfo[] Props(Type t) =>
+        t.GetProperties(BindingFlags.Public | BindingFlags.Instance).Where(p => p.GetIndexParameters().Length == 0 && p.Name != "EqualityContract")
+            .OrderBy(p => p.MetadataToken).ToArray();
+
+    private static bool IsScalar(object? v) => v is null or string or double or float or int or long or bool or Enum;
+
+    private static string Cell(object? v) => IsScalar(v) ? Scalar(v) : Estimate(v!) ?? (v is IEnumerable e ? string.Join("; ", e.Cast<object?>().Select(Cell)) : v!.ToString() ?? "");
+
+    private static string Scalar(object? v) => v switch
+    {
+        null => "—",
+        bool b => b ? "yes" : "no",
+        double d => ReportNumber.Plain(d),
+        float f => ReportNumber.Plain(f),
+        IFormattable x => x.ToString(null, CultureInfo.InvariantCulture),
+        _ => v.ToString() ?? "",
+    };
+
+    /// <summary>"value ± SE unit (95 %: low to high)" for any record with Value and StdError, else null.</summary>
+    private static string? Estimate(object v)
+    {
+        var t = v.GetType();
+        if (t.GetProperty("Value")?.GetValue(v) is not double value || t.GetProperty("StdError")?.GetValue(v) is not double se) return null;
+        var text = ReportNumber.Measured(value, se);
+        if (t.GetProperty("Unit")?.GetValue(v) is string { Length: > 0 } unit) text += " " + unit;
+        if (t.GetProperty("Ci95Low")?.GetValue(v) is double lo && t.GetProperty("Ci95High")?.GetValue(v) is double hi)
+            text += $" (95 % interval {ReportNumber.Interval(value, se, lo, hi)})";
+        if (t.GetProperty("Method")?.GetValue(v) is string { Length: > 0 } m) text += $"; {m}";
+        return text;
+    }
+
+    private static string Words(string pascal) => SettingsProvenance.Snake(pascal).Replace('_', ' ');
+
+    private static void Runs(Html h, SeriesResult r)
+    {
+        h.Raw("<section id=\"runs\">\n").Element("h2", "Runs");
+        if (r.Runs.Count == 0)
+        {
+            h.Element("p", "No run was analysed.", "class=\"none\"");
+            h.Raw("</section>\n");
+            return;
+        }
+        var species = r.Plan?.Species ?? r.Runs.SelectMany(x => x.Plan.InitialConcentrations.Keys).Distinct().Order(StringComparer.Ordinal).ToList();
+        var scales = species.ToDictionary(s => s, s => RunPlot.ConcentrationScale(r.Runs.Select(x => x.Plan.InitialConcentrations.GetValueOrDefault(s, 0)).ToArray()));
+        var extra = r.Runs.SelectMany(x => x.Plan.Extra.Keys).Distinct().ToList();
+        var perRunK = r.Findings?.PerRunK.ToDictionary(k => k.RunId) ?? [];
+        var kUnit = r.Findings?.RateConstant?.Unit ?? "";
+        var used = new HashSet<string>(r.Findings?.RunsUsed ?? [], StringComparer.Ordinal);
+        var units = r.Runs.Select(x => x.Rates.Headline.Unit).Distinct().ToList();
+        var rateUnit = units.Count == 1 ? units[0] : "";
+
+        h.Element("p", "Initial conditions are taken from plan.csv; the rate columns come from each run's headline estimate.", "class=\"note\"");
+        h.Raw("<table class=\"runs\">\n<thead><tr><th>run</th><th>file</th><th>T (°C)</th>");
+        foreach (var s in species) h.Element("th", $"[{s}]0 ({scales[s].Unit})");
+        foreach (var e in extra) h.Element("th", e);
+        h.Element("th", "v0 ± SE" + (rateUnit.Length > 0 ? $" ({rateUnit})" : ""));
+        h.Raw("<th>dof</th><th>method</th><th>window (s)</th>");
+        if (perRunK.Count > 0) h.Element("th", "k for this run" + (kUnit.Length > 0 ? $" ({kUnit})" : ""));
+        h.Raw("<th>warnings</th></tr></thead>\n<tbody>\n");
+        foreach (var run in r.Runs)
+        {
+            var flagged = run.Warnings.Count > 0 || run.Rates.Fits.Any(f => !f.Fit.Converged);
+            var cls = (flagged ? "flagged" : "") + (used.Count > 0 && !used.Contains(run.Id) ? " not-used" : "");
+            h.Raw($"<tr {Html.Attr("data-run", run.Id)}{(cls.Trim().Length > 0 ? $" class=\"{cls.Trim()}\"" : "")}>")
+                .Element("td", run.Id, "class=\"name\"").Element("td", run.File)
+                .Element("td", run.Plan.TemperatureK is { } tk ? ReportNumber.Plain(tk - 273.15) : "—", "class=\"num\"");
+            foreach (var s in species)
+                h.Element("td", run.Plan.InitialConcentrations.TryGetValue(s, out var c) ? ReportNumber.Plain(c * scales[s].Factor) : "—", "class=\"num\"");
+            foreach (var e in extra) h.Element("td", run.Plan.Extra.GetValueOrDefault(e, ""));
+            var v = run.Rates.Headline;
+            h.Raw($"<td class=\"num\" data-quantity=\"initial-rate\" {Html.Attr("data-run", run.Id)} {Exact(v.Value, v.StdError)}>")
+                .Text(ReportNumber.Measured(v.Value, v.StdError) + (rateUnit.Length == 0 ? " " + v.Unit : "")).Raw("</td>")
+                .Raw($"<td class=\"num\">{v.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", v.Method)
+                .Element("td", $"{ReportNumber.Plain(v.WindowStart)} – {ReportNumber.Plain(v.WindowEnd)}", "class=\"num\"");
+            if (perRunK.Count > 0)
+                h.Element("td", perRunK.TryGetValue(run.Id, out var k) ? ReportNumber.Measured(k.Value, k.StdError) : "—", "class=\"num\"");
+            h.Element("td", run.Warnings.Count == 0 ? "" : string.Join("; ", run.Warnings.Select(w => w.Message)), run.Warnings.Count > 0 ? "class=\"warn-cell\"" : "");
+            h.Raw("</tr>\n");
+        }
+        h.Raw("</tbody>\n</table>\n");
+        if (used.Count > 0 && r.Runs.Any(x => !used.Contains(x.Id)))
+            h.Element("p", "Rows marked as not used were left out of the order fit.", "class=\"note\"");
+        h.Raw("</section>\n");
+    }
+
+    private static void LawFits(Html h, SeriesResult r)
+    {
+        var withFits = r.Runs.Where(x => x.Rates.Fits.Count > 0).ToList();
+        if (withFits.Count == 0) return;
+        h.Raw("<section id=\"law-fits\">\n").Element("h2", "Integrated-law fits");
+        h.Raw("<table class=\"fits\">\n<thead><tr><th>run</th><th>model</th><th>chosen</th><th>converged</th><th>parameters (value ± SE)</th><th>reduced χ²</th><th>AICc</th></tr></thead>\n<tbody>\n");
+        foreach (var run in withFits)
+            foreach (var f in run.Rates.Fits)
+            {
+                var pars = string.Join("; ", f.Fit.Parameters.Select(p => $"{p.Name} = {ReportNumber.Measured(p.Value, p.StdError)}{(p.Varied ? "" : " (fixed)")}"));
+                h.Raw(f.Fit.Converged ? "<tr>" : "<tr class=\"flagged\">").Element("td", run.Id).Element("td", f.Law).Element("td", f.Chosen ? "yes" : "")
+                    .Element("td", f.Fit.Converged ? "yes" : $"no ({f.Fit.Exit})").Element("td", f.Fit.Converged ? pars : "not a result")
+                    .Element("td", ReportNumber.Plain(f.Fit.ReducedChiSquare), "class=\"num\"").Element("td", ReportNumber.Plain(f.Fit.AicC, 6), "class=\"num\"").Raw("</tr>\n");
+            }
+        h.Raw("</tbody>\n</table>\n</section>\n");
+    }
+
+    private static void Plots(Html h, SeriesResult r, string? plotDir)
+    {
+        h.Raw("<section id=\"plots\">\n").Element("h2", "Plots");
+        if (plotDir is null)
+        {
+            h.Element("p", "Plots were not drawn for this analysis (analyse --no-plots).", "class=\"none\"");
+            h.Raw("</section>\n");
+            return;
+        }
+        var figures = new List<(string File, string Caption)>();
+        if (Directory.Exists(plotDir))
+        {
+            var runFiles = r.Runs.Select(x => (File: RunPlot.FileNameFor(x.Id), Caption: $"Run {x.Id} ({x.File}): concentration, early window, fit, initial-rate tangent and residuals")).ToList();
+            var runNames = new HashSet<string>(runFiles.Select(x => x.File), StringComparer.Ordinal);
+            var seriesFiles = Directory.EnumerateFiles(plotDir, "*.png").Select(Path.GetFileName).OfType<string>()
+                .Where(f => !f.StartsWith("run-", StringComparison.Ordinal) && !f.StartsWith('.') && !runNames.Contains(f))
+                .Order(StringComparer.Ordinal).Select(f => (File: f, Caption: SeriesCaption(f)));
+            figures.AddRange(seriesFiles);
+            figures.AddRange(runFiles);
+        }
+        var shown = 0;
+        foreach (var (file, caption) in figures)
+        {
+            var path = Path.Combine(plotDir, file);
+            if (!File.Exists(path)) continue;
+            byte[] png;
+            try { png = File.ReadAllBytes(path); }
+            catch (IOException) { continue; }
+            h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img alt=\"{Html.Escape(caption)}\" src=\"data:image/png;base64,")
+                .Raw(Convert.ToBase64String(png)).Raw("\">\n").Element("figcaption", caption).Raw("</figure>\n");
+            shown++;
+        }
+        if (shown == 0) h.Element("p", "No plot files were found in the output's plots folder.", "class=\"none\"");
+        h.Raw("</section>\n");
+    }
+
+    private static string SeriesCaption(string file) => file switch
+    {
+        OrderPlot.FileName => "Orders: ln v0 against ln [X]0 with the fitted lines",
+        _ => Words(System.Text.RegularExpressions.Regex.Replace(Path.GetFileNameWithoutExtension(file), "[^A-Za-z0-9]+", " ")).Trim() + " (series plot)",
+    };
+
+    private static void Settings(Html h, SeriesResult r)
+    {
+        h.Raw("<section id=\"settings\">\n").Element("h2", "Settings used");
+        if (r.Config is null)
+        {
+            h.Element("p", "series.toml could not be read (see the rejected inputs above).", "class=\"none\"");
+        }
+        else
+        {
+            var rows = SettingsProvenance.Rows(r.Config, r.Folder);
+            // What the chemist wrote first; then every default in effect, smaller (many apply only to other signal kinds).
+            foreach (var (title, group, cls) in new[]
+            {
+                ("Written in series.toml", rows.Where(x => x.Source != "default").ToList(), "settings"),
+                ("Defaults in effect", rows.Where(x => x.Source == "default").ToList(), "settings defaults"),
+            })
+            {
+                if (group.Count == 0) continue;
+                h.Element("h3", title);
+                h.Raw($"<table class=\"{cls}\">\n<thead><tr><th>setting</th><th>value</th><th>from</th></tr></thead>\n<tbody>\n");
+                foreach (var s in group)
+                    h.Raw($"<tr class=\"source-{(s.Source == "default" ? "default" : "file")}\">").Element("td", s.Key, "class=\"name\"").Element("td", s.Value).Element("td", s.Source).Raw("</tr>\n");
+                h.Raw("</tbody>\n</table>\n");
+            }
+            h.Element("p", "Initial concentrations and temperatures come from plan.csv (see the runs table). Values are shown in the units the analysis used.", "class=\"note\"");
+        }
+        var groups = r.Runs.GroupBy(x => string.Join("\n", x.Converted.ConstantsUsed.Select(kv => kv.Key + "\u0001" + kv.Value)), StringComparer.Ordinal).ToList();
+        if (groups.Count > 0)
+        {
+            h.Element("h3", "Conversion constants");
+            foreach (var g in groups)
+            {
+                var ids = g.Select(x => x.Id).ToList();
+                h.Element("p", groups.Count == 1 ? "Used for every run:" : $"Used for run(s) {string.Join(", ", ids)}:", "class=\"note\"");
+                h.Raw("<table class=\"constants\">\n<tbody>\n");
+                foreach (var kv in g.First().Converted.ConstantsUsed)
+                    h.Raw("<tr>").Element("th", kv.Key, "scope=\"row\"").Element("td", kv.Value).Raw("</tr>\n");
+                var sys = g.First().Converted.RelativeSystematicUncertainty;
+                if (sys > 0) h.Raw("<tr>").Element("th", "relative systematic uncertainty of the scale", "scope=\"row\"").Element("td", ReportNumber.Plain(sys, 2)).Raw("</tr>\n");
+                h.Raw("</tbody>\n</table>\n");
+            }
+        }
+        h.Raw("</section>\n");
+    }
+
+    private static void Notes(Html h, string id, string title, IReadOnlyList<(string Topic, string Note)> notes)
+    {
+        h.Raw($"<section id=\"{id}\">\n").Element("h2", title).Raw("<dl>\n");
+        foreach (var (topic, note) in notes) h.Element("dt", topic).Element("dd", note);
+        h.Raw("</dl>\n</section>\n");
+    }
+
+    private static void Provenance(Html h, SeriesResult r)
+    {
+        h.Raw("<section id=\"provenance\">\n").Element("h2", "Inputs and software");
+        h.Raw("<p>").Text($"TraceKin {r.ToolVersion}. Series folder: {Path.GetFileName(Path.TrimEndingDirectorySeparator(r.Folder))}. ")
+            .Text("SHA-256 of each input lets a reader check that a file is the one analysed (e.g. sha256sum FILE).").Raw("</p>\n");
+        h.Raw("<table class=\"hashes\">\n<thead><tr><th>file</th><th>role</th><th>SHA-256</th></tr></thead>\n<tbody>\n");
+        foreach (var (file, role) in new[] { (r.Config?.File ?? "series.toml", "settings"), (r.Plan?.File ?? "plan.csv", "plan") })
+        {
+            var path = Path.Combine(r.Folder, file);
+            string hash;
+            try { hash = File.Exists(path) ? Convert.ToHexStringLower(SHA256.HashData(File.ReadAllBytes(path))) : "missing"; }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException) { hash = "unreadable"; }
+            h.Raw("<tr>").Element("td", file).Element("td", role + " (hashed when the report was written)").Element("td", hash, "class=\"hash\"").Raw("</tr>\n");
+        }
+        foreach (var run in r.Runs)
+            h.Raw("<tr>").Element("td", run.File).Element("td", $"export of run {run.Id}").Element("td", run.InputSha256, "class=\"hash\"").Raw("</tr>\n");
+        h.Raw("</tbody>\n</table>\n</section>\n");
+    }
+}
