@@ -1,3 +1,4 @@
+using static TraceKin.Reports.JsonNumbers;
 using System.Text.Json;
 using TraceKin.Fitting;
 using TraceKin.Series;
@@ -212,25 +213,5 @@ public static class SeriesModelsJson
         Num(w, "reducedChiSquare", f.ReducedChiSquare);
         Num(w, "aicc", f.AicC);
         w.WriteEndObject();
-    }
-
-    private static void Pair(Utf8JsonWriter w, string name, double a, double b)
-    {
-        w.WriteStartArray(name);
-        Val(w, a);
-        Val(w, b);
-        w.WriteEndArray();
-    }
-
-    private static void Num(Utf8JsonWriter w, string name, double? v)
-    {
-        w.WritePropertyName(name);
-        Val(w, v);
-    }
-
-    private static void Val(Utf8JsonWriter w, double? v)
-    {
-        if (v is { } d && double.IsFinite(d)) w.WriteNumberValue(d);
-        else w.WriteNullValue();
     }
 }

@@ -1,3 +1,4 @@
+using static TraceKin.Reports.JsonNumbers;
 using System.Text.Json;
 using TraceKin.Analysis;
 using TraceKin.Fitting;
@@ -38,9 +39,10 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteEndObject();
             var h = run.Rates.Headline;
             w.WritePropertyName("initialRate");
-            InitialRate(w, h);
+            var relSys = run.Converted.RelativeSystematicUncertainty;
+            InitialRate(w, h, relSys);
             w.WriteStartArray("initialRateEstimates");
-            foreach (var e in run.Rates.Estimates) InitialRate(w, e);
+            foreach (var e in run.Rates.Estimates) InitialRate(w, e, relSys);
             w.WriteEndArray();
             w.WriteStartArray("fits");
             foreach (var f in run.Rates.Fits)
@@ -106,6 +108,9 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteNumber("dof", k.Dof);
             Pair(w, "ci95", k.Ci95Low, k.Ci95High);
             w.WriteString("method", k.Method);
+            // k = v0/Π[X]0^n scales with the followed species' concentration scale; the runs share its constants,
+            // so the relative systematic uncertainty carries over whole (common practice, no source).
+            Num(w, "systematicRelativeUncertainty", r.Runs.Count == 0 ? null : r.Runs.Max(x => x.Converted.RelativeSystematicUncertainty));
             w.WriteEndObject();
         }
         else w.WriteNull("rateConstant");
@@ -160,7 +165,11 @@ public sealed class SummaryJson : ISeriesReportWriter
         if (w.BytesPending > 1 << 16) w.Flush();
     }
 
-    private static void InitialRate(Utf8JsonWriter w, Rates.InitialRate h)
+    /// <summary>
+    /// An initial rate. Its systematic uncertainty is the concentration scale's relative uncertainty (rates scale with it),
+    /// written beside the statistical standard error, never combined with it (JCGM 100:2008 keeps the components listed).
+    /// </summary>
+    private static void InitialRate(Utf8JsonWriter w, Rates.InitialRate h, double relativeSystematic)
     {
         w.WriteStartObject();
         Num(w, "value", h.Value);
@@ -171,6 +180,7 @@ public sealed class SummaryJson : ISeriesReportWriter
         Num(w, "windowStart", h.WindowStart);
         Num(w, "windowEnd", h.WindowEnd);
         w.WriteNumber("points", h.PointsUsed);
+        Num(w, "systematicStdError", Math.Abs(h.Value) * relativeSystematic);
         w.WriteEndObject();
     }
 
@@ -210,25 +220,5 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteEndObject();
         }
         w.WriteEndArray();
-    }
-
-    private static void Pair(Utf8JsonWriter w, string name, double a, double b)
-    {
-        w.WriteStartArray(name);
-        Val(w, a);
-        Val(w, b);
-        w.WriteEndArray();
-    }
-
-    private static void Num(Utf8JsonWriter w, string name, double? v)
-    {
-        w.WritePropertyName(name);
-        Val(w, v);
-    }
-
-    private static void Val(Utf8JsonWriter w, double? v)
-    {
-        if (v is { } d && double.IsFinite(d)) w.WriteNumberValue(d);
-        else w.WriteNullValue();
     }
 }

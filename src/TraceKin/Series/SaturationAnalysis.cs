@@ -93,8 +93,9 @@ public static class SaturationAnalysis
         var maxS = runs.Max(r => r.InitialConcentrations[b.S]);
         if (km.Value > KmBeyondRange * maxS)
         {
-            // Only worth a warning when AICc alone would have picked the saturation law.
-            if (preferred == ModelSettings.Saturation)
+            // Only worth a warning when AICc alone would have picked the saturation law by a margin that counts:
+            // models within 2 AICc units of each other both have substantial support (Burnham & Anderson 2002, §2.6).
+            if (preferred == ModelSettings.Saturation && delta > 2)
                 warnings.Add(new Warning("saturation-beyond-range", b.S, FormattableString.Invariant(
                     $"the fitted Km ({km.Value:G3} mol/L) lies far above the largest [{b.S}]0 ({maxS:G3} mol/L): the series never approaches saturation, so Vmax and Km are not determined; the power law is kept")));
             preferred = ModelSettings.Power;

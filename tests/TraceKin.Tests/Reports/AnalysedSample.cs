@@ -1,3 +1,4 @@
+using TraceKin.Tests.Support;
 using TraceKin.Analysis;
 using TraceKin.Reports;
 
@@ -13,8 +14,8 @@ public sealed class AnalysedSample : IDisposable
     {
         OutDir = RepoPaths.NewTempDir("tracekin-report");
         NoPlotsDir = RepoPaths.NewTempDir("tracekin-report-noplots");
-        Result = Analyse(RepoPaths.Sample, OutDir, plots: true);
-        Analyse(RepoPaths.Sample, NoPlotsDir, plots: false);
+        Result = Analyse(RepoPaths.Sample("violet-complex-acid"), OutDir, plots: true);
+        Analyse(RepoPaths.Sample("violet-complex-acid"), NoPlotsDir, plots: false);
     }
 
     public string OutDir { get; }

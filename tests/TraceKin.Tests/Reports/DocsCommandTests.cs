@@ -1,3 +1,4 @@
+using TraceKin.Tests.Support;
 using System.Diagnostics;
 using System.Text;
 

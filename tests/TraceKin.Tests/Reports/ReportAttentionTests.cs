@@ -1,3 +1,4 @@
+using TraceKin.Tests.Support;
 using TraceKin.Reports;
 
 namespace TraceKin.Tests.Reports;
@@ -10,7 +11,7 @@ public sealed class ReportAttentionTests : IDisposable
 
     public ReportAttentionTests()
     {
-        RepoPaths.CopyDir(RepoPaths.Sample, _series);
+        RepoPaths.CopyDir(RepoPaths.Sample("violet-complex-acid"), _series);
         // Invented for this test: run R9 names an export whose line 6 holds text where a number belongs, and
         // R2's operator cell holds markup that must come out as text.
         var plan = File.ReadAllText(Path.Combine(_series, "plan.csv")).Replace("R2,r2.csv,25.0,0.40,100,MK", "R2,r2.csv,25.0,0.40,100,\"<img src=x onerror=alert(1)>\"");
@@ -68,7 +69,7 @@ public sealed class ReportAttentionTests : IDisposable
         var outDir = RepoPaths.NewTempDir("tracekin-bad-toml-out");
         try
         {
-            RepoPaths.CopyDir(RepoPaths.Sample, series);
+            RepoPaths.CopyDir(RepoPaths.Sample("violet-complex-acid"), series);
             // Invented: a misspelt key on line 2 must be rejected, not silently defaulted.
             File.WriteAllText(Path.Combine(series, "series.toml"), "[signal]\nmolar_absorbtivity = 1480\n");
             AnalysedSample.Analyse(series, outDir, plots: true);

@@ -1,3 +1,4 @@
+using TraceKin.Tests.Support;
 using System.Text.Json;
 using AngleSharp.Dom;
 using AngleSharp.Html.Dom;
@@ -142,7 +143,7 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         var again = RepoPaths.NewTempDir("tracekin-report-again");
         try
         {
-            AnalysedSample.Analyse(RepoPaths.Sample, again, plots: true);
+            AnalysedSample.Analyse(RepoPaths.Sample("violet-complex-acid"), again, plots: true);
             Assert.Equal(File.ReadAllBytes(sample.ReportPath), File.ReadAllBytes(Path.Combine(again, ReportHtml.FileName)));
         }
         finally { Directory.Delete(again, recursive: true); }
@@ -189,7 +190,7 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         Assert.Contains($"TraceKin {sample.Result.ToolVersion}", prov.TextContent);
         var hashes = prov.QuerySelectorAll("tbody tr").ToDictionary(tr => tr.Children[0].TextContent, tr => tr.Children[2].TextContent);
         foreach (var run in sample.Result.Runs)
-            Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(Path.Combine(RepoPaths.Sample, run.File)))), hashes[run.File]);
+            Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(Path.Combine(RepoPaths.Sample("violet-complex-acid"), run.File)))), hashes[run.File]);
         Assert.Matches("^[0-9a-f]{64}$", hashes["plan.csv"]);
         Assert.Matches("^[0-9a-f]{64}$", hashes["series.toml"]);
     }

@@ -1,3 +1,4 @@
+using TraceKin.Tests.Support;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using System.Text.RegularExpressions;
@@ -34,7 +35,7 @@ public sealed class SummarySchemaTests(AnalysedSample sample) : IClassFixture<An
         var outDir = RepoPaths.NewTempDir("tracekin-schema-out");
         try
         {
-            RepoPaths.CopyDir(RepoPaths.Sample, series);
+            RepoPaths.CopyDir(RepoPaths.Sample("violet-complex-acid"), series);
             File.WriteAllText(Path.Combine(series, "plan.csv"), File.ReadAllText(Path.Combine(series, "plan.csv")).TrimEnd() + "\nR9,missing.csv,25.0,0.40,100,JS\n");
             File.WriteAllText(Path.Combine(series, "stray.csv"), "time (s),A530\n0,0.1\n");
             AnalysedSample.Analyse(series, outDir, plots: false);

@@ -7,6 +7,23 @@ public static class RepoPaths
 
     public static string Sample(string name) => Path.Combine(Root, "sample-traces", name);
 
+    public static string Docs => Path.Combine(Root, "docs");
+
+    /// <summary>A fresh empty folder under the system temp folder (the caller deletes it).</summary>
+    public static string NewTempDir(string prefix)
+    {
+        var dir = System.IO.Path.Combine(System.IO.Path.GetTempPath(), $"{prefix}-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(dir);
+        return dir;
+    }
+
+    /// <summary>Copies a folder's files (not sub-folders) into <paramref name="to"/>.</summary>
+    public static void CopyDir(string from, string to)
+    {
+        Directory.CreateDirectory(to);
+        foreach (var f in Directory.EnumerateFiles(from)) File.Copy(f, System.IO.Path.Combine(to, System.IO.Path.GetFileName(f)), overwrite: true);
+    }
+
     private static string FindRoot()
     {
         var dir = new DirectoryInfo(AppContext.BaseDirectory);
@@ -29,7 +46,7 @@ public static class RepoPaths
     public static TempDir CopyOf(string folder)
     {
         var t = new TempDir();
-        foreach (var f in Directory.GetFiles(folder)) File.Copy(f, System.IO.Path.Combine(t.Path, System.IO.Path.GetFileName(f)));
+        CopyDir(folder, t.Path);
         return t;
     }
 }
