@@ -158,45 +158,19 @@ public static class SeriesModelsJson
         else w.WriteNull("globalFit");
     }
 
-    private static void Orders(Utf8JsonWriter w, string name, IReadOnlyList<Order> orders)
-    {
-        w.WriteStartArray(name);
-        foreach (var o in orders)
-        {
-            w.WriteStartObject();
-            w.WriteString("species", o.Species);
-            Num(w, "value", o.Value);
-            Num(w, "stdError", o.StdError);
-            w.WriteNumber("dof", o.Dof);
-            Pair(w, "ci95", o.Ci95Low, o.Ci95High);
-            w.WriteString("method", o.Method);
-            w.WriteEndObject();
-        }
-        w.WriteEndArray();
-    }
 
     private static void RateConstant(Utf8JsonWriter w, string name, Series.RateConstant? k)
     {
         if (k is null) { w.WriteNull(name); return; }
         w.WriteStartObject(name);
-        Num(w, "value", k.Value);
-        Num(w, "stdError", k.StdError);
-        w.WriteString("unit", k.Unit);
-        w.WriteNumber("dof", k.Dof);
-        Pair(w, "ci95", k.Ci95Low, k.Ci95High);
-        w.WriteString("method", k.Method);
+        EstimateFields(w, k.Value, k.StdError, k.Unit, k.Dof, k.Ci95Low, k.Ci95High, k.Method);
         w.WriteEndObject();
     }
 
     private static void Est(Utf8JsonWriter w, string name, Estimate e)
     {
         w.WriteStartObject(name);
-        Num(w, "value", e.Value);
-        Num(w, "stdError", e.StdError);
-        w.WriteString("unit", e.Unit);
-        w.WriteNumber("dof", e.Dof);
-        Pair(w, "ci95", e.Ci95Low, e.Ci95High);
-        w.WriteString("method", e.Method);
+        EstimateFields(w, e.Value, e.StdError, e.Unit, e.Dof, e.Ci95Low, e.Ci95High, e.Method);
         w.WriteEndObject();
     }
 

@@ -86,28 +86,11 @@ public sealed class SummaryJson : ISeriesReportWriter
         w.WriteEndArray();
 
         var f0 = r.Findings;
-        w.WriteStartArray("orders");
-        foreach (var o in f0?.Orders ?? [])
-        {
-            w.WriteStartObject();
-            w.WriteString("species", o.Species);
-            Num(w, "value", o.Value);
-            Num(w, "stdError", o.StdError);
-            w.WriteNumber("dof", o.Dof);
-            Pair(w, "ci95", o.Ci95Low, o.Ci95High);
-            w.WriteString("method", o.Method);
-            w.WriteEndObject();
-        }
-        w.WriteEndArray();
+        Orders(w, "orders", f0?.Orders ?? []);
         if (f0?.RateConstant is { } k)
         {
             w.WriteStartObject("rateConstant");
-            Num(w, "value", k.Value);
-            Num(w, "stdError", k.StdError);
-            w.WriteString("unit", k.Unit);
-            w.WriteNumber("dof", k.Dof);
-            Pair(w, "ci95", k.Ci95Low, k.Ci95High);
-            w.WriteString("method", k.Method);
+            EstimateFields(w, k.Value, k.StdError, k.Unit, k.Dof, k.Ci95Low, k.Ci95High, k.Method);
             // k = v0/Π[X]0^n scales with the followed species' concentration scale; the runs share its constants,
             // so the relative systematic uncertainty carries over whole (common practice, no source).
             Num(w, "systematicRelativeUncertainty", r.Runs.Count == 0 ? null : r.Runs.Max(x => x.Converted.RelativeSystematicUncertainty));
