@@ -6,7 +6,7 @@ namespace TraceKin.Fitting;
 /// Nonlinear weighted least squares by the Levenberg–Marquardt method with Marquardt's diagonal scaling.
 /// Each step solves min ‖[J; √λ·D]·δ − [r; 0]‖ by QR (never the normal equations): J is factored once per
 /// iteration, then the small stacked system [R; √λ·D] once per trial λ (Moré 1978, "The Levenberg–Marquardt
-/// algorithm: implementation and theory", Lecture Notes in Math. 630, §2–3). D² = running maximum of diag(JᵀWJ)
+/// algorithm: implementation and theory", in Numerical Analysis, ed. G. A. Watson, Springer LNM 630, §2–3). D² = running maximum of diag(JᵀWJ)
 /// (Marquardt 1963, SIAM J. Appl. Math. 11, 431; Moré 1978 eq. 6). λ is updated from the gain ratio ρ =
 /// actual / predicted reduction (Nielsen 1999, IMM-REP-1999-05, eq. 2.6 as given in Madsen, Nielsen &amp; Tingleff,
 /// "Methods for non-linear least squares problems", 2004, §3.2). Bounds are handled by projection with an active
