@@ -5,11 +5,18 @@ namespace TraceKin.Reports;
 /// <summary>
 /// A small HTML text builder: every piece of user text goes through <see cref="Escape"/> (the five characters that
 /// HTML gives meaning to, WHATWG HTML "Serializing HTML fragments", escapingString), so file names, run ids and
-/// messages cannot inject markup.
+/// messages cannot inject markup. It writes straight to a <see cref="TextWriter"/>, so a report with hundreds of embedded
+/// plots streams to its file instead of being held whole in memory.
 /// </summary>
 public sealed class Html
 {
-    private readonly StringBuilder _sb = new();
+    private readonly TextWriter _w;
+
+    /// <summary>Builds the page in memory (<see cref="ToString"/> returns it).</summary>
+    public Html() : this(new StringWriter(System.Globalization.CultureInfo.InvariantCulture)) { }
+
+    /// <summary>Writes the page to <paramref name="writer"/> as it is built.</summary>
+    public Html(TextWriter writer) => _w = writer;
 
     public static string Escape(string? text)
     {
@@ -37,28 +44,38 @@ public sealed class Html
     /// <summary>Appends trusted markup as is.</summary>
     public Html Raw(string markup)
     {
-        _sb.Append(markup);
+        _w.Write(markup);
         return this;
     }
 
     /// <summary>Appends user or computed text, escaped.</summary>
     public Html Text(string? text)
     {
-        _sb.Append(Escape(text));
+        _w.Write(Escape(text));
         return this;
     }
 
     /// <summary>&lt;tag attrs&gt;escaped text&lt;/tag&gt; on one line.</summary>
     public Html Element(string tag, string? text, string attributes = "")
     {
-        _sb.Append('<').Append(tag);
-        if (attributes.Length > 0) _sb.Append(' ').Append(attributes);
-        _sb.Append('>').Append(Escape(text)).Append("</").Append(tag).Append(">\n");
+        _w.Write('<');
+        _w.Write(tag);
+        if (attributes.Length > 0)
+        {
+            _w.Write(' ');
+            _w.Write(attributes);
+        }
+        _w.Write('>');
+        _w.Write(Escape(text));
+        _w.Write("</");
+        _w.Write(tag);
+        _w.Write(">\n");
         return this;
     }
 
     /// <summary>An attribute with an escaped value: name="value".</summary>
     public static string Attr(string name, string value) => $"{name}=\"{Escape(value)}\"";
 
-    public override string ToString() => _sb.ToString();
+    /// <summary>The page built so far, when building in memory.</summary>
+    public override string ToString() => _w is StringWriter sw ? sw.ToString() : base.ToString() ?? "";
 }

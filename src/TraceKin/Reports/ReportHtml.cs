@@ -26,12 +26,23 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     ];
 
     public void Write(SeriesResult result, string outDir) =>
-        AtomicFile.WriteAllText(Path.Combine(outDir, FileName), Render(result, images ? Path.Combine(outDir, "plots") : null));
+        AtomicFile.Write(Path.Combine(outDir, FileName), stream =>
+        {
+            using var writer = new StreamWriter(stream, new System.Text.UTF8Encoding(false), 1 << 16, leaveOpen: true);
+            Render(result, images ? Path.Combine(outDir, "plots") : null, new Html(writer));
+            writer.Flush();
+        });
 
-    /// <summary>The page; <paramref name="plotDir"/> null leaves the plots out (analyse --no-plots).</summary>
+    /// <summary>The page as text; <paramref name="plotDir"/> null leaves the plots out (analyse --no-plots).</summary>
     public static string Render(SeriesResult r, string? plotDir)
     {
         var h = new Html();
+        Render(r, plotDir, h);
+        return h.ToString();
+    }
+
+    private static void Render(SeriesResult r, string? plotDir, Html h)
+    {
         h.Raw("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
             .Raw("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
             .Element("title", $"{r.Name} — TraceKin series report")
@@ -52,7 +63,6 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         Notes(h, "cautions", "Cautions", ReportNotes.Cautions);
         Provenance(h, r);
         h.Raw("</main>\n</body>\n</html>\n");
-        return h.ToString();
     }
 
     private static List<Traces.Warning> AllWarnings(SeriesResult r) =>
