@@ -49,7 +49,10 @@ public static class OrderAnalysis
             varied.Add(sp);
         }
 
-        var pairs = PairRatios(usable, varied);
+        var (pairs, pairCount) = PairRatios(usable, varied);
+        if (pairCount > pairs.Count)
+            warnings.Add(new Warning("pair-table-truncated", "series", FormattableString.Invariant(
+                $"{pairCount} pairs of runs differ in one species only; the pair-ratio table lists the first {pairs.Count} in plan order (the orders come from all runs)")));
         var groups = TemperatureGroups.Of(usable);
         var p = varied.Count + groups.Count;
         if (usable.Count < p + 1 || varied.Count == 0)
@@ -227,10 +230,17 @@ public static class OrderAnalysis
         };
     }
 
-    /// <summary>Pairs of runs that differ only in one varied species: n = ln(v2/v1)/ln(c2/c1), error propagated from both rates.</summary>
-    private static IReadOnlyList<PairRatio> PairRatios(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied)
+    /// <summary>At most this many pairs are listed: with replicate runs the number of pairs grows as the square of the runs.</summary>
+    public const int MaxPairRatios = 1000;
+
+    /// <summary>
+    /// Pairs of runs that differ only in one varied species: n = ln(v2/v1)/ln(c2/c1), error propagated from both rates.
+    /// Returns the first <see cref="MaxPairRatios"/> in plan order and how many pairs there are in all.
+    /// </summary>
+    private static (IReadOnlyList<PairRatio> Pairs, int Count) PairRatios(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied)
     {
         var list = new List<PairRatio>();
+        var count = 0;
         for (var a = 0; a < runs.Count; a++)
             for (var b = a + 1; b < runs.Count; b++)
             {
@@ -246,12 +256,13 @@ public static class OrderAnalysis
                 }
                 if (!ok || differing is null) continue;
                 if (runs[a].TemperatureK is { } ta && runs[b].TemperatureK is { } tb && Math.Abs(ta - tb) > 0.05) continue;
+                if (++count > MaxPairRatios) continue;
                 var cr = runs[b].InitialConcentrations[differing] / runs[a].InitialConcentrations[differing];
                 var rr = runs[b].Rate / runs[a].Rate;
                 var lnc = Math.Log(cr);
                 var rel = Math.Sqrt(Math.Pow(runs[a].RateStdError / runs[a].Rate, 2) + Math.Pow(runs[b].RateStdError / runs[b].Rate, 2));
                 list.Add(new PairRatio(runs[a].RunId, runs[b].RunId, differing, cr, rr, Math.Log(rr) / lnc, rel / Math.Abs(lnc)));
             }
-        return list;
+        return (list, count);
     }
 }
