@@ -34,7 +34,7 @@ $PY -c 'import numpy, scipy, pandas, matplotlib' || die "the baseline's Python p
 echo "building TraceKin (Release)" >&2
 dotnet build "$REPO/src/TraceKin.Cli" -c Release -o "$WORK/bin/cli" -v q -nologo >/dev/null
 dotnet build "$REPO/bench/TraceKin.Bench" -c Release -o "$WORK/bin/bench" -v q -nologo >/dev/null
-TRACEKIN=("$WORK/bin/cli/TraceKin.Cli")
+TRACEKIN=("$WORK/bin/cli/tracekin")
 BENCHTOOL=("$WORK/bin/bench/TraceKin.Bench")
 
 # timed NAME CMD...: runs CMD under /usr/bin/time -v; sets WALL (s) and PEAK (MB); output in $WORK/logs/NAME.*

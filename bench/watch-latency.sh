@@ -7,7 +7,7 @@ cd "$(dirname "$0")/.."
 DROPS=${DROPS:-20}
 SETTLE_MS=${SETTLE_MS:-500}
 dotnet build src/TraceKin.Cli -c Release -nologo -v q >/dev/null
-cli=(dotnet src/TraceKin.Cli/bin/Release/net10.0/TraceKin.Cli.dll)
+cli=(dotnet src/TraceKin.Cli/bin/Release/net10.0/tracekin.dll)
 
 work=$(mktemp -d)
 [ -z "${KEEP:-}" ] || echo "work folder (kept): $work"

@@ -139,7 +139,7 @@ public sealed class DocsCommandTests
 
     private static (int Code, string Stdout, string Stderr) RunCli(string[] args, string workDir)
     {
-        var dll = Path.Combine(AppContext.BaseDirectory, "TraceKin.Cli.dll");
+        var dll = Path.Combine(AppContext.BaseDirectory, "tracekin.dll");
         var psi = new ProcessStartInfo(Environment.GetEnvironmentVariable("DOTNET_HOST_PATH") ?? "dotnet")
         {
             WorkingDirectory = workDir,

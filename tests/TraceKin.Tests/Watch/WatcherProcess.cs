@@ -3,7 +3,7 @@ using System.Text;
 
 namespace TraceKin.Tests.Watch;
 
-/// <summary>`tracekin watch` started as a separate process (the built TraceKin.Cli.dll under `dotnet`), its stderr kept.</summary>
+/// <summary>`tracekin watch` started as a separate process (the built tracekin.dll under `dotnet`), its stderr kept.</summary>
 public sealed class WatcherProcess : IDisposable
 {
     private readonly Process _process;
@@ -81,11 +81,11 @@ public sealed class WatcherProcess : IDisposable
         for (var dir = new DirectoryInfo(baseDir); dir is not null; dir = dir.Parent)
         {
             if (!File.Exists(Path.Combine(dir.FullName, "TraceKin.sln"))) continue;
-            var dll = Path.Combine(dir.FullName, "src", "TraceKin.Cli", "bin", config, tfm, "TraceKin.Cli.dll");
+            var dll = Path.Combine(dir.FullName, "src", "TraceKin.Cli", "bin", config, tfm, "tracekin.dll");
             if (File.Exists(dll)) return dll;
         }
-        var beside = Path.Combine(baseDir, "TraceKin.Cli.dll");
-        if (File.Exists(beside) && File.Exists(Path.Combine(baseDir, "TraceKin.Cli.runtimeconfig.json"))) return beside;
-        throw new FileNotFoundException("TraceKin.Cli.dll not found; build the solution first");
+        var beside = Path.Combine(baseDir, "tracekin.dll");
+        if (File.Exists(beside) && File.Exists(Path.Combine(baseDir, "tracekin.runtimeconfig.json"))) return beside;
+        throw new FileNotFoundException("tracekin.dll not found; build the solution first");
     }
 }
