@@ -51,6 +51,10 @@ public sealed record FitResult
     public double ResidualStdDev => Math.Sqrt(ReducedChiSquare);
     public bool Converged => Exit == FitExit.Converged;
 
+    /// <summary>Converged, with a covariance and a finite standard error for every parameter: safe to report.</summary>
+    [System.Diagnostics.CodeAnalysis.MemberNotNullWhen(true, nameof(Covariance))]
+    public bool HasUsableErrors => Converged && Covariance is not null && Parameters.All(p => double.IsFinite(p.StdError));
+
     private int K => VariedCount + 1;
     public double Aic => PointCount * Math.Log(ChiSquare / PointCount) + 2.0 * K;
     public double AicC => PointCount - K - 1 > 0 ? Aic + 2.0 * K * (K + 1) / (PointCount - K - 1) : double.PositiveInfinity;

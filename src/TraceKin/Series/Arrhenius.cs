@@ -51,7 +51,7 @@ public static class Arrhenius
                 g[1] = -p[0] * e * (1 / tt - 1 / tRef) / R;
             });
         var fit = NonlinearLeastSquares.Fit(model, k, start, new FitOptions { Weights = weights });
-        if (!fit.Converged || fit.Covariance is null || fit.Parameters.Any(p => !double.IsFinite(p.StdError)))
+        if (!fit.HasUsableErrors)
         {
             warnings.Add(new Warning("arrhenius-fit-failed", "series", $"the Arrhenius fit did not converge ({fit.Exit}: {fit.ExitDetail}); no activation energy is reported"));
             return null;

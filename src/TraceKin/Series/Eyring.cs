@@ -35,7 +35,7 @@ public static class Eyring
                 g[1] = v / R;
             });
         var fit = NonlinearLeastSquares.Fit(model, k, start, new FitOptions { Weights = weights });
-        if (!fit.Converged || fit.Covariance is null || fit.Parameters.Any(p => !double.IsFinite(p.StdError)))
+        if (!fit.HasUsableErrors)
         {
             warnings.Add(new Warning("eyring-fit-failed", "series", $"the Eyring fit did not converge ({fit.Exit}: {fit.ExitDetail}); no activation parameters are reported"));
             return null;
