@@ -12,13 +12,16 @@ using TraceKin.Traces;
 //   TraceKin.Bench parse  SERIES [--workers N]   read and parse every planned export, nothing else
 //   TraceKin.Bench stages SERIES [--workers N]   time each stage per run (parse, convert, rates, plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
+//   TraceKin.Bench ingest SERIES [--repeat N]    read, parse and convert only, one thread, best of N passes per stage;
+//                                                prints ms per file and a SHA-256 of every time, value and concentration
+//                                                bit, so two builds can be checked to give identical numbers
 //   TraceKin.Bench phases SERIES --out DIR [--plots] [--full]
 //                                                the library path of `analyse` (no logging): time of the parallel
 //                                                run stage and of each series writer, managed heap and GC counts
 // Output is `key=value` lines on stdout so that bench/batch.sh can pick the numbers up.
-if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases"))
+if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases" or "ingest"))
 {
-    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render|phases SERIES [--workers N] [--out DIR] [--full]");
+    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render|phases|ingest SERIES [--workers N] [--out DIR] [--full] [--repeat N]");
     return 2;
 }
 var folder = args[1];
@@ -61,6 +64,67 @@ if (args[0] == "parse")
     Console.WriteLine(string.Create(ci, $"parse_seconds={s:F3}"));
     Console.WriteLine(string.Create(ci, $"parse_mb_per_second={bytes / 1e6 / s:F1}"));
     Console.WriteLine(string.Create(ci, $"points={points}"));
+    return 0;
+}
+
+if (args[0] == "ingest")
+{
+    var repeat = 5;
+    for (var i = 2; i < args.Length - 1; i++)
+        if (args[i] == "--repeat") repeat = int.Parse(args[i + 1], CultureInfo.InvariantCulture);
+    var paths = rows.Select(r => Path.Combine(folder, r.File)).ToArray();
+    // warm-up pass over every file: JIT tiers settle before anything is timed
+    foreach (var (row, path) in rows.Zip(paths))
+        _ = Conversion.ToConcentration(ExportReader.FromBytes(File.ReadAllBytes(path), row.File, config.Ingest), row, config.Signal, config.File);
+    double bestRead = double.MaxValue, bestParse = double.MaxValue, bestConvert = double.MaxValue, bestCpu = double.MaxValue;
+    string digest = "";
+    var me = Process.GetCurrentProcess();
+    for (var pass = 0; pass < repeat; pass++)
+    {
+        long tr = 0, tp = 0, tc = 0;
+        using var sha = System.Security.Cryptography.IncrementalHash.CreateHash(System.Security.Cryptography.HashAlgorithmName.SHA256);
+        var exports = new RunExport[rows.Count];
+        var bytesOf = new byte[rows.Count][];
+        var gen0 = GC.CollectionCount(0);
+        me.Refresh();
+        var cpu0 = me.TotalProcessorTime;
+        for (var i = 0; i < rows.Count; i++)
+        {
+            var t0 = Stopwatch.GetTimestamp();
+            var bytes = File.ReadAllBytes(paths[i]);
+            var t1 = Stopwatch.GetTimestamp();
+            var export = ExportReader.FromBytes(bytes, rows[i].File, config.Ingest);
+            var t2 = Stopwatch.GetTimestamp();
+            var converted = Conversion.ToConcentration(export, rows[i], config.Signal, config.File);
+            var t3 = Stopwatch.GetTimestamp();
+            tr += t1 - t0;
+            tp += t2 - t1;
+            tc += t3 - t2;
+            var c = converted.Concentration;
+            sha.AppendData(System.Runtime.InteropServices.MemoryMarshal.AsBytes(c.Times.AsSpan()));
+            sha.AppendData(System.Runtime.InteropServices.MemoryMarshal.AsBytes(c.Values.AsSpan()));
+            foreach (var ch in export.Channels) sha.AppendData(System.Runtime.InteropServices.MemoryMarshal.AsBytes(ch.Values.AsSpan()));
+            sha.AppendData(System.Text.Encoding.UTF8.GetBytes(string.Join("|", export.Detected.Select(d => d.Key + "=" + d.Value)) +
+                string.Join("|", converted.UncertaintyBudget.Select(d => d.Key + "=" + d.Value.ToString("R", ci))) + converted.RelativeSystematicUncertainty.ToString("R", ci)));
+        }
+        me.Refresh();
+        var cpu = (me.TotalProcessorTime - cpu0).TotalSeconds;
+        digest = Convert.ToHexStringLower(sha.GetHashAndReset());
+        var n = (double)rows.Count;
+        double Ms(long ticks) => ticks * 1000.0 / Stopwatch.Frequency / n;
+        Console.WriteLine(string.Create(ci, $"pass={pass} read_ms_per_file={Ms(tr):F3} parse_ms_per_file={Ms(tp):F3} convert_ms_per_file={Ms(tc):F3} cpu_ms_per_file={cpu * 1000 / n:F3} gen0_gcs={GC.CollectionCount(0) - gen0}"));
+        bestRead = Math.Min(bestRead, Ms(tr));
+        bestParse = Math.Min(bestParse, Ms(tp));
+        bestConvert = Math.Min(bestConvert, Ms(tc));
+        bestCpu = Math.Min(bestCpu, cpu * 1000 / n);
+    }
+    Console.WriteLine(string.Create(ci, $"runs={rows.Count}"));
+    Console.WriteLine(string.Create(ci, $"best_read_ms_per_file={bestRead:F3}"));
+    Console.WriteLine(string.Create(ci, $"best_parse_ms_per_file={bestParse:F3}"));
+    Console.WriteLine(string.Create(ci, $"best_convert_ms_per_file={bestConvert:F3}"));
+    Console.WriteLine(string.Create(ci, $"best_process_cpu_ms_per_file={bestCpu:F3}"));
+    Console.WriteLine(string.Create(ci, $"load_average={File.ReadAllText("/proc/loadavg").Split(' ')[0]}"));
+    Console.WriteLine($"digest={digest}");
     return 0;
 }
 

@@ -28,18 +28,22 @@ public static class RunConversion
         CheckQuantity(channel, model, s, warnings, where);
 
         var raw = channel.Values;
-        var signal = (double[])raw.Clone();
+        // the channel itself when there is nothing to subtract (it is only read from here on)
+        var signal = raw;
         if (s.ReferenceChannel is { } refName)
         {
             var reference = export.Channel(refName);
             if (reference.Count != channel.Count)
                 throw Fail.Setting(s.Source, "signal.reference_channel", $"{reference.Count} points in {Fail.Quote(reference.Name)}", $"{channel.Count} points, as in the signal channel");
-            for (var i = 0; i < signal.Length; i++) signal[i] -= reference.Values[i];
+            signal = new double[raw.Length];
+            for (var i = 0; i < signal.Length; i++) signal[i] = raw[i] - reference.Values[i];
         }
 
         if (s.Kind == "absorbance")
         {
-            var over = raw.Count(a => a > s.LinearLimit);
+            var over = 0;
+            foreach (var a in raw)
+                if (a > s.LinearLimit) over++;
             if (over > 0)
                 warnings.Add(new Warning("absorbance-above-linear-range", where,
                     $"{over} of {raw.Length} absorbance readings exceed {s.LinearLimit.ToString("G4", Inv)} (largest {raw.Max().ToString("G4", Inv)}); " +
@@ -48,16 +52,24 @@ public static class RunConversion
 
         var temperatures = PointTemperatures(export, channel, model);
         var conc = new double[signal.Length];
-        for (var i = 0; i < signal.Length; i++) conc[i] = model.ToConcentration(signal[i], temperatures[i]);
+        var toConcentration = model.ToConcentration;
+        if (temperatures is null)
+        {
+            var t = model.Temperature ?? double.NaN;
+            for (var i = 0; i < conc.Length; i++) conc[i] = toConcentration(signal[i], t);
+        }
+        else
+            for (var i = 0; i < conc.Length; i++) conc[i] = toConcentration(signal[i], temperatures[i]);
 
         double[]? stdErrors = null;
         if (model.Curve is { } curve)
         {
             stdErrors = new double[signal.Length];
             var outside = 0;
+            var fallback = model.Temperature ?? double.NaN;
             for (var i = 0; i < signal.Length; i++)
             {
-                var y = model.CurveInput(signal[i], temperatures[i]);
+                var y = model.CurveInput(signal[i], temperatures?[i] ?? fallback);
                 if (!curve.Covers(y)) outside++;
                 stdErrors[i] = curve.StdError(y);
             }
@@ -67,7 +79,9 @@ public static class RunConversion
                     "their concentrations are extrapolated"));
         }
 
-        var bad = conc.Count(c => !double.IsFinite(c));
+        var bad = 0;
+        foreach (var c in conc)
+            if (!double.IsFinite(c)) bad++;
         if (bad > 0)
             warnings.Add(new Warning("conversion-undefined", where, $"{bad} of {conc.Length} readings could not be converted (the calibration curve never reaches them)"));
 
@@ -108,14 +122,15 @@ public static class RunConversion
             "set signal.channel to the right column, or signal.kind to what it measures");
     }
 
-    private static double[] PointTemperatures(RunExport export, Trace channel, SignalModel model)
+    /// <summary>Each point's own temperature, K, interpolated from a temperature column; null when the run's temperature (<see cref="SignalModel.Temperature"/>) serves every point.</summary>
+    private static double[]? PointTemperatures(RunExport export, Trace channel, SignalModel model)
     {
-        var result = new double[channel.Count];
-        var fallback = model.Temperature ?? double.NaN;
         var aux = model.UsesPointTemperature
             ? export.Auxiliary.Concat(export.Channels).FirstOrDefault(a => a.Quantity == Quantity.Temperature && a.Count > 0)
             : null;
-        for (var i = 0; i < result.Length; i++) result[i] = aux is null ? fallback : Interpolate(aux, channel.Times[i]);
+        if (aux is null) return null;
+        var result = new double[channel.Count];
+        for (var i = 0; i < result.Length; i++) result[i] = Interpolate(aux, channel.Times[i]);
         return result;
     }
 
@@ -142,7 +157,7 @@ public static class RunConversion
         var check = export.Channel(checkName);
         if (check.Count != n)
             throw Fail.Setting(s.Source, "signal.check_channel", $"{check.Count} points in {Fail.Quote(check.Name)}", $"{n} points, as in the signal channel");
-        var bl = new BeerLambert(s.CheckMolarAbsorptivity!.Value, s.PathLength, s.CheckBlank);
+        var bl = new BeerLambert(s.CheckMolarAbsorptivity!.Value, s.PathLength, s.CheckBlank).Response;
         double worst = 0, lo = double.PositiveInfinity, hi = double.NegativeInfinity;
         for (var i = 0; i < n; i++)
         {

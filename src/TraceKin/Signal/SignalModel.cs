@@ -71,10 +71,12 @@ public sealed record SignalModel
                     new("blank", $"{G(s.Blank)} AU (signal.blank)"),
                 };
                 constants.AddRange(s.Absorbers.Select(a => new KeyValuePair<string, string>($"ε({a.Species})", $"{G(a.MolarAbsorptivity)} L/(mol·cm), ν = {G(a.Coefficient)} (signal.absorber)")));
+                // BeerLambert.Response builds the linear response afresh on every call; build it once per run.
+                var response = bl.Response;
                 return new SignalModel
                 {
                     SignalQuantity = Quantity.Absorbance, SignalUnit = Units.Absorbance,
-                    ToConcentration = (a, _) => bl.ToConcentration(a), ToSignal = (c, _) => bl.ToAbsorbance(c),
+                    ToConcentration = (a, _) => response.ToConcentration(a), ToSignal = (c, _) => response.ToSignal(c),
                     RelativeSystematicUncertainty = rel, Budget = budget, ConstantsUsed = constants, Temperature = row.TemperatureK,
                 };
             }
