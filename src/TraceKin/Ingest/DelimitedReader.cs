@@ -12,7 +12,7 @@ internal static class DelimitedReader
 {
     private static readonly string[] TimeZeroKeys = ["mixed at", "mixing time", "time of mixing", "t0", "t_0", "t 0", "time zero", "zero time", "start time", "started at"];
 
-    public static RunExport Read(ReadOnlyMemory<byte> text, string file, string encoding, IngestSettings settings)
+    public static RunExport Read(ReadOnlyMemory<byte> text, string file, string encoding, IngestSettings settings, bool fastRows = true)
     {
         var detected = new List<KeyValuePair<string, string>>
         {
@@ -45,7 +45,7 @@ internal static class DelimitedReader
                 "at least one absorbance, gas volume, pressure or conductivity column", "write the quantity and its unit in the header, e.g. \"A520\" or \"V (mL)\"");
 
         // Rows.
-        var rows = new RowReader(text, file, layout, timeIndex, kept, settings, metadata, metadataLines);
+        var rows = new RowReader(text, file, layout, timeIndex, kept, settings, metadata, metadataLines, fastRows);
         rows.ReadAll(lines);
         var timeCells = rows.Time;
 

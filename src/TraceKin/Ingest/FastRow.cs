@@ -1,112 +1,99 @@
 namespace TraceKin.Ingest;
 
 /// <summary>
-/// The common case of a data row — unquoted plain decimal numbers split by one delimiter byte — read in a single pass
-/// that splits and parses at once. Anything else (quotes, blanks, long mantissas, a malformed cell, a short row) returns
-/// false and the row is read again by the general path, which also produces the located error. Numbers use Clinger's
-/// exact fast path (W. D. Clinger, PLDI 1990): at most 15 significant digits and a power of ten up to 10^22.
+/// The common case of data rows — unquoted plain decimal numbers split by one delimiter byte, times that increase —
+/// read in a single pass over the text that finds line ends, splits cells and parses numbers at once
+/// (<see cref="PlainNumber"/>). It stops at the first line that is anything else (a blank or comment line, quotes,
+/// blanks around cells, long mantissas, a repeated or earlier time, a malformed or missing cell, a full buffer), and
+/// that line is read by the general path, which also produces the located error.
 /// </summary>
 internal static class FastRow
 {
     public const int Time = -1;
     public const int Skip = -2;
 
-    private static readonly double[] Pow10 =
-    [
-        1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
-    ];
-
-    /// <param name="targets">For each header column: <see cref="Time"/>, <see cref="Skip"/> or the slot in <paramref name="values"/>.</param>
-    public static bool TryRead(ReadOnlySpan<byte> line, byte delimiter, byte separator, int[] targets, Span<double> values, out double time)
+    /// <summary>
+    /// Reads rows from byte <paramref name="position"/> (the start of line <paramref name="lineNumber"/> + 1) while
+    /// they take the fast path; returns how many, with <paramref name="position"/> and <paramref name="lineNumber"/>
+    /// moved past them.
+    /// </summary>
+    /// <param name="targets">For each header column: <see cref="Time"/>, <see cref="Skip"/> or the index in <paramref name="values"/>.</param>
+    /// <param name="timeUnit">Raw time → seconds.</param>
+    /// <param name="count">Rows stored so far (at least one: the general path reads the first row); rows go after them while there is room.</param>
+    public static int ReadRows(ReadOnlySpan<byte> text, ref int position, ref int lineNumber, byte delimiter, byte separator, int[] targets,
+        Traces.UnitInfo timeUnit, double[] times, double[][] values, int[] rowLines, ref int count)
     {
-        time = 0;
-        var len = line.Length;
-        var i = 0;
-        var c = 0;
-        while (true)
+        var capacity = times.Length;
+        var previous = times[count - 1];
+        var len = text.Length;
+        var pos = position;
+        var line = lineNumber;
+        var last = targets.Length - 1;
+        var read = 0;
+        while (pos < len && count < capacity)
         {
-            if (c >= targets.Length) return false;
-            var target = targets[c];
-            if (target == Skip)
+            // only a line the general path would call a data row (DelimitedLayout.KindOf): it starts with a digit, or a
+            // sign or decimal point before a digit or point; blank, comment and text lines (headers, footers) go there
+            var first = text[pos];
+            if ((uint)(first - '0') > 9 &&
+                !(first is (byte)'+' or (byte)'-' or (byte)'.' && pos + 1 < len && ((uint)(text[pos + 1] - '0') <= 9 || text[pos + 1] == (byte)'.')))
+                break;
+            var i = pos;
+            double raw = 0;
+            var ok = true;
+            for (var c = 0; c <= last; c++)
             {
-                var rel = line[i..].IndexOf(delimiter);
-                i = rel < 0 ? len : i + rel;
-            }
-            else
-            {
-                var negative = false;
-                if (i < len && line[i] is (byte)'-' or (byte)'+')
+                var target = targets[c];
+                if (target == Skip)
                 {
-                    negative = line[i] == (byte)'-';
-                    i++;
-                }
-                ulong mantissa = 0;
-                var significant = 0;
-                var exponent = 0;
-                var digits = 0;
-                while (i < len)
-                {
-                    var d = (uint)(line[i] - '0');
-                    if (d > 9) break;
-                    if (mantissa != 0 || d != 0)
+                    // an ignored cell: anything up to the delimiter, except a quote (a quoted cell may hold the delimiter)
+                    while (i < len && text[i] is var b && b != delimiter && b != (byte)'\n' && b != (byte)'\r')
                     {
-                        if (++significant > 15) return false;
-                        mantissa = mantissa * 10 + d;
-                    }
-                    digits++;
-                    i++;
-                }
-                if (i < len && line[i] == separator)
-                {
-                    i++;
-                    while (i < len)
-                    {
-                        var d = (uint)(line[i] - '0');
-                        if (d > 9) break;
-                        if (mantissa != 0 || d != 0)
+                        if (b == (byte)'"' || i - pos > TextLines.MaxLineBytes)
                         {
-                            if (++significant > 15) return false;
-                            mantissa = mantissa * 10 + d;
+                            ok = false;
+                            break;
                         }
-                        exponent--;
-                        digits++;
                         i++;
                     }
+                    if (!ok) break;
                 }
-                if (digits == 0) return false;
-                if (i < len && (line[i] | 0x20) == (byte)'e')
+                else
                 {
-                    i++;
-                    var expNegative = false;
-                    if (i < len && line[i] is (byte)'-' or (byte)'+')
+                    if (!PlainNumber.TryRead(text, ref i, separator, out var v))
                     {
-                        expNegative = line[i] == (byte)'-';
-                        i++;
+                        ok = false;
+                        break;
                     }
-                    var e = 0;
-                    var expDigits = 0;
-                    while (i < len)
-                    {
-                        var d = (uint)(line[i] - '0');
-                        if (d > 9) break;
-                        if (e < 1000) e = e * 10 + (int)d;
-                        expDigits++;
-                        i++;
-                    }
-                    if (expDigits == 0) return false;
-                    exponent += expNegative ? -e : e;
+                    if (target == Time) raw = v;
+                    else values[target][count] = v;
                 }
-                if (i < len && line[i] != delimiter) return false;
-                if (exponent is < -22 or > 22) return false;
-                double v = mantissa;
-                v = exponent >= 0 ? v * Pow10[exponent] : v / Pow10[-exponent];
-                if (negative) v = -v;
-                if (target == Time) time = v;
-                else values[target] = v;
+                if (c < last)
+                {
+                    if (i >= len || text[i] != delimiter)
+                    {
+                        ok = false;
+                        break;
+                    }
+                    i++;
+                }
+                else if (i < len && text[i] != (byte)'\n' && text[i] != (byte)'\r')
+                    ok = false;
             }
-            c++;
-            if (i >= len) return c == targets.Length;
-            i++; // past the delimiter
+            if (!ok) break;
+            var time = timeUnit.ToInternal(raw);
+            if (!(time > previous)) break;
+            times[count] = time;
+            rowLines[count] = ++line;
+            count++;
+            read++;
+            previous = time;
+            // past the line end: LF, CRLF or CR (as TextLines reads them)
+            if (i < len) i += text[i] == (byte)'\r' && i + 1 < len && text[i + 1] == (byte)'\n' ? 2 : 1;
+            pos = i;
         }
+        position = pos;
+        lineNumber = line;
+        return read;
     }
 }

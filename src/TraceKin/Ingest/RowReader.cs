@@ -23,12 +23,14 @@ internal sealed class RowReader
     private List<int>? _duplicateLines;
     private Dictionary<int, int>? _merged;
     // the single-pass reader for plain numeric rows, set up once the time form and decimal separator are known
+    private readonly bool _fastRows;
     private int[]? _fastTargets;
-    private double[] _rowValues = [];
 
+    /// <param name="fastRows">Read plain numeric rows by <see cref="FastRow"/> (the default); false reads every row by the general path, which gives the same numbers.</param>
     public RowReader(ReadOnlyMemory<byte> text, string file, DelimitedLayout layout, int timeIndex, ColumnSpec[] columns, IngestSettings settings,
-        Dictionary<string, string> metadata, Dictionary<string, int> metadataLines)
+        Dictionary<string, string> metadata, Dictionary<string, int> metadataLines, bool fastRows = true)
     {
+        _fastRows = fastRows;
         _text = text;
         _file = file;
         _layout = layout;
@@ -80,10 +82,11 @@ internal sealed class RowReader
         var headerCount = _layout.Header.Length;
         var cellBuffer = new Cell[headerCount + 2];
         var header = span.Slice(_layout.HeaderStart, _layout.HeaderLength);
-        while (lines.Next(out var start, out var length))
+        while (true)
         {
+            if (_fastTargets is not null) ReadFast(span, lines);
+            if (!lines.Next(out var start, out var length)) break;
             var line = span.Slice(start, length);
-            if (TryFast(line, lines.LineNumber)) continue;
             var kind = DelimitedLayout.KindOf(line);
             if (kind is LineKind.Blank or LineKind.Comment) continue;
             if (kind == LineKind.Text)
@@ -140,21 +143,18 @@ internal sealed class RowReader
     }
 
     /// <summary>
-    /// The single-pass path for a plain numeric row whose time follows the last one; false sends the line to the
-    /// general path (blank, comment, text, quoted or odd cells, repeated or earlier times), which also reports errors.
+    /// Plain numeric rows whose times follow the last one, read in one pass from where <paramref name="lines"/> stands;
+    /// the first line that is anything else is left to the general path (blank, comment, text, quoted or odd cells,
+    /// repeated or earlier times), which also reports errors.
     /// </summary>
-    private bool TryFast(ReadOnlySpan<byte> line, int lineNumber)
+    private void ReadFast(ReadOnlySpan<byte> span, TextLines lines)
     {
-        if (_fastTargets is null || !FastRow.TryRead(line, _layout.Delimiter, Decimal, _fastTargets, _rowValues, out var raw)) return false;
-        var time = raw * _time!.Unit!.Factor + _time.Unit.Offset;
-        if (!(time > Times[Count - 1])) return false;
-        if (Count == Times.Length) Grow();
-        Times[Count] = time;
-        RowLines[Count] = lineNumber;
-        for (var k = 0; k < _rowValues.Length; k++) Values[k][Count] = _rowValues[k];
-        Count++;
+        var (position, lineNumber) = lines.Mark();
+        var count = Count;
+        if (FastRow.ReadRows(span, ref position, ref lineNumber, _layout.Delimiter, Decimal, _fastTargets!, _time!.Unit!, Times, Values, RowLines, ref count) == 0) return;
+        Count = count;
         LastLine = lineNumber;
-        return true;
+        lines.MoveTo(position, lineNumber);
     }
 
     private void ReadRow(ReadOnlySpan<byte> line, int lineNumber, Cell[] cells, int headerCount)
@@ -188,13 +188,12 @@ internal sealed class RowReader
             Values[k][row] = Value(line, lineNumber, cells[_columns[k].Index]);
         Count++;
         LastLine = lineNumber;
-        if (_fastTargets is null && _time.Form == TimeForm.Number && _layout.Delimiter != CellSplitter.Whitespace && (_decimalForced || DecimalLine > 0))
+        if (_fastRows && _fastTargets is null && _time.Form == TimeForm.Number && _layout.Delimiter != CellSplitter.Whitespace && (_decimalForced || DecimalLine > 0))
         {
             var targets = new int[headerCount];
             Array.Fill(targets, FastRow.Skip);
             targets[_timeIndex] = FastRow.Time;
             for (var k = 0; k < _columns.Length; k++) targets[_columns[k].Index] = k;
-            _rowValues = new double[_columns.Length];
             _fastTargets = targets;
         }
     }

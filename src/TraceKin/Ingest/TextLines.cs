@@ -51,6 +51,9 @@ internal sealed class TextLines(ReadOnlyMemory<byte> text, string file)
 
     public void Restore((int Position, int Line) mark) => (_pos, LineNumber) = mark;
 
+    /// <summary>Continues after lines another reader has consumed: <paramref name="position"/> is the start of the next line, <paramref name="lineNumber"/> the number of the last line read.</summary>
+    public void MoveTo(int position, int lineNumber) => (_pos, LineNumber) = (position, lineNumber);
+
     /// <summary>Moves back to the start of the text.</summary>
     public void Reset()
     {
