@@ -12,7 +12,9 @@ using TraceKin.Traces;
 //   TraceKin.Bench parse  SERIES [--workers N]   read and parse every planned export, nothing else
 //   TraceKin.Bench stages SERIES [--workers N]   time each stage per run (parse, convert, rates, plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
-//   TraceKin.Bench ingest SERIES [--repeat N]    read, parse and convert only, one thread, best of N passes per stage;
+//   TraceKin.Bench ingest SERIES [--repeat N] [--read-all-bytes]
+//                                                read (ExportBytes, or File.ReadAllBytes as SeriesRunner does), parse
+//                                                and convert only, one thread, best of N passes per stage (thread CPU);
 //                                                prints ms per file and a SHA-256 of every time, value and concentration
 //                                                bit, so two builds can be checked to give identical numbers
 //   TraceKin.Bench phases SERIES --out DIR [--plots] [--full]
@@ -73,6 +75,7 @@ if (args[0] == "ingest")
     for (var i = 2; i < args.Length - 1; i++)
         if (args[i] == "--repeat") repeat = int.Parse(args[i + 1], CultureInfo.InvariantCulture);
     var paths = rows.Select(r => Path.Combine(folder, r.File)).ToArray();
+    var readAllBytes = args.Contains("--read-all-bytes");
     // warm-up pass over every file: JIT tiers settle before anything is timed
     foreach (var (row, path) in rows.Zip(paths))
         _ = Conversion.ToConcentration(ExportReader.FromBytes(File.ReadAllBytes(path), row.File, config.Ingest), row, config.Signal, config.File);
@@ -89,7 +92,8 @@ if (args[0] == "ingest")
         for (var i = 0; i < rows.Count; i++)
         {
             var (t0, u0) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
-            var bytes = File.ReadAllBytes(paths[i]);
+            using var lease = readAllBytes ? null : ExportBytes.Read(paths[i]);
+            var bytes = lease?.Memory ?? File.ReadAllBytes(paths[i]);
             var (t1, u1) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
             var export = ExportReader.FromBytes(bytes, rows[i].File, config.Ingest);
             var (t2, u2) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());

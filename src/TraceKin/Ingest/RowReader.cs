@@ -74,10 +74,11 @@ internal sealed class RowReader
         var breaks = rest.Count((byte)'\n');
         if (breaks == 0) breaks = rest.Count((byte)'\r');
         var capacity = breaks + (rest.Length > 0 && rest[^1] is (byte)'\n' or (byte)'\r' ? 0 : 1);
-        Times = new double[capacity];
+        // not zeroed: only the first Count entries are ever read, and Finish trims the arrays to them
+        Times = GC.AllocateUninitializedArray<double>(capacity);
         Values = new double[_columns.Length][];
-        for (var k = 0; k < _columns.Length; k++) Values[k] = new double[capacity];
-        RowLines = new int[capacity];
+        for (var k = 0; k < _columns.Length; k++) Values[k] = GC.AllocateUninitializedArray<double>(capacity);
+        RowLines = GC.AllocateUninitializedArray<int>(capacity);
 
         var headerCount = _layout.Header.Length;
         var cellBuffer = new Cell[headerCount + 2];

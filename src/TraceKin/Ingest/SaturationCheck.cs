@@ -16,7 +16,9 @@ internal static class SaturationCheck
         var threshold = settings.SaturationAbsorbance;
         if (threshold <= 0 || trace.Count == 0) return trace;
         var values = trace.Values;
-        var max = values.Max();
+        var max = double.NegativeInfinity; // the values are finite (the readers refuse anything else)
+        foreach (var v in values)
+            if (v > max) max = v;
         if (max < threshold) return trace;
         var excluded = new List<(int From, int To)>();
         var k = 0;

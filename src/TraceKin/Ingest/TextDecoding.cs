@@ -13,22 +13,23 @@ internal static class TextDecoding
 {
     public readonly record struct Decoded(ReadOnlyMemory<byte> Utf8, string Encoding);
 
-    public static Decoded ToUtf8(byte[] bytes, string file, string? forced)
+    public static Decoded ToUtf8(ReadOnlyMemory<byte> memory, string file, string? forced)
     {
+        var bytes = memory.Span;
         var hasUtf8Bom = bytes.Length >= 3 && bytes[0] == 0xEF && bytes[1] == 0xBB && bytes[2] == 0xBF;
         var hasLeBom = bytes.Length >= 2 && bytes[0] == 0xFF && bytes[1] == 0xFE;
         var hasBeBom = bytes.Length >= 2 && bytes[0] == 0xFE && bytes[1] == 0xFF;
         Decoded result = forced switch
         {
-            "utf-8" => Utf8(bytes, hasUtf8Bom ? 3 : 0, file, hasUtf8Bom ? "UTF-8 (BOM)" : "UTF-8", "set by ingest.encoding"),
+            "utf-8" => Utf8(memory, hasUtf8Bom ? 3 : 0, file, hasUtf8Bom ? "UTF-8 (BOM)" : "UTF-8", "set by ingest.encoding"),
             "utf-16le" => Utf16(bytes, hasLeBom ? 2 : 0, bigEndian: false, file, "UTF-16 LE (set by ingest.encoding)"),
             "utf-16be" => Utf16(bytes, hasBeBom ? 2 : 0, bigEndian: true, file, "UTF-16 BE (set by ingest.encoding)"),
             "windows-1252" => new(Windows1252(bytes, 0, latin1Only: false), "Windows-1252 (set by ingest.encoding)"),
             "latin-1" => new(Windows1252(bytes, 0, latin1Only: true), "Latin-1 (set by ingest.encoding)"),
-            _ when hasUtf8Bom => Utf8(bytes, 3, file, "UTF-8 (BOM)", null),
+            _ when hasUtf8Bom => Utf8(memory, 3, file, "UTF-8 (BOM)", null),
             _ when hasLeBom => Utf16(bytes, 2, bigEndian: false, file, "UTF-16 LE (BOM)"),
             _ when hasBeBom => Utf16(bytes, 2, bigEndian: true, file, "UTF-16 BE (BOM)"),
-            _ when System.Text.Unicode.Utf8.IsValid(bytes) => new(bytes, "UTF-8"),
+            _ when System.Text.Unicode.Utf8.IsValid(bytes) => new(memory, "UTF-8"),
             _ => new(Windows1252(bytes, 0, latin1Only: false), "Windows-1252 (not valid UTF-8)"),
         };
         var nul = result.Utf8.Span.IndexOf((byte)0);
@@ -40,9 +41,9 @@ internal static class TextDecoding
         return result;
     }
 
-    private static Decoded Utf8(byte[] bytes, int start, string file, string name, string? how)
+    private static Decoded Utf8(ReadOnlyMemory<byte> bytes, int start, string file, string name, string? how)
     {
-        var span = bytes.AsSpan(start);
+        var span = bytes.Span[start..];
         if (!System.Text.Unicode.Utf8.IsValid(span))
         {
             var bad = FirstInvalidUtf8(span);
@@ -50,7 +51,7 @@ internal static class TextDecoding
             throw Fail.At(file, line, col, $"the byte 0x{span[bad]:X2}, which is not UTF-8", "UTF-8 text" + (how is null ? " (the file starts with a UTF-8 byte-order mark)" : ""),
                 "re-export as UTF-8, or set ingest.encoding = \"windows-1252\"");
         }
-        return new(bytes.AsMemory(start), how is null ? name : $"{name} ({how})");
+        return new(bytes[start..], how is null ? name : $"{name} ({how})");
     }
 
     private static int FirstInvalidUtf8(ReadOnlySpan<byte> span)
@@ -64,14 +65,14 @@ internal static class TextDecoding
         return 0;
     }
 
-    private static Decoded Utf16(byte[] bytes, int start, bool bigEndian, string file, string name)
+    private static Decoded Utf16(ReadOnlySpan<byte> bytes, int start, bool bigEndian, string file, string name)
     {
         if ((bytes.Length - start) % 2 != 0)
             throw Fail.At(file, 1, 1, $"UTF-16 text of an odd number of bytes ({bytes.Length - start})", "whole 2-byte code units", "the file may be truncated");
         string text;
         try
         {
-            text = new UnicodeEncoding(bigEndian, byteOrderMark: false, throwOnInvalidBytes: true).GetString(bytes, start, bytes.Length - start);
+            text = new UnicodeEncoding(bigEndian, byteOrderMark: false, throwOnInvalidBytes: true).GetString(bytes[start..]);
         }
         catch (DecoderFallbackException)
         {
@@ -88,7 +89,7 @@ internal static class TextDecoding
         '\u0090', '\u2018', '\u2019', '\u201C', '\u201D', '\u2022', '\u2013', '\u2014', '\u02DC', '\u2122', '\u0161', '\u203A', '\u0153', '\u009D', '\u017E', '\u0178',
     ];
 
-    private static byte[] Windows1252(byte[] bytes, int start, bool latin1Only)
+    private static byte[] Windows1252(ReadOnlySpan<byte> bytes, int start, bool latin1Only)
     {
         var chars = new char[bytes.Length - start];
         for (var i = start; i < bytes.Length; i++)

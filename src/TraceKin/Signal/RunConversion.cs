@@ -51,7 +51,7 @@ public static class RunConversion
         }
 
         var temperatures = PointTemperatures(export, channel, model);
-        var conc = new double[signal.Length];
+        var conc = GC.AllocateUninitializedArray<double>(signal.Length); // every entry is written below
         var toConcentration = model.ToConcentration;
         if (temperatures is null)
         {
