@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace TraceKin.Ingest;
 
 /// <summary>
@@ -23,6 +25,7 @@ internal static class FastRow
     public static int ReadRows(ReadOnlySpan<byte> text, ref int position, ref int lineNumber, byte delimiter, byte separator, int[] targets,
         Traces.UnitInfo timeUnit, double[] times, double[][] values, int[] rowLines, ref int count)
     {
+        if (targets is [Time, 0]) return ReadPairs(text, ref position, ref lineNumber, delimiter, separator, timeUnit, times, values[0], rowLines, ref count);
         var capacity = times.Length;
         var previous = times[count - 1];
         var len = text.Length;
@@ -32,12 +35,7 @@ internal static class FastRow
         var read = 0;
         while (pos < len && count < capacity)
         {
-            // only a line the general path would call a data row (DelimitedLayout.KindOf): it starts with a digit, or a
-            // sign or decimal point before a digit or point; blank, comment and text lines (headers, footers) go there
-            var first = text[pos];
-            if ((uint)(first - '0') > 9 &&
-                !(first is (byte)'+' or (byte)'-' or (byte)'.' && pos + 1 < len && ((uint)(text[pos + 1] - '0') <= 9 || text[pos + 1] == (byte)'.')))
-                break;
+            if (!StartsDataRow(text, pos)) break;
             var i = pos;
             double raw = 0;
             var ok = true;
@@ -88,12 +86,64 @@ internal static class FastRow
             count++;
             read++;
             previous = time;
-            // past the line end: LF, CRLF or CR (as TextLines reads them)
-            if (i < len) i += text[i] == (byte)'\r' && i + 1 < len && text[i + 1] == (byte)'\n' ? 2 : 1;
-            pos = i;
+            pos = PastLineEnd(text, i);
         }
         position = pos;
         lineNumber = line;
         return read;
     }
+
+    /// <summary>
+    /// <see cref="ReadRows"/> for the usual single-channel export, a time column and then one value column: the same
+    /// rules without the per-cell dispatch.
+    /// </summary>
+    private static int ReadPairs(ReadOnlySpan<byte> text, ref int position, ref int lineNumber, byte delimiter, byte separator,
+        Traces.UnitInfo timeUnit, double[] times, double[] values, int[] rowLines, ref int count)
+    {
+        var capacity = Math.Min(times.Length, Math.Min(values.Length, rowLines.Length));
+        var previous = times[count - 1];
+        var len = text.Length;
+        var pos = position;
+        var line = lineNumber;
+        var n = count;
+        while (pos < len && n < capacity)
+        {
+            if (!StartsDataRow(text, pos)) break;
+            var i = pos;
+            if (!PlainNumber.TryRead(text, ref i, separator, out var raw) || i >= len || text[i] != delimiter) break;
+            i++;
+            if (!PlainNumber.TryRead(text, ref i, separator, out var value) || (i < len && text[i] != (byte)'\n' && text[i] != (byte)'\r')) break;
+            var time = timeUnit.ToInternal(raw);
+            if (!(time > previous)) break;
+            times[n] = time;
+            values[n] = value;
+            rowLines[n] = ++line;
+            n++;
+            previous = time;
+            pos = PastLineEnd(text, i);
+        }
+        var read = n - count;
+        count = n;
+        position = pos;
+        lineNumber = line;
+        return read;
+    }
+
+    /// <summary>
+    /// Only a line the general path would call a data row (<see cref="DelimitedLayout.KindOf"/>) may take the fast path:
+    /// it starts with a digit, or a sign or decimal point before a digit or point. Blank, comment and text lines
+    /// (headers, footers) go to the general path.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static bool StartsDataRow(ReadOnlySpan<byte> text, int pos)
+    {
+        var first = text[pos];
+        return (uint)(first - '0') <= 9 ||
+            (first is (byte)'+' or (byte)'-' or (byte)'.' && pos + 1 < text.Length && ((uint)(text[pos + 1] - '0') <= 9 || text[pos + 1] == (byte)'.'));
+    }
+
+    /// <summary>The start of the next line after a line end at <paramref name="i"/> (LF, CRLF or CR, as <see cref="TextLines"/> reads them), or the end of the text.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static int PastLineEnd(ReadOnlySpan<byte> text, int i) =>
+        i >= text.Length ? i : i + (text[i] == (byte)'\r' && i + 1 < text.Length && text[i + 1] == (byte)'\n' ? 2 : 1);
 }
