@@ -53,10 +53,14 @@ public static class IntegratedLawFitter
             foreach (var law in Candidates(a0, partner))
             {
                 (LawModel Model, FitResult Fit) r;
+                var screen = withDrift && drift == "auto";
                 if (law is PseudoFirstOrderLaw pf && firstOrder is { } fo)
                     r = AsPseudoFirstOrder(pf, fo, t, nu, a0, withDrift);
+                else if (law is PseudoFirstOrderLaw && screen && plainFits.ContainsKey(new FirstOrderLaw().Name))
+                    continue; // its first-order twin was screened out
                 else if (withDrift && plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged)
                 {
+                    if (screen && DriftScore(plain.Model, plain.Fit, t, weights) < DriftScreenScore) continue;
                     // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
                     var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
                     var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
@@ -140,6 +144,53 @@ public static class IntegratedLawFitter
         var residualsOnFine = chosenFit is not null && chosenFit.Fit.Residuals.Length == tFine.Length;
         return new LawSelection(fits, chosenModel, chosenModel?.Drift ?? false, noInteger,
             residualsOnFine ? tFine : t, residualsOnFine ? wFine : weights);
+    }
+
+    /// <summary>Score statistic below which a law's drift variant is not fitted in "auto" mode (see <see cref="DriftScore"/>).</summary>
+    public const double DriftScreenScore = 4;
+
+    /// <summary>
+    /// Score (Lagrange-multiplier) statistic for adding a linear drift term to a converged drift-free fit:
+    /// S = (xᵀr)² / (s²·xᵀ(I − P)x), with x = √w·t, r the weighted residuals, P the projection onto the columns of the
+    /// weighted Jacobian at the solution and s² = χ²/dof (Rao 1948, Proc. Camb. Phil. Soc. 44, 50; Engle 1984,
+    /// Handbook of Econometrics II, ch. 13, from memory). S approximates the drop in χ²/s² that the drift term would
+    /// bring, so the drift variant can beat the drift-free law by the 7 AICc units the choice asks for only when S is
+    /// near 9 or more; variants with S below <see cref="DriftScreenScore"/> (a wide margin for the curvature of the
+    /// model) are not fitted, which saves most drift fits on traces that do not drift.
+    /// </summary>
+    internal static double DriftScore(LawModel model, FitResult fit, double[] t, double[] w)
+    {
+        var n = t.Length;
+        var np = fit.Parameters.Count;
+        if (fit.Residuals.Length != n || !(fit.DegreesOfFreedom > 0)) return double.PositiveInfinity;
+        var p = new double[np];
+        for (var j = 0; j < np; j++) p[j] = fit.Parameters[j].Value;
+        var jac = new double[n * np];
+        if (!model.TryJacobian(p, jac)) return double.PositiveInfinity;
+        var cols = new List<int>(np);
+        for (var j = 0; j < np; j++) if (fit.Parameters[j].Varied) cols.Add(j);
+        var m = cols.Count;
+        var a = new double[n * m];
+        var x = new double[n];
+        double xr = 0, xx = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var sw = w[i] > 0 ? Math.Sqrt(w[i]) : 0;
+            for (var k = 0; k < m; k++) a[k * n + i] = sw * jac[i * np + cols[k]];
+            x[i] = sw * t[i];
+            xr += x[i] * sw * fit.Residuals[i];
+            xx += x[i] * x[i];
+        }
+        var tau = new double[m];
+        var rDiag = new double[m];
+        Householder.Factor(a, n, m, tau, rDiag);
+        Householder.ApplyQt(a, n, m, tau, x);
+        var inSpan = 0.0;
+        for (var k = 0; k < m; k++) inSpan += x[k] * x[k];
+        var outside = xx - inSpan;
+        var s2 = fit.ChiSquare / fit.DegreesOfFreedom;
+        if (!(outside > 1e-12 * xx) || !(s2 > 0)) return double.PositiveInfinity;
+        return xr * xr / (s2 * outside);
     }
 
     /// <summary>

@@ -113,3 +113,48 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
                 yield return [items[i], .. rest];
     }
 }
+
+/// <summary>
+/// The drift screen: the score statistic for adding a drift term agrees with the drop in χ²/s² that fitting the
+/// term actually brings (score and likelihood-ratio statistics agree to first order: Rao 1948, Proc. Camb. Phil.
+/// Soc. 44, 50), and on traces without drift it follows χ² with 1 degree of freedom, so it rarely passes the screen.
+/// </summary>
+public sealed class DriftScreenTests(ITestOutputHelper output)
+{
+    private const double A0 = 0.05;
+
+    private static (double Score, double Drop) ScoreAndDrop(double driftFraction, int seed)
+    {
+        var trace = SyntheticTrace.Make(t => SyntheticTrace.FirstOrder(0.01, A0, t), 400, 400, 2e-4, seed, 0, driftFraction);
+        var w = Enumerable.Repeat(1.0, trace.Count).ToArray();
+        var law = new FirstOrderLaw();
+        var (model, plain) = IntegratedLawFitter.FitOne(law, trace.Times, trace.Values, w, -1, A0, null, false, null);
+        var (_, withDrift) = IntegratedLawFitter.FitOne(law, trace.Times, trace.Values, w, -1, A0, null, true, null);
+        Assert.True(plain.Converged && withDrift.Converged);
+        var s2 = plain.ChiSquare / plain.DegreesOfFreedom;
+        return (IntegratedLawFitter.DriftScore(model, plain, trace.Times, w), (plain.ChiSquare - withDrift.ChiSquare) / s2);
+    }
+
+    [Fact]
+    public void Score_for_a_drift_term_matches_the_drop_in_chi_square_it_brings()
+    {
+        foreach (var seed in new[] { 1, 2, 3 })
+        {
+            var (score, drop) = ScoreAndDrop(0.03, 500 + seed);
+            output.WriteLine($"seed {seed}: score {score:G4}, drop {drop:G4}");
+            Assert.True(drop > 20, $"the drift should be clear (drop {drop:G3})");
+            Assert.InRange(score / drop, 0.8, 1.25);
+        }
+    }
+
+    [Fact]
+    public void Score_on_traces_without_drift_rarely_passes_the_screen()
+    {
+        // Under no drift S ~ χ²(1): P(S > 4) = 4.6 % (χ² table, common practice, no source); 60 traces.
+        var passed = 0;
+        for (var seed = 0; seed < 60; seed++)
+            if (ScoreAndDrop(0, 900 + seed).Score >= IntegratedLawFitter.DriftScreenScore) passed++;
+        output.WriteLine($"{passed} of 60 clean traces passed the drift screen");
+        Assert.InRange(passed, 0, 8);
+    }
+}
