@@ -46,16 +46,17 @@ public static class SpikeFilter
         var flag = new bool[n];
         if (n < 9) return flag;
         var d = new double[n];
-        var second = new double[n - 2];
         for (var i = 0; i < n; i++)
         {
             var lo = Math.Clamp(i - 2, 0, n - 5);
             d[i] = y[i] - MedianOf5(y[lo], y[lo + 1], y[lo + 2], y[lo + 3], y[lo + 4]);
-            if (i > 0 && i < n - 1) second[i - 1] = y[i - 1] - 2 * y[i] + y[i + 1];
         }
         // Second differences of a smooth, densely sampled trace centre on 0, so the MAD is taken about 0 (one
-        // selection instead of two).
-        for (var i = 0; i < second.Length; i++) second[i] = Math.Abs(second[i]);
+        // selection instead of two). Beyond 4,000 points every other one is enough: the MAD of 2,000 values is
+        // within about 3 % of the scale (SE of the MAD ≈ 1.17σ/√n: Rousseeuw & Croux 1993, JASA 88, 1273, from memory).
+        var stride = n > 4000 ? 2 : 1;
+        var second = new double[(n - 2 + stride - 1) / stride];
+        for (int i = 1, k = 0; i < n - 1; i += stride) second[k++] = Math.Abs(y[i - 1] - 2 * y[i] + y[i + 1]);
         var sigma = 1.4826 * ArrayStatistics.MedianInplace(second) / Math.Sqrt(6);
         if (!(sigma > 0)) return flag;
         var limit = CutoffFor(n) * sigma;
