@@ -54,8 +54,9 @@ public static class RunThinning
             Estimates = run.Rates.Estimates.Select(ThinRate).ToArray(),
             Headline = ThinRate(run.Rates.Headline),
             // The chosen law's curve is kept for drawing; the other candidates keep their numbers but not their curves.
+            // Residuals of a fit to bin means (a dense trace) are short already and stay as they are.
             Fits = run.Rates.Fits.Select(f => f.Chosen
-                ? f with { Fitted = Aligned(f.Fitted), Fit = f.Fit with { Residuals = Aligned(f.Fit.Residuals) } }
+                ? f with { Fitted = Aligned(f.Fitted), Fit = f.Fit with { Residuals = f.Fit.Residuals.Length == n ? Aligned(f.Fit.Residuals) : f.Fit.Residuals } }
                 : f with { Fitted = [], Fit = f.Fit with { Residuals = [] } }).ToArray(),
         };
         return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };

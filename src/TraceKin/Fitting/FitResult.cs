@@ -89,7 +89,17 @@ public sealed record FitResult
     }
 
     /// <summary>t(0.975, dof); NaN when dof &lt; 1. StudentT.InvCDF from MathNet.Numerics.</summary>
-    public static double StudentT95(int dof) => dof < 1 ? double.NaN : StudentT.InvCDF(0, 1, dof, 0.975);
+    public static double StudentT95(int dof)
+    {
+        if (dof < 1) return double.NaN;
+        if (dof >= T95Cache.Length) return StudentT.InvCDF(0, 1, dof, 0.975);
+        // The quantile is a pure function of dof and costs an iterative inversion; a race only recomputes it.
+        var t = T95Cache[dof];
+        if (t == 0) T95Cache[dof] = t = StudentT.InvCDF(0, 1, dof, 0.975);
+        return t;
+    }
+
+    private static readonly double[] T95Cache = new double[20_001];
 
     /// <summary>A fixed-section, human-readable account of the fit.</summary>
     public string ToReport()

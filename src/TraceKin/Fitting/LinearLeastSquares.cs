@@ -1,5 +1,3 @@
-using MathNet.Numerics.LinearAlgebra;
-
 namespace TraceKin.Fitting;
 
 /// <summary>
@@ -21,14 +19,16 @@ public static class LinearLeastSquares
         if (n < p || (n == p && p > 0))
             return Failed(model, names, n, p, FitExit.TooFewPoints, $"{n} points for {p} parameters leave no degrees of freedom");
 
-        var a = Matrix<double>.Build.Dense(n, p);
-        var b = Vector<double>.Build.Dense(n);
+        // √W·X column-major (column j at [j·n, j·n + n)) for the Householder QR, which runs on this thread and
+        // allocates nothing more (a library QR may start worker threads for every small fit).
+        var a = new double[n * p];
+        var b = new double[n];
         for (var i = 0; i < n; i++)
         {
             var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
             if (!double.IsFinite(sw) || !double.IsFinite(y[i]))
                 return Failed(model, names, n, p, FitExit.InvalidValues, $"point {i + 1} has a non-finite value or weight");
-            for (var j = 0; j < p; j++) a[i, j] = sw * design[i, j];
+            for (var j = 0; j < p; j++) a[j * n + i] = sw * design[i, j];
             b[i] = sw * y[i];
         }
 
@@ -37,36 +37,69 @@ public static class LinearLeastSquares
         var colNorm = new double[p];
         for (var j = 0; j < p; j++)
         {
-            colNorm[j] = a.Column(j).L2Norm();
-            if (colNorm[j] == 0)
+            var col = a.AsSpan(j * n, n);
+            double scale = 0;
+            foreach (var v in col) scale = Math.Max(scale, Math.Abs(v));
+            if (scale == 0)
                 return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' has an all-zero column");
-            a.SetColumn(j, a.Column(j) / colNorm[j]);
+            double ss = 0;
+            foreach (var v in col) { var u = v / scale; ss += u * u; }
+            colNorm[j] = scale * Math.Sqrt(ss);
+            for (var i = 0; i < n; i++) col[i] /= colNorm[j];
         }
-        var qr = a.QR(MathNet.Numerics.LinearAlgebra.Factorization.QRMethod.Thin);
-        var r = qr.R;
+        var tau = new double[p];
+        var rDiag = new double[p];
+        Householder.Factor(a, n, p, tau, rDiag);
         for (var j = 0; j < p; j++)
-            if (Math.Abs(r[j, j]) <= 1e-11)
+            if (Math.Abs(rDiag[j]) <= 1e-11)
                 return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' is not separable from the others");
 
-        var gamma = qr.Solve(b);
-        var fitted = a * gamma;
-        var beta = Vector<double>.Build.Dense(p, j => gamma[j] / colNorm[j]);
+        // γ = R⁻¹·(Qᵀb)[0..p); the residual vector of the scaled problem is Qᵀb with its first p entries set to zero,
+        // and β_j = γ_j / ‖column j‖.
+        var qtb = (double[])b.Clone();
+        Householder.ApplyQt(a, n, p, tau, qtb);
+        var gamma = new double[p];
+        Householder.SolveR(a, n, p, rDiag, qtb, gamma);
+        var beta = new double[p];
+        for (var j = 0; j < p; j++) beta[j] = gamma[j] / colNorm[j];
         var resid = new double[n];
         double chi2 = 0;
         for (var i = 0; i < n; i++)
         {
             var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
-            var rw = b[i] - fitted[i];
-            resid[i] = rw / sw;
+            double f = 0;
+            for (var j = 0; j < p; j++) f += design[i, j] * beta[j];
+            var rw = b[i] - sw * f;
+            resid[i] = sw > 0 ? rw / sw : y[i] - f;
             chi2 += rw * rw;
         }
         var dof = n - p;
         var s2 = chi2 / dof;
-        var rInv = r.Inverse();
-        var covScaled = (rInv * rInv.Transpose()) * s2;
-        var cov = Matrix<double>.Build.Dense(p, p, (j, k) => covScaled[j, k] / (colNorm[j] * colNorm[k]));
+        // (XᵀWX)⁻¹ in scaled columns = R⁻¹·R⁻ᵀ; R⁻¹ by back substitution, column by column.
+        var rInv = new double[p, p];
+        for (var c = 0; c < p; c++)
+            for (var i = c; i >= 0; i--)
+            {
+                var v = i == c ? 1.0 : 0.0;
+                for (var k = i + 1; k <= c; k++) v -= a[k * n + i] * rInv[k, c];
+                rInv[i, c] = v / rDiag[i];
+            }
+        var cov = new double[p, p];
+        for (var j = 0; j < p; j++)
+            for (var k = 0; k < p; k++)
+            {
+                double c = 0;
+                for (var m = Math.Max(j, k); m < p; m++) c += rInv[j, m] * rInv[k, m];
+                cov[j, k] = s2 * c / (colNorm[j] * colNorm[k]);
+            }
 
-        var hasIntercept = Enumerable.Range(0, p).Any(j => Enumerable.Range(0, n).All(i => design[i, j] == 1.0));
+        var hasIntercept = false;
+        for (var j = 0; j < p && !hasIntercept; j++)
+        {
+            var all = true;
+            for (var i = 0; i < n && all; i++) all = design[i, j] == 1.0;
+            hasIntercept = all;
+        }
         double ybar = 0, wsum = 0;
         for (var i = 0; i < n; i++) { var wi = w?[i] ?? 1; ybar += wi * y[i]; wsum += wi; }
         ybar /= wsum;
@@ -79,15 +112,10 @@ public static class LinearLeastSquares
         }
 
         var pars = new FitParameter[p];
-        var covArr = new double[p, p];
-        for (var j = 0; j < p; j++)
-        {
-            pars[j] = new FitParameter(names[j], beta[j], Math.Sqrt(cov[j, j]), double.NaN);
-            for (var k = 0; k < p; k++) covArr[j, k] = cov[j, k];
-        }
+        for (var j = 0; j < p; j++) pars[j] = new FitParameter(names[j], beta[j], Math.Sqrt(cov[j, j]), double.NaN);
         return new FitResult
         {
-            Model = model, Parameters = pars, Covariance = covArr, Residuals = resid, PointCount = n, VariedCount = p,
+            Model = model, Parameters = pars, Covariance = cov, Residuals = resid, PointCount = n, VariedCount = p,
             ChiSquare = chi2, RSquared = 1 - chi2 / tss, Iterations = 1, Exit = FitExit.Converged,
         };
     }

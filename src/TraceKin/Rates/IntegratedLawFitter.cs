@@ -2,8 +2,11 @@ using TraceKin.Fitting;
 
 namespace TraceKin.Rates;
 
-/// <summary>What the integrated-law step found: every fit tried, and whether any integer law describes the trace.</summary>
-public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenModel, bool DriftChosen, bool NoIntegerLawFits);
+/// <summary>What the integrated-law step found: every fit tried, and whether any integer law describes the trace.
+/// <see cref="FitTimes"/> and <see cref="FitWeights"/> are the points the laws were fitted to (bin means and their
+/// counts for a dense trace; else the samples and their weights), aligned with each fit's residuals.</summary>
+public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenModel, bool DriftChosen, bool NoIntegerLawFits,
+    double[] FitTimes, double[] FitWeights);
 
 /// <summary>
 /// Fits every candidate integrated law (with and, if asked, without a linear drift term) to a whole trace and picks
@@ -32,17 +35,41 @@ public static class IntegratedLawFitter
     public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift)
     {
         var noise = DifferenceNoise(t, y, weights);
-        var (tAll, yAll, wAll) = (t, y, weights);
-        var binned = Bin(t, y, weights);
-        if (binned is { } b) (t, y, weights) = b;
+        var tAll = t;
+        // The laws are compared on coarse bins; the chosen one is then refitted on the finer bins its numbers are
+        // reported from (each level only where the bins keep the curve: see Bin).
+        var fine = Bin(t, y, weights, noise, MaxFitPoints);
+        var coarse = fine is null ? null : Bin(t, y, weights, noise, ComparePoints, checkCurvature: false);
+        var (tFine, yFine, wFine, sFine) = fine is { } fb ? (fb.T, fb.Y, fb.W, (double[]?)fb.S) : (t, y, weights, null);
+        double[]? spread = null;
+        if ((coarse ?? fine) is { } b) (t, y, weights, spread) = b;
         var families = drift switch { "off" => new[] { false }, "on" => [true], _ => [false, true] };
         var all = new List<(LawModel Model, FitResult Fit)>();
+        var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
         foreach (var withDrift in families)
         {
             var integer = new List<(LawModel, FitResult)>();
+            (LawModel Model, FitResult Fit)? firstOrder = null;
             foreach (var law in Candidates(a0, partner))
             {
-                var r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null);
+                (LawModel Model, FitResult Fit) r;
+                var screen = withDrift && drift == "auto";
+                if (law is PseudoFirstOrderLaw pf && firstOrder is { } fo)
+                    r = AsPseudoFirstOrder(pf, fo, t, nu, a0, withDrift);
+                else if (law is PseudoFirstOrderLaw && screen && plainFits.ContainsKey(new FirstOrderLaw().Name))
+                    continue; // its first-order twin was screened out
+                else if (withDrift && plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged)
+                {
+                    if (screen && DriftScore(plain.Model, plain.Fit, t, weights) < DriftScreenScore) continue;
+                    // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
+                    var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
+                    var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
+                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread);
+                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread);
+                }
+                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread);
+                if (law is FirstOrderLaw) firstOrder = r;
+                if (!withDrift) plainFits[law.Name] = r;
                 integer.Add(r);
                 all.Add(r);
             }
@@ -51,7 +78,7 @@ public static class IntegratedLawFitter
             if (withDrift) continue;
             var seed = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw)
                 .OrderBy(r => r.Item2.AicC).FirstOrDefault();
-            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2)));
+            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread));
         }
 
         // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
@@ -74,63 +101,189 @@ public static class IntegratedLawFitter
         var chosenPair = bestInteger.Fit is null ? nth
             : nth.Fit is not null && nth.Fit.AicC < bestInteger.Fit.AicC - 10 ? nth : bestInteger;
 
+        // Only the chosen law's curve is evaluated at every sample (for the plot and the spike check); the others keep
+        // their numbers.
         var fits = new List<LawFit>();
+        var chosenModel = chosenPair.Model;
         foreach (var (m, f) in all)
         {
-            var fitted = new double[tAll.Length];
-            if (f.Parameters.All(p => double.IsFinite(p.Value)))
-                new LawModel(m.Law, tAll, nu, a0, m.Drift).Evaluate(f.Parameters.Select(p => p.Value).ToArray(), fitted);
             var chosen = chosenPair.Fit is not null && ReferenceEquals(f, chosenPair.Fit);
-            fits.Add(Describe(m, f, fitted, chosen, minAll, sumW, weights, noise));
-        }
-        var chosenModel = chosenPair.Model;
-        if (binned is not null && chosenPair.Fit is { } cf)
-        {
-            // The chosen law is refitted on every sample, starting from its fit to the bin means.
-            var (fm, ff) = FitOne(chosenPair.Model!.Law, tAll, yAll, wAll, nu, a0, partner, chosenPair.Model.Drift, null,
-                cf.Parameters.Select(p => p.Value).ToArray(), cf.Parameters.Select(p => !p.Varied).ToArray());
-            if (ff.Converged)
+            if (!chosen)
             {
-                var i = fits.FindIndex(x => x.Chosen);
-                var fitted = new double[tAll.Length];
-                fm.Evaluate(ff.Parameters.Select(p => p.Value).ToArray(), fitted);
-                fits[i] = Describe(fm, ff, fitted, true, minAll, sumW, wAll, noise) with
-                {
-                    DeltaAicc = fits[i].DeltaAicc,
-                    AkaikeWeight = fits[i].AkaikeWeight,
-                };
-                chosenModel = fm;
+                fits.Add(Describe(m, f, [], false, minAll, sumW, weights, noise));
+                continue;
             }
+            var (cm, cf, cw) = (m, f, weights);
+            if (coarse is not null)
+            {
+                // Refitted on the fine bins from where the comparison left it; its evidence (ΔAICc, Akaike weight)
+                // stays that of the comparison.
+                var refit = FitOne(m.Law, tFine, yFine, wFine, nu, a0, partner, m.Drift, null,
+                    f.Parameters.Select(p => p.Value).ToArray(), f.Parameters.Select(p => !p.Varied).ToArray(), sFine);
+                if (refit.Item2.Converged) (cm, cf, cw) = (refit.Item1, refit.Item2, wFine);
+            }
+            var fitted = Array.Empty<double>();
+            if (cf.Parameters.All(p => double.IsFinite(p.Value)))
+            {
+                fitted = new double[tAll.Length];
+                new LawModel(cm.Law, tAll, nu, a0, cm.Drift).Evaluate(cf.Parameters.Select(p => p.Value).ToArray(), fitted);
+            }
+            var described = Describe(cm, cf, fitted, true, minAll, sumW, cw, noise);
+            if (!ReferenceEquals(cf, f))
+            {
+                var compared = Describe(m, f, [], true, minAll, sumW, weights, noise);
+                described = described with { DeltaAicc = compared.DeltaAicc, AkaikeWeight = compared.AkaikeWeight };
+            }
+            fits.Add(described);
+            chosenModel = cm;
         }
-        var integerPicks = fits.Where(x => picks.Any(p => ReferenceEquals(p.Fit, x.Fit) && p.Model.Law is not NthOrderLaw)).ToList();
+        var integerPicks = fits.Where(x => x.Chosen || picks.Any(p => ReferenceEquals(p.Fit, x.Fit) && p.Model.Law is not NthOrderLaw))
+            .Where(x => !x.Law.StartsWith("order n", StringComparison.Ordinal)).ToList();
         var noInteger = integerPicks.Count == 0 || integerPicks.All(x => x.LackOfFit);
-        return new LawSelection(fits, chosenModel, chosenModel?.Drift ?? false, noInteger);
+        var chosenFit = fits.FirstOrDefault(x => x.Chosen);
+        var residualsOnFine = chosenFit is not null && chosenFit.Fit.Residuals.Length == tFine.Length;
+        return new LawSelection(fits, chosenModel, chosenModel?.Drift ?? false, noInteger,
+            residualsOnFine ? tFine : t, residualsOnFine ? wFine : weights);
     }
 
-    /// <summary>Samples above which the laws are compared on bin means (the chosen one is then refitted on every sample).</summary>
-    public const int MaxFitPoints = 1000;
+    /// <summary>Score statistic below which a law's drift variant is not fitted in "auto" mode (see <see cref="DriftScore"/>).</summary>
+    public const double DriftScreenScore = 4;
 
     /// <summary>
-    /// Means of consecutive valid samples in bins of ⌈n/1000⌉, weighted by their counts, when a trace has more than
-    /// 2000 valid samples: the least-squares fit to bin means with weights n_b equals the full fit to first order for a
-    /// curve that is smooth over a bin (common practice, no source), and makes comparing a dozen laws cheap.
+    /// Score (Lagrange-multiplier) statistic for adding a linear drift term to a converged drift-free fit:
+    /// S = (xᵀr)² / (s²·xᵀ(I − P)x), with x = √w·t, r the weighted residuals, P the projection onto the columns of the
+    /// weighted Jacobian at the solution and s² = χ²/dof (Rao 1948, Proc. Camb. Phil. Soc. 44, 50; Engle 1984,
+    /// Handbook of Econometrics II, ch. 13, from memory). S approximates the drop in χ²/s² that the drift term would
+    /// bring, so the drift variant can beat the drift-free law by the 7 AICc units the choice asks for only when S is
+    /// near 9 or more; variants with S below <see cref="DriftScreenScore"/> (a wide margin for the curvature of the
+    /// model) are not fitted, which saves most drift fits on traces that do not drift.
     /// </summary>
-    internal static (double[] T, double[] Y, double[] W)? Bin(double[] t, double[] y, double[] w)
+    internal static double DriftScore(LawModel model, FitResult fit, double[] t, double[] w)
     {
-        var (tv, yv) = Valid(t, y, w);
-        if (tv.Length <= 2 * MaxFitPoints) return null;
-        var size = (tv.Length + MaxFitPoints - 1) / MaxFitPoints;
-        var nb = (tv.Length + size - 1) / size;
+        var n = t.Length;
+        var np = fit.Parameters.Count;
+        if (fit.Residuals.Length != n || !(fit.DegreesOfFreedom > 0)) return double.PositiveInfinity;
+        var p = new double[np];
+        for (var j = 0; j < np; j++) p[j] = fit.Parameters[j].Value;
+        var jac = new double[n * np];
+        if (!model.TryJacobian(p, jac)) return double.PositiveInfinity;
+        var cols = new List<int>(np);
+        for (var j = 0; j < np; j++) if (fit.Parameters[j].Varied) cols.Add(j);
+        var m = cols.Count;
+        var a = new double[n * m];
+        var x = new double[n];
+        double xr = 0, xx = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var sw = w[i] > 0 ? Math.Sqrt(w[i]) : 0;
+            for (var k = 0; k < m; k++) a[k * n + i] = sw * jac[i * np + cols[k]];
+            x[i] = sw * t[i];
+            xr += x[i] * sw * fit.Residuals[i];
+            xx += x[i] * x[i];
+        }
+        var tau = new double[m];
+        var rDiag = new double[m];
+        Householder.Factor(a, n, m, tau, rDiag);
+        Householder.ApplyQt(a, n, m, tau, x);
+        var inSpan = 0.0;
+        for (var k = 0; k < m; k++) inSpan += x[k] * x[k];
+        var outside = xx - inSpan;
+        var s2 = fit.ChiSquare / fit.DegreesOfFreedom;
+        if (!(outside > 1e-12 * xx) || !(s2 > 0)) return double.PositiveInfinity;
+        return xr * xr / (s2 * outside);
+    }
+
+    /// <summary>
+    /// Pseudo-first order is first order in time with kk·[B]0 in place of kk (see <see cref="PseudoFirstOrderLaw"/>), so
+    /// its least-squares fit is the first-order fit re-expressed: k = k₁/[B]0, its standard error and covariance
+    /// scaled alike; every other number is the same (common practice, no source).
+    /// </summary>
+    private static (LawModel, FitResult) AsPseudoFirstOrder(PseudoFirstOrderLaw law, (LawModel Model, FitResult Fit) first, double[] t, double nu,
+        double? a0, bool drift)
+    {
+        var model = new LawModel(law, t, nu, a0, drift);
+        var f = first.Fit;
+        var scale = 1 / law.Partner;
+        var pars = f.Parameters.Select((p, j) => j == LawModel.K
+            ? p with { Value = p.Value * scale, StdError = p.StdError * scale, Initial = p.Initial * scale }
+            : p).ToArray();
+        double[,]? cov = null;
+        if (f.Covariance is { } c)
+        {
+            cov = (double[,])c.Clone();
+            for (var j = 0; j < pars.Length; j++) { cov[LawModel.K, j] *= scale; cov[j, LawModel.K] *= scale; }
+        }
+        var detail = f.ExitDetail + "; the first-order fit re-expressed with k = k(first order)/[B]0";
+        return (model, f with { Model = model.Name, Parameters = pars, Covariance = cov, ExitDetail = detail });
+    }
+
+    /// <summary>Valid samples above which the laws are fitted to bin means (at most this many bins).</summary>
+    public const int MaxFitPoints = 250;
+
+    /// <summary>Bins the candidate laws are compared on, for a trace binned at <see cref="MaxFitPoints"/>.</summary>
+    public const int ComparePoints = 64;
+
+    /// <summary>
+    /// Means of consecutive valid samples in bins of ⌈n/B⌉ (B = 250 for the reported fit, 64 for comparing laws),
+    /// weighted by their counts, with the SD of the sample times in each bin, when a trace has more than 500 valid
+    /// samples. The model is fitted as the bin average of the curve (see <see cref="LawModel"/>), so the weighted
+    /// least-squares fit to bin means gives the estimates of the fit to every sample to first order, and its residual
+    /// variance Σn_b·r_b²/(B − p) is an unbiased estimate of the per-sample noise variance: standard errors and
+    /// intervals carry over (common practice, no source). It makes comparing a dozen laws cheap.
+    /// Guard against nearly noise-free traces, where even a small misfit of the bin average would dominate the
+    /// residuals: the trace is binned only when the curvature bias of a plain bin mean, about ½·y″·Var_b(t) (Taylor
+    /// expansion, common practice, no source), with y″ from second divided differences of the 250 bin means, stays
+    /// below 0.6 of a bin mean's noise σ/√n_b in every bin (σ from <see cref="DifferenceNoise"/>). Noise alone
+    /// makes that estimate scatter by about 0.1·σ/√n_b, so a noisy trace always passes; the two-point bin average
+    /// then removes that bias to fourth order, which is why the coarser comparison bins need no such check.
+    /// </summary>
+    internal static (double[] T, double[] Y, double[] W, double[] S)? Bin(double[] t, double[] y, double[] w, double noise, int maxBins = MaxFitPoints, bool checkCurvature = true)
+    {
+        var valid = 0;
+        for (var i = 0; i < w.Length; i++) if (w[i] > 0) valid++;
+        if (valid <= 2 * MaxFitPoints || !(noise > 0)) return null;
+        var size = (valid + maxBins - 1) / maxBins;
+        var nb = (valid + size - 1) / size;
         var tb = new double[nb]; var yb = new double[nb]; var wb = new double[nb];
-        for (var i = 0; i < tv.Length; i++) { var k = i / size; tb[k] += tv[i]; yb[k] += yv[i]; wb[k]++; }
-        for (var k = 0; k < nb; k++) { tb[k] /= wb[k]; yb[k] /= wb[k]; }
-        return (tb, yb, wb);
+        var t0 = new double[nb]; var tt = new double[nb];
+        int bin = 0, inBin = 0;
+        double first = 0, st = 0, stt = 0, sy = 0;
+        for (var i = 0; i < t.Length; i++)
+        {
+            if (!(w[i] > 0)) continue;
+            if (inBin == 0) first = t[i];
+            var dt = t[i] - first;
+            st += dt; stt += dt * dt; sy += y[i]; inBin++;
+            if (inBin == size)
+            {
+                t0[bin] = first; tb[bin] = st; tt[bin] = stt; yb[bin] = sy; wb[bin] = inBin; bin++;
+                inBin = 0; st = stt = sy = 0;
+            }
+        }
+        if (inBin > 0) { t0[bin] = first; tb[bin] = st; tt[bin] = stt; yb[bin] = sy; wb[bin] = inBin; }
+        var varT = new double[nb];
+        var sd = new double[nb];
+        for (var k = 0; k < nb; k++)
+        {
+            var mean = tb[k] / wb[k];
+            varT[k] = Math.Max(0, tt[k] / wb[k] - mean * mean);
+            sd[k] = Math.Sqrt(varT[k]);
+            tb[k] = t0[k] + mean;
+            yb[k] /= wb[k];
+        }
+        for (var k = 1; checkCurvature && k < nb - 1; k++)
+        {
+            var curvature = 2 * ((yb[k + 1] - yb[k]) / (tb[k + 1] - tb[k]) - (yb[k] - yb[k - 1]) / (tb[k] - tb[k - 1])) / (tb[k + 1] - tb[k - 1]);
+            var bias = 0.5 * Math.Abs(curvature) * varT[k];
+            if (!(bias <= 0.6 * noise / Math.Sqrt(wb[k]))) return null;
+        }
+        return (tb, yb, wb, sd);
     }
 
     internal static (LawModel, FitResult) FitOne(RateLaw law, double[] t, double[] y, double[] w, double nu, double? a0Ref, double? partner, bool drift,
-        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null)
+        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null)
     {
-        var model = new LawModel(law, t, nu, a0Ref, drift);
+        var model = new LawModel(law, t, nu, a0Ref, drift, spread);
         var np = model.ParameterNames.Count;
         var start = new double[np];
         var fixedP = new bool[np];
@@ -205,7 +358,9 @@ public static class IntegratedLawFitter
         var k = f.Parameters[LawModel.K];
         var shape = p.AsSpan(LawModel.FirstShape, m.Law.ShapeNames.Count);
         var runs = f.Residuals.Length == w.Length ? RunsTest.Of(f.Residuals, w) : null;
-        var lack = runs is { PValue: < 1e-3 } || (noise > 0 && f.Converged && f.ReducedChiSquare > 4 * noise * noise);
+        // Residuals at the level of rounding (a noise-free trace) carry no pattern worth testing.
+        var rounding = f.Converged && f.ResidualStdDev <= 1e-10 * Math.Abs(p[LawModel.Y0] - p[LawModel.YEnd]);
+        var lack = !rounding && (runs is { PValue: < 1e-3 } || (noise > 0 && f.Converged && f.ReducedChiSquare > 4 * noise * noise));
         var converged = f.Converged;
         var hl = converged ? m.HalfLife(p) : double.NaN;
         var (lo, hi) = converged && double.IsFinite(k.StdError) ? f.Ci95("k") : (double.NaN, double.NaN);
@@ -240,11 +395,15 @@ public static class IntegratedLawFitter
         return (y0, yEnd, slope);
     }
 
+    /// <summary>The samples with weight &gt; 0; the arrays themselves when none is excluded.</summary>
     internal static (double[] T, double[] Y) Valid(double[] t, double[] y, double[] w)
     {
-        var tv = new List<double>(t.Length); var yv = new List<double>(t.Length);
-        for (var i = 0; i < t.Length; i++) if (w[i] > 0) { tv.Add(t[i]); yv.Add(y[i]); }
-        return (tv.ToArray(), yv.ToArray());
+        var count = 0;
+        for (var i = 0; i < w.Length; i++) if (w[i] > 0) count++;
+        if (count == t.Length) return (t, y);
+        var tv = new double[count]; var yv = new double[count];
+        for (int i = 0, k = 0; i < t.Length; i++) if (w[i] > 0) { tv[k] = t[i]; yv[k] = y[i]; k++; }
+        return (tv, yv);
     }
 
     private static double MedianOf(double[] a)
@@ -260,10 +419,16 @@ public static class IntegratedLawFitter
     /// </summary>
     internal static double DifferenceNoise(double[] t, double[] y, double[] w)
     {
-        var (_, yv) = Valid(t, y, w);
-        if (yv.Length < 5) return double.NaN;
-        double s = 0;
-        for (var i = 1; i < yv.Length - 1; i++) { var d = yv[i - 1] - 2 * yv[i] + yv[i + 1]; s += d * d; }
-        return Math.Sqrt(s / (6.0 * (yv.Length - 2)));
+        // Over the valid samples in order (excluded ones skipped), without copying them.
+        double s = 0, a = 0, b = 0;
+        var m = 0; var seen = 0;
+        for (var i = 0; i < y.Length; i++)
+        {
+            if (!(w[i] > 0)) continue;
+            var c = y[i];
+            if (seen >= 2) { var d = a - 2 * b + c; s += d * d; m++; }
+            a = b; b = c; seen++;
+        }
+        return seen < 5 ? double.NaN : Math.Sqrt(s / (6.0 * m));
     }
 }

@@ -6,17 +6,28 @@ namespace TraceKin.Rates;
 /// A rate law as a least-squares model of one trace: y(t) = y_end + (y0 − y_end)·u(t; kk = |ν|·k, [A]0, shape)
 /// (+ drift·t when a linear baseline drift is included). Parameters: y0, yEnd, k, shape…, [drift].
 /// [A]0 is the plan's value when known (held exact), else |y0 − y_end|. Jacobian analytic by the chain rule.
+/// For a fit to bin means, each point may carry the spread s_b (SD of the sample times in the bin): the model is then
+/// the bin average of the curve, taken as ½[y(t̄ − s) + y(t̄ + s)], the two-point rule that matches the mean and
+/// variance of the times in the bin and so is exact for a cubic (Gauss quadrature, common practice, no source). A
+/// plain y(t̄) would miss ½·y″·s² in every bin.
 /// </summary>
 public sealed class LawModel : IFitModel
 {
     private readonly double[] _t;
+    private readonly double[]? _tLo, _tHi;
     private readonly double[] _grad;
     private readonly int _shapeCount;
 
-    public LawModel(RateLaw law, double[] times, double nu, double? initialConcentration, bool drift)
+    public LawModel(RateLaw law, double[] times, double nu, double? initialConcentration, bool drift, double[]? spread = null)
     {
         Law = law;
         _t = times;
+        if (spread is not null)
+        {
+            if (spread.Length != times.Length) throw new ArgumentException("one spread per time is needed", nameof(spread));
+            _tLo = new double[times.Length]; _tHi = new double[times.Length];
+            for (var i = 0; i < times.Length; i++) { _tLo[i] = times[i] - spread[i]; _tHi[i] = times[i] + spread[i]; }
+        }
         Nu = Math.Abs(nu);
         InitialConcentration = initialConcentration;
         Drift = drift;
@@ -63,8 +74,17 @@ public sealed class LawModel : IFitModel
         var kk = Nu * parameters[K];
         double y0 = parameters[Y0], yEnd = parameters[YEnd], d = Drift ? parameters[DriftIndex] : 0;
         var span = y0 - yEnd;
+        if (_tLo is null || _tHi is null)
+        {
+            for (var i = 0; i < _t.Length; i++)
+                values[i] = yEnd + span * Law.Fraction(_t[i], kk, a0, shape, _grad) + d * _t[i];
+            return;
+        }
         for (var i = 0; i < _t.Length; i++)
-            values[i] = yEnd + span * Law.Fraction(_t[i], kk, a0, shape, _grad) + d * _t[i];
+        {
+            var u = 0.5 * (Law.Fraction(_tLo[i], kk, a0, shape, _grad) + Law.Fraction(_tHi[i], kk, a0, shape, _grad));
+            values[i] = yEnd + span * u + d * _t[i];
+        }
     }
 
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
@@ -77,9 +97,18 @@ public sealed class LawModel : IFitModel
         var fromTrace = InitialConcentration is null;
         var sgn = span >= 0 ? 1.0 : -1.0;
         var np = ParameterNames.Count;
+        Span<double> g2 = stackalloc double[_grad.Length];
         for (var i = 0; i < _t.Length; i++)
         {
-            var u = Law.Fraction(_t[i], kk, a0, shape, _grad);
+            double u;
+            if (_tLo is null || _tHi is null) u = Law.Fraction(_t[i], kk, a0, shape, _grad);
+            else
+            {
+                // Average of the two nodes, value and gradient alike.
+                u = Law.Fraction(_tLo[i], kk, a0, shape, _grad);
+                u = 0.5 * (u + Law.Fraction(_tHi[i], kk, a0, shape, g2));
+                for (var j = 0; j < g2.Length; j++) _grad[j] = 0.5 * (_grad[j] + g2[j]);
+            }
             var row = jacobian.Slice(i * np, np);
             var viaA0 = fromTrace ? span * _grad[1] * sgn : 0;
             row[Y0] = u + viaA0;

@@ -30,26 +30,30 @@ public static class RateAnalysis
             throw Fail.At(where, 0, 0, $"{n} samples", "at least 4 samples to estimate an initial rate", "check the export's time column");
 
         // Spikes: model-free candidates, confirmed against the fitted law (see SpikeFilter).
-        var w = Enumerable.Repeat(1.0, n).ToArray();
+        var w = new double[n];
+        Array.Fill(w, 1.0);
         var candidates = settings.Spikes ? SpikeFilter.Candidates(y) : new bool[n];
+        var anyCandidate = Array.IndexOf(candidates, true) >= 0;
         for (var i = 0; i < n; i++) if (candidates[i]) w[i] = 0;
         var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
         var spikes = candidates;
-        if (settings.Spikes && selection.ChosenModel is { } cm && candidates.Any(c => c))
+        if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { Fitted.Length: > 0 } chosen && chosen.Fitted.Length == n)
         {
-            var chosen = selection.Fits.First(f => f.Chosen);
             var resid = new double[n];
-            for (var i = 0; i < n; i++) resid[i] = y[i] - chosen.Fitted[i];
-            var floor = 1e-9 * (y.Max() - y.Min());
+            double lo = double.PositiveInfinity, hi = double.NegativeInfinity;
+            for (var i = 0; i < n; i++) { resid[i] = y[i] - chosen.Fitted[i]; lo = Math.Min(lo, y[i]); hi = Math.Max(hi, y[i]); }
+            var floor = 1e-9 * (hi - lo);
             var confirmed = SpikeFilter.FromResiduals(resid, floor);
-            spikes = candidates.Zip(confirmed, (a, b) => a && b).ToArray();
-            if (!spikes.SequenceEqual(candidates))
+            spikes = new bool[n];
+            for (var i = 0; i < n; i++) spikes[i] = candidates[i] && confirmed[i];
+            if (!spikes.AsSpan().SequenceEqual(candidates))
             {
                 for (var i = 0; i < n; i++) w[i] = spikes[i] ? 0 : 1;
                 selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
             }
         }
-        var spikeList = Enumerable.Range(0, n).Where(i => spikes[i]).Select(i => new Spike(i, t[i], y[i])).ToList();
+        var spikeList = new List<Spike>();
+        for (var i = 0; i < n; i++) if (spikes[i]) spikeList.Add(new Spike(i, t[i], y[i]));
         var (tv, yv) = IntegratedLawFitter.Valid(t, y, w);
 
         // Early window on the spike-free trace.
@@ -110,7 +114,7 @@ public static class RateAnalysis
             if (selection.DriftChosen && chosenFit.Fit.Parameters.FirstOrDefault(p => p.Name == "drift") is { } d)
                 warnings.Add(new Warning("baseline-drift", where, string.Format(ci,
                     "a linear baseline drift of {0:G3} ± {1:G2} per s was fitted (AICc lower by more than 7 with it)", d.Value, d.StdError)));
-            else if (UnmodelledDrift(t, w, chosenFit.Fit.Residuals))
+            else if (UnmodelledDrift(selection.FitTimes, selection.FitWeights, chosenFit.Fit.Residuals))
                 warnings.Add(new Warning("unmodelled-drift", where, "the residuals of the late trace trend with time: the baseline may drift"));
         }
         if (selection.NoIntegerLawFits && chosenFit is not null)

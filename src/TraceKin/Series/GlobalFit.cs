@@ -66,9 +66,18 @@ public static class GlobalFit
     /// </summary>
     public static RunTrace Thin(RunTrace tr)
     {
-        var keep = Enumerable.Range(0, tr.Times.Length).Where(i => tr.Times[i] >= 0 && double.IsFinite(tr.Times[i]) && double.IsFinite(tr.Concentrations[i])).ToArray();
-        var stride = Math.Max(1, (int)Math.Ceiling(keep.Length / (double)MaxPointsPerRun));
-        keep = keep.Where((_, i) => i % stride == 0).ToArray();
-        return tr with { Times = keep.Select(i => tr.Times[i]).ToArray(), Concentrations = keep.Select(i => tr.Concentrations[i]).ToArray() };
+        var t = tr.Times; var c = tr.Concentrations;
+        bool Usable(int i) => t[i] >= 0 && double.IsFinite(t[i]) && double.IsFinite(c[i]);
+        var usable = 0;
+        for (var i = 0; i < t.Length; i++) if (Usable(i)) usable++;
+        var stride = Math.Max(1, (int)Math.Ceiling(usable / (double)MaxPointsPerRun));
+        var count = (usable + stride - 1) / stride;
+        var times = new double[count]; var values = new double[count];
+        for (int i = 0, u = 0, k = 0; i < t.Length; i++)
+        {
+            if (!Usable(i)) continue;
+            if (u++ % stride == 0) { times[k] = t[i]; values[k] = c[i]; k++; }
+        }
+        return tr with { Times = times, Concentrations = values };
     }
 }

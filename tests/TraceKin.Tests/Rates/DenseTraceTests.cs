@@ -1,0 +1,160 @@
+using TraceKin.Rates;
+using Xunit.Abstractions;
+
+namespace TraceKin.Tests.Rates;
+
+/// <summary>
+/// Dense traces (10,000 samples, as instruments log them) take the binned path of the integrated-law fits and the
+/// n-dependent spike cutoff. Truth: closed-form integrated rate laws (common practice, no source); initial rate
+/// v0 = k·Π[X]0^n.
+/// </summary>
+public sealed class DenseTraceTests(ITestOutputHelper output)
+{
+    private const double A0 = 0.05, B0 = 0.08, Noise = 2e-4;
+    private const int Points = 10_000;
+
+    public static TheoryData<string, string> Cases()
+    {
+        var d = new TheoryData<string, string>();
+        foreach (var law in new[] { "first", "second", "mixed", "zero" })
+            foreach (var condition in new[] { "clean", "spikes", "drift" })
+                d.Add(law, condition);
+        return d;
+    }
+
+    [Theory]
+    [MemberData(nameof(Cases))]
+    public void Headline_initial_rate_of_a_dense_trace_is_within_one_percent_of_the_truth(string law, string condition)
+    {
+        var (truth, rate) = law switch
+        {
+            "first" => ((Func<double, double>)(t => SyntheticTrace.FirstOrder(0.01, A0, t)), 0.01 * A0),
+            "second" => (t => SyntheticTrace.SecondOrder(0.5, A0, t), 0.5 * A0 * A0),
+            "mixed" => (t => SyntheticTrace.MixedSecondOrder(0.5, A0, B0, t), 0.5 * A0 * B0),
+            _ => (t => SyntheticTrace.ZeroOrder(1e-4, A0, t), 1e-4),
+        };
+        var values = new List<double>();
+        for (var seed = 1; seed <= 3; seed++)
+        {
+            var trace = SyntheticTrace.Make(truth, law == "zero" ? 800 : 400, Points, Noise, 7_000 + 10 * seed + condition.Length,
+                condition == "spikes" ? 0.005 : 0, condition == "drift" ? 0.05 : 0);
+            var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default, law, law == "mixed" ? B0 : null);
+            values.Add(r.Headline.Value);
+            if (condition == "spikes") Assert.InRange(r.Spikes.Count, 45, 55); // 50 inserted, each ≥ 12 noise SDs
+            if (seed == 1) output.WriteLine($"{law}/{condition}: {r.Headline.Method} = {r.Headline.Value:G6} ± {r.Headline.StdError:G2}; spikes {r.Spikes.Count}; {r.HeadlineRule}");
+        }
+        var bias = values.Average() / rate - 1;
+        output.WriteLine($"bias {bias * 100:F3} %");
+        Assert.True(Math.Abs(bias) < 0.01, $"{law}/{condition}: mean {values.Average():G6} vs truth {rate:G6} ({bias * 100:F2} %)");
+    }
+
+    [Theory]
+    [InlineData("first", "first order", 0.01)]
+    [InlineData("second", "second order", 0.5)]
+    public void Reported_95_percent_interval_for_k_of_dense_traces_covers_the_truth_in_92_to_98_percent(string law, string lawName, double k)
+    {
+        // 200 traces of 10,000 points: the fit is to 250 bin means, and its interval must still be honest. A correct
+        // 95 % interval covers with binomial SD √(0.95·0.05/200) = 1.5 %, so 92–98 % is a ±2 SD band.
+        const int traces = 200;
+        var covered = 0; var fitted = 0;
+        for (var seed = 0; seed < traces; seed++)
+        {
+            Func<double, double> truth = law == "first" ? t => SyntheticTrace.FirstOrder(k, A0, t) : t => SyntheticTrace.SecondOrder(k, A0, t);
+            var trace = SyntheticTrace.Make(truth, 300, Points, 1e-3, 20_000 + seed);
+            var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default with { Drift = "off" }, law);
+            var f = r.Fits.First(x => x.Law == lawName);
+            if (!f.Fit.Converged) continue;
+            fitted++;
+            if (f.Ci95Low <= k && k <= f.Ci95High) covered++;
+        }
+        var coverage = (double)covered / fitted;
+        output.WriteLine($"{law}: {covered} of {fitted} intervals cover k = {k} ({coverage * 100:F1} %)");
+        Assert.True(fitted >= traces - 2, $"only {fitted} of {traces} fits converged");
+        Assert.InRange(coverage, 0.92, 0.98);
+    }
+
+    [Fact]
+    public void Clean_dense_traces_rarely_lose_a_sample_to_the_spike_rule()
+    {
+        // The cutoff is set so that a clean trace loses any sample with probability about 1 % (Bonferroni bound,
+        // common practice, no source); a fixed 3.5·MAD rule would flag about 5 samples in every such trace.
+        const int traces = 100;
+        var flagged = 0;
+        for (var seed = 0; seed < traces; seed++)
+        {
+            var trace = SyntheticTrace.Make(t => SyntheticTrace.FirstOrder(0.01, A0, t), 400, Points, Noise, 30_000 + seed);
+            var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default, "clean");
+            if (r.Spikes.Count > 0) flagged++;
+        }
+        output.WriteLine($"{flagged} of {traces} clean traces had a sample flagged");
+        Assert.True(flagged <= 5, $"{flagged} of {traces} clean traces lost samples to the spike rule");
+    }
+
+    [Fact]
+    public void Running_median_of_five_equals_the_middle_of_the_sorted_five()
+    {
+        // Every ordering of five distinct values, and random values with ties (fixed seed); reference: sorting.
+        var rng = new Random(5);
+        var sets = new List<double[]>();
+        foreach (var perm in Permutations([1.0, 2, 3, 4, 5])) sets.Add(perm);
+        for (var i = 0; i < 2000; i++) sets.Add(Enumerable.Range(0, 5).Select(_ => (double)rng.Next(4)).ToArray());
+        foreach (var v in sets)
+        {
+            var sorted = v.Order().ToArray();
+            Assert.Equal(sorted[2], SpikeFilter.MedianOf5(v[0], v[1], v[2], v[3], v[4]));
+        }
+    }
+
+    private static IEnumerable<double[]> Permutations(double[] items)
+    {
+        if (items.Length <= 1) { yield return items; yield break; }
+        for (var i = 0; i < items.Length; i++)
+            foreach (var rest in Permutations(items.Where((_, j) => j != i).ToArray()))
+                yield return [items[i], .. rest];
+    }
+}
+
+/// <summary>
+/// The drift screen: the score statistic for adding a drift term agrees with the drop in χ²/s² that fitting the
+/// term actually brings (score and likelihood-ratio statistics agree to first order: Rao 1948, Proc. Camb. Phil.
+/// Soc. 44, 50), and on traces without drift it follows χ² with 1 degree of freedom, so it rarely passes the screen.
+/// </summary>
+public sealed class DriftScreenTests(ITestOutputHelper output)
+{
+    private const double A0 = 0.05;
+
+    private static (double Score, double Drop) ScoreAndDrop(double driftFraction, int seed)
+    {
+        var trace = SyntheticTrace.Make(t => SyntheticTrace.FirstOrder(0.01, A0, t), 400, 400, 2e-4, seed, 0, driftFraction);
+        var w = Enumerable.Repeat(1.0, trace.Count).ToArray();
+        var law = new FirstOrderLaw();
+        var (model, plain) = IntegratedLawFitter.FitOne(law, trace.Times, trace.Values, w, -1, A0, null, false, null);
+        var (_, withDrift) = IntegratedLawFitter.FitOne(law, trace.Times, trace.Values, w, -1, A0, null, true, null);
+        Assert.True(plain.Converged && withDrift.Converged);
+        var s2 = plain.ChiSquare / plain.DegreesOfFreedom;
+        return (IntegratedLawFitter.DriftScore(model, plain, trace.Times, w), (plain.ChiSquare - withDrift.ChiSquare) / s2);
+    }
+
+    [Fact]
+    public void Score_for_a_drift_term_matches_the_drop_in_chi_square_it_brings()
+    {
+        foreach (var seed in new[] { 1, 2, 3 })
+        {
+            var (score, drop) = ScoreAndDrop(0.03, 500 + seed);
+            output.WriteLine($"seed {seed}: score {score:G4}, drop {drop:G4}");
+            Assert.True(drop > 20, $"the drift should be clear (drop {drop:G3})");
+            Assert.InRange(score / drop, 0.8, 1.25);
+        }
+    }
+
+    [Fact]
+    public void Score_on_traces_without_drift_rarely_passes_the_screen()
+    {
+        // Under no drift S ~ χ²(1): P(S > 4) = 4.6 % (χ² table, common practice, no source); 60 traces.
+        var passed = 0;
+        for (var seed = 0; seed < 60; seed++)
+            if (ScoreAndDrop(0, 900 + seed).Score >= IntegratedLawFitter.DriftScreenScore) passed++;
+        output.WriteLine($"{passed} of 60 clean traces passed the drift screen");
+        Assert.InRange(passed, 0, 8);
+    }
+}
