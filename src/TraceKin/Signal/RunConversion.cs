@@ -53,7 +53,9 @@ public static class RunConversion
         var temperatures = PointTemperatures(export, channel, model);
         var conc = GC.AllocateUninitializedArray<double>(signal.Length); // every entry is written below
         var toConcentration = model.ToConcentration;
-        if (temperatures is null)
+        if (temperatures is null && model.ToConcentrations is { } all)
+            all(signal, conc);
+        else if (temperatures is null)
         {
             var t = model.Temperature ?? double.NaN;
             for (var i = 0; i < conc.Length; i++) conc[i] = toConcentration(signal[i], t);

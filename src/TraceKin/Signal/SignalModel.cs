@@ -4,6 +4,9 @@ using TraceKin.Traces;
 
 namespace TraceKin.Signal;
 
+/// <summary>Signal (internal unit) → concentration (mol/L) for every point of a trace.</summary>
+public delegate void ConcentrationsFromSignal(ReadOnlySpan<double> signal, Span<double> concentration);
+
 /// <summary>
 /// One run's conversion, both ways: signal → concentration of the followed species (for analysis) and
 /// concentration → signal (for simulation), with the conversion's own uncertainty. Built from the [signal] settings,
@@ -16,6 +19,11 @@ public sealed record SignalModel
     public required string SignalUnit { get; init; }
     /// <summary>Signal (internal unit) and temperature (K) → concentration (mol/L).</summary>
     public required Func<double, double, double> ToConcentration { get; init; }
+    /// <summary>
+    /// <see cref="ToConcentration"/> for a whole trace at once, when the conversion does not depend on temperature and
+    /// has a faster form than a call per point (same doubles); else null.
+    /// </summary>
+    public ConcentrationsFromSignal? ToConcentrations { get; init; }
     /// <summary>Concentration (mol/L) and temperature (K) → signal (internal unit).</summary>
     public required Func<double, double, double> ToSignal { get; init; }
     /// <summary>Relative standard uncertainty of the concentration scale (d c/d signal), GUM first order.</summary>
@@ -77,6 +85,7 @@ public sealed record SignalModel
                 {
                     SignalQuantity = Quantity.Absorbance, SignalUnit = Units.Absorbance,
                     ToConcentration = (a, _) => response.ToConcentration(a), ToSignal = (c, _) => response.ToSignal(c),
+                    ToConcentrations = response.ToConcentrations,
                     RelativeSystematicUncertainty = rel, Budget = budget, ConstantsUsed = constants, Temperature = row.TemperatureK,
                 };
             }
