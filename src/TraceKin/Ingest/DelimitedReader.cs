@@ -91,7 +91,7 @@ internal static class DelimitedReader
             // a constant column is judged on what the instrument wrote, before saturated points are taken out
             if (spec.Role == ColumnRole.Signal && IsConstant(trace.Values)) constant.Add(spec);
             else if (spec.Quantity == Quantity.Absorbance && spec.Role == ColumnRole.Signal)
-                trace = SaturationCheck.Apply(trace, rows.RowLines, settings, file, warnings);
+                trace = SaturationCheck.Apply(trace, r => rows.RowLines[r], settings, file, warnings);
             channels.Add(trace);
         }
         var signals = kept.Count(c => c.Role == ColumnRole.Signal);

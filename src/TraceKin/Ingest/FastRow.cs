@@ -22,10 +22,11 @@ internal static class FastRow
     /// <param name="targets">For each header column: <see cref="Time"/>, <see cref="Skip"/> or the index in <paramref name="values"/>.</param>
     /// <param name="timeUnit">Raw time → seconds.</param>
     /// <param name="count">Rows stored so far (at least one: the general path reads the first row); rows go after them while there is room.</param>
+    /// <remarks>The rows read lie on the lines after <paramref name="lineNumber"/>'s value on entry, one row per line.</remarks>
     public static int ReadRows(ReadOnlySpan<byte> text, ref int position, ref int lineNumber, byte delimiter, byte separator, int[] targets,
-        Traces.UnitInfo timeUnit, double[] times, double[][] values, int[] rowLines, ref int count)
+        Traces.UnitInfo timeUnit, double[] times, double[][] values, ref int count)
     {
-        if (targets is [Time, 0]) return ReadPairs(text, ref position, ref lineNumber, delimiter, separator, timeUnit, times, values[0], rowLines, ref count);
+        if (targets is [Time, 0]) return ReadPairs(text, ref position, ref lineNumber, delimiter, separator, timeUnit, times, values[0], ref count);
         var capacity = times.Length;
         var previous = times[count - 1];
         var len = text.Length;
@@ -82,7 +83,7 @@ internal static class FastRow
             var time = timeUnit.ToInternal(raw);
             if (!(time > previous)) break;
             times[count] = time;
-            rowLines[count] = ++line;
+            line++;
             count++;
             read++;
             previous = time;
@@ -98,9 +99,9 @@ internal static class FastRow
     /// rules without the per-cell dispatch.
     /// </summary>
     private static int ReadPairs(ReadOnlySpan<byte> text, ref int position, ref int lineNumber, byte delimiter, byte separator,
-        Traces.UnitInfo timeUnit, double[] times, double[] values, int[] rowLines, ref int count)
+        Traces.UnitInfo timeUnit, double[] times, double[] values, ref int count)
     {
-        var capacity = Math.Min(times.Length, Math.Min(values.Length, rowLines.Length));
+        var capacity = Math.Min(times.Length, values.Length);
         var previous = times[count - 1];
         var len = text.Length;
         var pos = position;
@@ -117,7 +118,7 @@ internal static class FastRow
             if (!(time > previous)) break;
             times[n] = time;
             values[n] = value;
-            rowLines[n] = ++line;
+            line++;
             n++;
             previous = time;
             pos = PastLineEnd(text, i);

@@ -178,7 +178,7 @@ internal static class JcampReader
         var name = byKey.TryGetValue("TITLE", out var title) && title.Value.Length > 0 ? title.Value : "Y";
         var trace = new Trace(name, yQuantity, InternalUnit(yQuantity), times, values, yUnit.Symbol);
         var warnings = new List<Warning>();
-        if (yQuantity == Quantity.Absorbance) trace = SaturationCheck.Apply(trace, pointLines.ToArray(), settings, file, warnings);
+        if (yQuantity == Quantity.Absorbance) trace = SaturationCheck.Apply(trace, k => pointLines[k], settings, file, warnings);
         if (values.All(v => v == values[0]))
             throw Fail.At(file, dataLine + 1, 1, $"a constant signal (every value {Fmt(ys[0])})", "a signal that changes with time", "was the instrument recording?");
         return new RunExport(file, [trace], [], metadata, detected, warnings);

@@ -46,13 +46,12 @@ internal sealed class RowReader
                 "unquoted \"0,02\" cannot be told from two cells");
         Times = [];
         Values = [];
-        RowLines = [];
     }
 
     public double[] Times { get; private set; }
     public double[][] Values { get; private set; }
     /// <summary>1-based line number of every kept row.</summary>
-    public int[] RowLines { get; private set; }
+    public RowLineMap RowLines { get; } = new();
     public int Count { get; private set; }
     public int FirstLine { get; private set; }
     public int LastLine { get; private set; }
@@ -78,7 +77,6 @@ internal sealed class RowReader
         Times = GC.AllocateUninitializedArray<double>(capacity);
         Values = new double[_columns.Length][];
         for (var k = 0; k < _columns.Length; k++) Values[k] = GC.AllocateUninitializedArray<double>(capacity);
-        RowLines = GC.AllocateUninitializedArray<int>(capacity);
 
         var headerCount = _layout.Header.Length;
         var cellBuffer = new Cell[headerCount + 2];
@@ -152,7 +150,10 @@ internal sealed class RowReader
     {
         var (position, lineNumber) = lines.Mark();
         var count = Count;
-        if (FastRow.ReadRows(span, ref position, ref lineNumber, _layout.Delimiter, Decimal, _fastTargets!, _time!.Unit!, Times, Values, RowLines, ref count) == 0) return;
+        var firstLine = lineNumber + 1;
+        var read = FastRow.ReadRows(span, ref position, ref lineNumber, _layout.Delimiter, Decimal, _fastTargets!, _time!.Unit!, Times, Values, ref count);
+        if (read == 0) return;
+        RowLines.AddRun(firstLine, read);
         Count = count;
         LastLine = lineNumber;
         lines.MoveTo(position, lineNumber);
@@ -184,7 +185,7 @@ internal sealed class RowReader
         if (Count == Times.Length) Grow();
         var row = Count;
         Times[row] = t;
-        RowLines[row] = lineNumber;
+        RowLines.Add(lineNumber);
         for (var k = 0; k < _columns.Length; k++)
             Values[k][row] = Value(line, lineNumber, cells[_columns[k].Index]);
         Count++;
@@ -317,9 +318,6 @@ internal sealed class RowReader
         var times = Times;
         Array.Resize(ref times, size);
         Times = times;
-        var lines = RowLines;
-        Array.Resize(ref lines, size);
-        RowLines = lines;
         for (var k = 0; k < Values.Length; k++) Array.Resize(ref Values[k], size);
     }
 
@@ -339,9 +337,6 @@ internal sealed class RowReader
             var times = Times;
             Array.Resize(ref times, Count);
             Times = times;
-            var lines = RowLines;
-            Array.Resize(ref lines, Count);
-            RowLines = lines;
             for (var k = 0; k < Values.Length; k++) Array.Resize(ref Values[k], Count);
         }
     }

@@ -11,7 +11,8 @@ namespace TraceKin.Ingest;
 /// </summary>
 internal static class SaturationCheck
 {
-    public static Trace Apply(Trace trace, int[] rowLines, IngestSettings settings, string file, List<Warning> warnings)
+    /// <param name="lineOf">1-based line number of the point with a given index.</param>
+    public static Trace Apply(Trace trace, Func<int, int> lineOf, IngestSettings settings, string file, List<Warning> warnings)
     {
         var threshold = settings.SaturationAbsorbance;
         if (threshold <= 0 || trace.Count == 0) return trace;
@@ -45,8 +46,8 @@ internal static class SaturationCheck
             times[w] = trace.Times[i];
             kept[w++] = values[i];
         }
-        var ranges = string.Join(", ", excluded.Select(r => r.From == r.To ? $"{rowLines[r.From]}" : $"{rowLines[r.From]}–{rowLines[r.To]}"));
-        warnings.Add(new Warning("saturated-absorbance", $"{file}:{rowLines[excluded[0].From]}",
+        var ranges = string.Join(", ", excluded.Select(r => r.From == r.To ? $"{lineOf(r.From)}" : $"{lineOf(r.From)}–{lineOf(r.To)}"));
+        warnings.Add(new Warning("saturated-absorbance", $"{file}:{lineOf(excluded[0].From)}",
             $"channel {Fail.Quote(trace.Name)}: {drop} reading{(drop == 1 ? "" : "s")} stuck at {max.ToString("G6", CultureInfo.InvariantCulture)} AU (a saturated detector) excluded, lines {ranges}" +
             (kept.Length < 3 ? $"; only {kept.Length} {(kept.Length == 1 ? "reading remains" : "readings remain")}" : "")));
         return trace with { Times = times, Values = kept };

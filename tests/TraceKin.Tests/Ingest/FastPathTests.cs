@@ -159,6 +159,21 @@ public class FastPathTests
         Assert.Contains("\"0.5OOOO\"", problem.Message);
     }
 
+    [Fact]
+    public void Line_numbers_in_warnings_and_errors_count_the_blank_and_comment_lines_between_rows()
+    {
+        // Invented exports, lines counted by hand: rows are on lines 2, 4, 6, 7, 9, 10, 11, 12.
+        var run = IngestAssert.Read("time (s),A520\n0,1.2\n\n1,2.1\n# note\n2,3.2\n3,3.2\n\n4,3.2\n5,3.2\n6,2.9\n7,2.5\n");
+        var w = Assert.Single(run.Warnings);
+        Assert.Contains("lines 6–10", w.Message);
+        Assert.Equal("run.csv:6", w.Where);
+        Assert.Contains("(lines 2–12)", IngestAssert.Detected(run, "rows"));
+
+        var problem = IngestAssert.Rejects("time (s),A520\n0,1\n\n1,2\n# c\n2,3\n2.5,4\n1.5,5\n");
+        Assert.Equal(8, problem.Line);
+        Assert.Contains("earlier than line 7", problem.Message);
+    }
+
     private static void AssertSame(string name, RunExport fast, RunExport slow)
     {
         Assert.Equal(slow.Detected, fast.Detected);
