@@ -80,17 +80,37 @@ public sealed class RunPlot : IRunSink, IDisposable
         foreach (var i in Visible(fitTimes, h.Fitted)) fit.Points.Add(new DataPoint(c.Times[i], h.Fitted[i] * scale.Factor));
         m.Series.Add(fit);
 
+        // The tangent stops where it leaves the range of the data, so a long window does not stretch the axis.
         var tEnd = Math.Min(c.Times[^1], 2 * h.WindowEnd);
+        double yLo = double.PositiveInfinity, yHi = double.NegativeInfinity;
+        foreach (var v in ys) if (double.IsFinite(v)) { yLo = Math.Min(yLo, v); yHi = Math.Max(yHi, v); }
+        if (h.Slope != 0 && double.IsFinite(yLo))
+        {
+            var bound = h.Slope < 0 ? yLo : yHi;
+            var tCross = (bound - h.ConcentrationAtZero) / h.Slope;
+            if (tCross > 0) tEnd = Math.Min(tEnd, tCross);
+        }
         var tangent = new LineSeries { Title = "initial-rate tangent", YAxisKey = "c", Color = PlotStyle.Tangent, LineStyle = LineStyle.Dash, StrokeThickness = 1.5 };
         tangent.Points.Add(new DataPoint(0, h.ConcentrationAtZero * scale.Factor));
         tangent.Points.Add(new DataPoint(tEnd, (h.ConcentrationAtZero + h.Slope * tEnd) * scale.Factor));
         m.Series.Add(tangent);
 
-        var res = new ScatterSeries { Title = "", YAxisKey = "r", MarkerType = MarkerType.Circle, MarkerSize = 2, MarkerFill = PlotStyle.Fit };
         var residuals = new double[h.Fitted.Length];
         for (var i = 0; i < residuals.Length; i++) residuals[i] = c.Values[i] - h.Fitted[i];
-        foreach (var i in Visible(fitTimes, residuals)) res.Points.Add(new ScatterPoint(c.Times[i], residuals[i] * scale.Factor));
-        m.Series.Add(res);
+        if (dense && residuals.Length > 400)
+        {
+            // Like dense data: a thin line through the min/max envelope per pixel column (thousands of dots would
+            // cost more to draw than the rest of the plot and show the same band).
+            var band = new LineSeries { Title = "", YAxisKey = "r", Color = PlotStyle.Fit, StrokeThickness = 1, EdgeRenderingMode = EdgeRenderingMode.PreferSpeed };
+            foreach (var i in Visible(fitTimes, residuals)) band.Points.Add(new DataPoint(c.Times[i], residuals[i] * scale.Factor));
+            m.Series.Add(band);
+        }
+        else
+        {
+            var res = new ScatterSeries { Title = "", YAxisKey = "r", MarkerType = MarkerType.Circle, MarkerSize = 2, MarkerFill = PlotStyle.Fit };
+            foreach (var i in Visible(fitTimes, residuals)) res.Points.Add(new ScatterPoint(c.Times[i], residuals[i] * scale.Factor));
+            m.Series.Add(res);
+        }
         m.Annotations.Add(new LineAnnotation { Type = LineAnnotationType.Horizontal, Y = 0, YAxisKey = "r", Color = PlotStyle.Tangent, StrokeThickness = 1 });
         m.Legends.Add(new OxyPlot.Legends.Legend { LegendPosition = OxyPlot.Legends.LegendPosition.TopRight, LegendBackground = OxyColor.FromAColor(220, OxyColors.White) });
         m.Subtitle = $"v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit} ({h.Method}, window {h.WindowStart:G3}–{h.WindowEnd:G3} s)";
