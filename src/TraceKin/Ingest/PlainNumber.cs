@@ -7,7 +7,7 @@ namespace TraceKin.Ingest;
 /// [(e|E) [sign] digits], at most 19 digits in all, no blanks, no group separators. The digits form an integer
 /// mantissa m and the number is m·10^q. When m ≤ 2^53 and |q| ≤ 22, both m and 10^|q| are exactly representable
 /// doubles, so one IEEE 754 multiplication or division gives the correctly rounded value (W. D. Clinger, "How to read
-/// floating point numbers accurately", PLDI 1990, the "fast path"; IEEE 754-2019 §5.4.2 and §4.3 require correctly
+/// floating point numbers accurately", PLDI 1990, the "fast path"; IEEE 754 requires correctly
 /// rounded conversion and arithmetic) — the same double that double.Parse returns, bit for bit. Anything else makes
 /// <see cref="TryRead"/> return false, and the caller uses the general path (<see cref="NumberCell"/>).
 /// </summary>
