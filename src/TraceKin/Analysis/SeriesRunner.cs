@@ -89,15 +89,21 @@ public static class SeriesRunner
         var path = Path.Combine(folder, row.File);
         try
         {
-            byte[] bytes;
-            try { bytes = File.ReadAllBytes(path); }
+            // A pooled buffer, not a new large-object array per file: the bytes are not needed once parsed.
+            ExportBytes bytes;
+            try { bytes = ExportBytes.Read(path); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
                 return (null, new Problem(row.File, 0, 0, ex is FileNotFoundException ? "no such file" : "a file that cannot be read (" + ex.Message + ")",
                     "the export named in plan.csv", $"check the file column of plan.csv (line {row.Line})"));
             }
-            var hash = Convert.ToHexStringLower(SHA256.HashData(bytes));
-            var export = ExportReader.FromBytes(bytes, row.File, config.Ingest);
+            string hash;
+            RunExport export;
+            using (bytes)
+            {
+                hash = Convert.ToHexStringLower(SHA256.HashData(bytes.Memory.Span));
+                export = ExportReader.FromBytes(bytes.Memory, row.File, config.Ingest);
+            }
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
             double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
             // With exactly one other reacting species in the plan, its [B]0 lets the Rates stage also try the
