@@ -34,9 +34,9 @@ $PY -c 'import numpy, scipy, pandas, matplotlib' || die "the baseline's Python p
 # The release build (README, "Big batches"): ReadyToRun, so the batch does not spend its first second compiling.
 echo "publishing TraceKin (Release, ReadyToRun)" >&2
 RID=$(dotnet --info | awk -F': *' '/^ *RID:/ { print $2; exit }')
-dotnet publish "$REPO/src/TraceKin.Cli" -c Release -r "$RID" --self-contained false -p:PublishReadyToRun=true \
+dotnet publish "$REPO/src/TraceKin.Cli" -c Release -r "$RID" --self-contained false -p:PublishReadyToRun=true -p:TieredCompilation=false \
     -o "$WORK/bin/cli" -v q -nologo >/dev/null
-dotnet publish "$REPO/bench/TraceKin.Bench" -c Release -r "$RID" --self-contained false -p:PublishReadyToRun=true \
+dotnet publish "$REPO/bench/TraceKin.Bench" -c Release -r "$RID" --self-contained false -p:PublishReadyToRun=true -p:TieredCompilation=false \
     -o "$WORK/bin/bench" -v q -nologo >/dev/null
 TRACEKIN=("$WORK/bin/cli/tracekin")
 BENCHTOOL=("$WORK/bin/bench/TraceKin.Bench")

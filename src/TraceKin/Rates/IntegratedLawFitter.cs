@@ -43,6 +43,9 @@ public static class IntegratedLawFitter
         var (tFine, yFine, wFine, sFine) = fine is { } fb ? (fb.T, fb.Y, fb.W, (double[]?)fb.S) : (t, y, weights, null);
         double[]? spread = null;
         if ((coarse ?? fine) is { } b) (t, y, weights, spread) = b;
+        // Fits on the comparison bins stop at a looser tolerance (χ² settled to 1e-10 relative, steps to 1e-5 of the
+        // parameters: far inside their standard errors); the fit that is reported is converged to 1e-10.
+        var tol = coarse is null ? 1e-10 : CompareTolerance;
         var families = drift switch { "off" => new[] { false }, "on" => [true], _ => [false, true] };
         var all = new List<(LawModel Model, FitResult Fit)>();
         var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
@@ -64,10 +67,10 @@ public static class IntegratedLawFitter
                     // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
                     var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
                     var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
-                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread);
-                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread);
+                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol);
+                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol);
                 }
-                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread);
+                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol);
                 if (law is FirstOrderLaw) firstOrder = r;
                 if (!withDrift) plainFits[law.Name] = r;
                 integer.Add(r);
@@ -78,7 +81,7 @@ public static class IntegratedLawFitter
             if (withDrift) continue;
             var seed = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw)
                 .OrderBy(r => r.Item2.AicC).FirstOrDefault();
-            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread));
+            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol));
         }
 
         // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
@@ -220,6 +223,9 @@ public static class IntegratedLawFitter
     /// <summary>Valid samples above which the laws are fitted to bin means (at most this many bins).</summary>
     public const int MaxFitPoints = 250;
 
+    /// <summary>LM tolerance for the comparison fits of a binned trace (see <see cref="FitOptions.Tolerance"/>).</summary>
+    public const double CompareTolerance = 1e-6;
+
     /// <summary>Bins the candidate laws are compared on, for a trace binned at <see cref="MaxFitPoints"/>.</summary>
     public const int ComparePoints = 64;
 
@@ -281,7 +287,7 @@ public static class IntegratedLawFitter
     }
 
     internal static (LawModel, FitResult) FitOne(RateLaw law, double[] t, double[] y, double[] w, double nu, double? a0Ref, double? partner, bool drift,
-        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null)
+        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null, double tolerance = 1e-10)
     {
         var model = new LawModel(law, t, nu, a0Ref, drift, spread);
         var np = model.ParameterNames.Count;
@@ -326,7 +332,7 @@ public static class IntegratedLawFitter
         for (var s = 0; s < shape.Length; s++) start[LawModel.FirstShape + s] = shape[s];
         if (startOverride is not null) start = startOverride;
         if (fixedOverride is not null) fixedP = fixedOverride;
-        var options = new FitOptions { Weights = w, Lower = lower, Upper = upper, Fixed = fixedP, MaxIterations = 100, Tolerance = 1e-10 };
+        var options = new FitOptions { Weights = w, Lower = lower, Upper = upper, Fixed = fixedP, MaxIterations = 100, Tolerance = tolerance };
         var fit = NonlinearLeastSquares.Fit(model, y, start, options);
         if (fit.Exit is FitExit.Stalled or FitExit.InvalidValues)
         {
