@@ -27,14 +27,12 @@ public sealed class CurveModel : IFitModel
     public int PointCount => _x.Length;
     public ReadOnlySpan<double> X => _x;
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Evaluate(ReadOnlySpan<double> parameters, Span<double> values)
     {
         parameters.CopyTo(_p);
         for (var i = 0; i < _x.Length; i++) values[i] = _f(_p, _x[i]);
     }
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public bool TryJacobian(ReadOnlySpan<double> parameters, Span<double> jacobian)
     {
         if (_gradient is null) return false;

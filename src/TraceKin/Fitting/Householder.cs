@@ -11,7 +11,6 @@ internal static class Householder
     /// Factor A = Q·R in place. Afterwards the strict upper triangle of A holds R, <paramref name="rDiag"/> its
     /// diagonal, and column k below (and on) the diagonal holds the Householder vector v_k with I − τ_k·v_k·v_kᵀ.
     /// </summary>
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static void Factor(Span<double> a, int rows, int cols, Span<double> tau, Span<double> rDiag)
     {
         for (var k = 0; k < cols; k++)
@@ -42,7 +41,6 @@ internal static class Householder
     }
 
     /// <summary>Overwrite b with Qᵀ·b using the reflectors stored by <see cref="Factor"/>.</summary>
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static void ApplyQt(ReadOnlySpan<double> a, int rows, int cols, ReadOnlySpan<double> tau, Span<double> b)
     {
         for (var k = 0; k < cols; k++)
@@ -57,7 +55,6 @@ internal static class Householder
     }
 
     /// <summary>Solve R·x = c by back substitution (R from <see cref="Factor"/>). Returns false on a zero pivot.</summary>
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static bool SolveR(ReadOnlySpan<double> a, int rows, int cols, ReadOnlySpan<double> rDiag, ReadOnlySpan<double> c, Span<double> x)
     {
         for (var i = cols - 1; i >= 0; i--)

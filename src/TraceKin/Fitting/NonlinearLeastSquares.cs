@@ -77,7 +77,6 @@ public static class NonlinearLeastSquares
             _rhs = new double[2 * _np]; _delta = new double[_np]; _step = new double[_np]; _g = new double[_np];
         }
 
-        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         public FitResult Run()
         {
             for (var i = 0; i < _n; i++)
@@ -247,7 +246,6 @@ public static class NonlinearLeastSquares
 
         private string Name(int j) => _model.ParameterNames[j];
 
-        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         private bool Residuals(double[] p, double[] f, double[] r, out double chi2, out int bad)
         {
             _model.Evaluate(p, f);
@@ -264,7 +262,6 @@ public static class NonlinearLeastSquares
         }
 
         /// <summary>√W-weighted ∂f/∂p (row-major n × P), analytic when the model offers it, else differences.</summary>
-        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
         private bool Jacobian(double[] p, out int bad)
         {
             bad = -1;

@@ -9,7 +9,6 @@ public class FirstOrderLaw : RateLaw
     public override string Name => "first order";
     public override double? OverallOrder => 1;
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         var u = Math.Exp(-kk * t);

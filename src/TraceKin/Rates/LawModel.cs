@@ -66,7 +66,6 @@ public sealed class LawModel : IFitModel
 
     public double HalfLife(ReadOnlySpan<double> p) => Law.HalfLife(Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount));
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Evaluate(ReadOnlySpan<double> parameters, Span<double> values)
     {
         var a0 = A0(parameters);
@@ -87,7 +86,6 @@ public sealed class LawModel : IFitModel
         }
     }
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public bool TryJacobian(ReadOnlySpan<double> parameters, Span<double> jacobian)
     {
         var a0 = A0(parameters);

@@ -15,7 +15,6 @@ public sealed class MixedSecondOrderLaw : RateLaw
     public override IReadOnlyList<string> ShapeNames => ["[B]0"];
     public override (double Low, double High)[] ShapeBounds => [(1e-300, double.PositiveInfinity)];
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         var b0 = shape[0];

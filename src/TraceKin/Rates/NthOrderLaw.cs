@@ -12,7 +12,6 @@ public sealed class NthOrderLaw : RateLaw
     public override IReadOnlyList<string> ShapeNames => ["n"];
     public override (double Low, double High)[] ShapeBounds => [(0, 4)];
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         // With x = (n−1)·q: ln u = −q·L(x)/x, L = ln(1 + x), which is smooth through n = 1 (L(x)/x → 1).

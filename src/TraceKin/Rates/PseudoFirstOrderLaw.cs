@@ -11,7 +11,6 @@ public sealed class PseudoFirstOrderLaw(double partner) : RateLaw
     public override string Name => "pseudo-first order";
     public override double? OverallOrder => 2;
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         var u = Math.Exp(-kk * Partner * t);

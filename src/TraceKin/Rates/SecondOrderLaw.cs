@@ -10,7 +10,6 @@ public sealed class SecondOrderLaw : RateLaw
     public override string Name => "second order";
     public override double? OverallOrder => 2;
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         var u = 1 / (1 + kk * a0 * t);

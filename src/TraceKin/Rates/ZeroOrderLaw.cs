@@ -9,7 +9,6 @@ public sealed class ZeroOrderLaw : RateLaw
     public override string Name => "zero order";
     public override double? OverallOrder => 0;
 
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
     {
         var u = 1 - kk * t / a0;
