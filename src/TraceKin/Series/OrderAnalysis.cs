@@ -241,20 +241,26 @@ public static class OrderAnalysis
     {
         var list = new List<PairRatio>();
         var count = 0;
+        // Every pair is visited (the count is reported), so the starting concentrations are looked up once per run.
+        var k = varied.Count;
+        var conc = new double[runs.Count * k];
+        for (var r = 0; r < runs.Count; r++)
+            for (var j = 0; j < k; j++) conc[r * k + j] = runs[r].InitialConcentrations[varied[j]];
         for (var a = 0; a < runs.Count; a++)
             for (var b = a + 1; b < runs.Count; b++)
             {
-                string? differing = null;
+                var differingIndex = -1;
                 var ok = true;
-                foreach (var sp in varied)
+                for (var j = 0; j < k; j++)
                 {
-                    var ca = runs[a].InitialConcentrations[sp];
-                    var cb = runs[b].InitialConcentrations[sp];
+                    var ca = conc[a * k + j];
+                    var cb = conc[b * k + j];
                     if (Math.Abs(ca - cb) <= 1e-9 * Math.Max(ca, cb)) continue;
-                    if (differing is not null) { ok = false; break; }
-                    differing = sp;
+                    if (differingIndex >= 0) { ok = false; break; }
+                    differingIndex = j;
                 }
-                if (!ok || differing is null) continue;
+                if (!ok || differingIndex < 0) continue;
+                var differing = varied[differingIndex];
                 if (runs[a].TemperatureK is { } ta && runs[b].TemperatureK is { } tb && Math.Abs(ta - tb) > 0.05) continue;
                 if (++count > MaxPairRatios) continue;
                 var cr = runs[b].InitialConcentrations[differing] / runs[a].InitialConcentrations[differing];

@@ -42,7 +42,8 @@ public static class OrderDesign
             return new DesignCheck(species, double.PositiveInfinity, false, flat.Select(s => (IReadOnlyList<string>)[s, "temperature"]).ToList());
         if (n < p) return new DesignCheck(species, double.PositiveInfinity, false, [species.ToList()]);
 
-        var svd = x.Svd(computeVectors: true);
+        // Singular values and right vectors of X are those of R in X = QR (thin): no n×n factor for a big series.
+        var svd = x.QR(MathNet.Numerics.LinearAlgebra.Factorization.QRMethod.Thin).R.Svd(computeVectors: true);
         var s = svd.S;
         var cond = s[p - 1] > 0 ? s[0] / s[p - 1] : double.PositiveInfinity;
         var confounded = new List<IReadOnlyList<string>>();
