@@ -46,13 +46,14 @@ public static class AnalyseCommand
     {
         // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
         using var plotFiles = new OutputQueue();
+        var progress = new BatchProgress(log);
         using var runPlot = plots ? new RunPlot(outDir, plotFiles) : null;
         var options = new AnalysisOptions
         {
             Workers = workers,
             RunSink = runPlot,
             Retention = TraceRetention.Display,
-            Progress = (run, status) => log.Information("  {Run}: {Status}", run, status),
+            Progress = progress.Report,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
         // The series outputs are independent of each other: write them side by side while the plots drain to disk.
