@@ -52,7 +52,8 @@ public static class AnalyseCommand
         {
             Workers = workers,
             RunSink = runPlot,
-            Retention = TraceRetention.Display,
+            // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
+            Retention = TraceRetention.None,
             Progress = progress.Report,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);

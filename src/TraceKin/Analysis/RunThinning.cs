@@ -61,4 +61,25 @@ public static class RunThinning
         };
         return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
     }
+
+    /// <summary>The run without per-point arrays (see <see cref="TraceRetention.None"/>).</summary>
+    public static RunResult Strip(RunResult run)
+    {
+        static Trace Empty(Trace t) => t with { Times = [], Values = [] };
+        var export = run.Export with
+        {
+            Channels = run.Export.Channels.Select(Empty).ToArray(),
+            Auxiliary = run.Export.Auxiliary.Select(Empty).ToArray(),
+        };
+        var converted = run.Converted with { Concentration = Empty(run.Converted.Concentration) };
+        var estimates = new Dictionary<InitialRate, InitialRate>(ReferenceEqualityComparer.Instance);
+        InitialRate StripRate(InitialRate r) => estimates.TryGetValue(r, out var t) ? t : estimates[r] = r with { Fitted = [] };
+        var rates = run.Rates with
+        {
+            Estimates = run.Rates.Estimates.Select(StripRate).ToArray(),
+            Headline = StripRate(run.Rates.Headline),
+            Fits = run.Rates.Fits.Select(f => f with { Fitted = [], Fit = f.Fit with { Residuals = [] } }).ToArray(),
+        };
+        return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
+    }
 }

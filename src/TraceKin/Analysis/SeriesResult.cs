@@ -19,8 +19,8 @@ public sealed record RunResult(
     public string File => Plan.File;
 
     /// <summary>
-    /// True when the per-point arrays are a display copy (<see cref="TraceRetention.Display"/>): fine for drawing,
-    /// not for computing. Every reported number was computed before thinning.
+    /// True when the per-point arrays are a display copy (<see cref="TraceRetention.Display"/>: fine for drawing,
+    /// not for computing) or empty (<see cref="TraceRetention.None"/>). Every reported number was computed before.
     /// </summary>
     public bool TracesThinned { get; init; }
 }

@@ -52,10 +52,10 @@ public static class SeriesRunner
                 options.Progress?.Invoke(row.Run, $"{row.File}: v0 = {run.Rates.Headline.Value:G4} ± {run.Rates.Headline.StdError:G2} {run.Rates.Headline.Unit}");
                 // Only what the summary, the report and the series need stays alive once the sink has seen every point:
                 // the series stage gets the points of the full trace its global fit uses, the rest a display copy.
-                if (options.Retention == TraceRetention.Display)
+                if (options.Retention != TraceRetention.Full)
                 {
                     fitTrace = GlobalFit.Thin(SeriesTrace(run));
-                    run = RunThinning.Thin(run, options.RetainedColumns);
+                    run = options.Retention == TraceRetention.None ? RunThinning.Strip(run) : RunThinning.Thin(run, options.RetainedColumns);
                 }
             }
             else options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");

@@ -14,4 +14,11 @@ public enum TraceRetention
     /// <see cref="IRunSink"/>, which always sees the full run.
     /// </summary>
     Display,
+
+    /// <summary>
+    /// No per-point arrays at all once the sink has seen the run (every trace, fitted curve and residual array is
+    /// emptied; names, units and every number stay). For runs whose plots are drawn by the sink and whose results are
+    /// written from numbers only (the command line): memory then grows with the batch by a few kilobytes per run.
+    /// </summary>
+    None,
 }

@@ -46,6 +46,28 @@ public class DeterminismTests
     }
 
     [Fact]
+    public void No_retention_keeps_every_output_byte_of_full_retention()
+    {
+        // The command line keeps no per-point arrays after a run's plot is drawn: summary, table, report and plots
+        // must not change by a byte, and the global fit must still see its points (round trip, invented sample).
+        using var series = RepoPaths.CopyOf(Sample);
+        var toml = Path.Combine(series.Path, "series.toml");
+        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[model]\n", "[model]\nglobal_fit = true\n"));
+        using var full = new RepoPaths.TempDir();
+        using var none = new RepoPaths.TempDir();
+        var a = Write(full.Path, workers: 2, TraceRetention.Full, folder: series.Path);
+        var b = Write(none.Path, workers: 2, TraceRetention.None, folder: series.Path);
+
+        Assert.All(b.Runs, r => Assert.Equal(0, r.Converted.Concentration.Count));
+        Assert.All(b.Runs, r => Assert.All(r.Rates.Fits, f => Assert.Empty(f.Fitted)));
+        Assert.Equal(a.Findings!.GlobalFit!.Fit.ChiSquare, b.Findings!.GlobalFit!.Fit.ChiSquare);
+        foreach (var file in new[] { SummaryJson.FileName, RunsCsv.FileName, ReportHtml.FileName })
+            Assert.Equal(File.ReadAllBytes(Path.Combine(full.Path, file)), File.ReadAllBytes(Path.Combine(none.Path, file)));
+        foreach (var png in Directory.EnumerateFiles(Path.Combine(full.Path, "plots")).Select(Path.GetFileName))
+            Assert.Equal(File.ReadAllBytes(Path.Combine(full.Path, "plots", png!)), File.ReadAllBytes(Path.Combine(none.Path, "plots", png!)));
+    }
+
+    [Fact]
     public void Display_retention_keeps_every_number_of_the_global_progress_curve_fit()
     {
         // The global fit reads the runs' traces after the parallel stage, when only display copies are left: it must
