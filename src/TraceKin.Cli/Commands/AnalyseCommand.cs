@@ -57,17 +57,21 @@ public static class AnalyseCommand
             Progress = progress.Report,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
-        // The series outputs are independent of each other: write them side by side while the plots drain to disk.
-        Parallel.ForEach(ReportSet.SeriesWriters(plots), writer =>
+        // The series outputs are independent of each other: write them side by side while the run plots drain to
+        // disk. The report embeds the plot files, so it is written last, once every plot is on disk.
+        void Write(ISeriesReportWriter writer)
         {
             try { writer.Write(result, outDir); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
                 log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
             }
-        });
+        }
+        var writers = ReportSet.SeriesWriters(plots);
+        Parallel.ForEach(writers.Where(w => w is not ReportHtml), Write);
         foreach (var (path, error) in plotFiles.Complete())
             log.Error("could not write {Plot}: {Message}", path, error);
+        foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
         foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
         if (result.Findings is { } f)

@@ -357,6 +357,9 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("</tbody>\n</table>\n</section>\n");
     }
 
+    /// <summary>Runs up to which every run plot is embedded in the page.</summary>
+    public const int MaxEmbeddedRunPlots = 50;
+
     private static void Plots(Html h, SeriesResult r, string? plotDir)
     {
         h.Raw("<section id=\"plots\">\n").Element("h2", "Plots");
@@ -377,11 +380,23 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             figures.AddRange(seriesFiles);
             figures.AddRange(runFiles);
         }
+        // Up to MaxEmbeddedRunPlots run plots travel inside the page; beyond that the page links them from the
+        // plots folder next to it, so a batch of a thousand runs does not make a page of a hundred megabytes.
+        var embedRuns = r.Runs.Count <= MaxEmbeddedRunPlots;
+        if (!embedRuns)
+            h.Element("p", $"The {r.Runs.Count} run plots are shown from the plots folder next to this page (they are embedded only for up to {MaxEmbeddedRunPlots} runs); keep the folder with the page.", "class=\"note\"");
         var shown = 0;
         foreach (var (file, caption) in figures)
         {
             var path = Path.Combine(plotDir, file);
             if (!File.Exists(path)) continue;
+            if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal))
+            {
+                h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img loading=\"lazy\" alt=\"{Html.Escape(caption)}\" {Html.Attr("src", "plots/" + file)}>\n")
+                    .Element("figcaption", caption).Raw("</figure>\n");
+                shown++;
+                continue;
+            }
             byte[] png;
             try { png = File.ReadAllBytes(path); }
             catch (IOException) { continue; }
