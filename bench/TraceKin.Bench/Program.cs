@@ -203,9 +203,11 @@ if (args[0] == "render")
     foreach (var (z, shaping, filter, opaque) in new[] { (6, true, SkiaSharp.SKPngEncoderFilterFlags.AllFilters, false), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, false),
         (1, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, false, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.Sub, true), (1, true, SkiaSharp.SKPngEncoderFilterFlags.None, true), (3, true, SkiaSharp.SKPngEncoderFilterFlags.Up, true) })
     {
-        using var renderer = new PngRenderer(zlibLevel: z, textShaping: shaping, filter: filter, opaque: opaque);
+        using var renderer = new PngRenderer(zlibLevel: z, textShaping: shaping, filter: filter, opaque: opaque, ownEncoder: false);
         Time($"reused_zlib{z}_shaping{(shaping ? "on" : "off")}_{filter}_{(opaque ? "opaque" : "alpha")}", r => renderer.Render(RunPlot.Build(r)));
     }
+    using (var own = new PngRenderer())
+        Time("reused_own_encoder_rgba_up_fastest", r => own.Render(RunPlot.Build(r)));
     using (var renderer = new PngRenderer())
     {
         Time("build_only", r => { _ = RunPlot.Build(r); return []; });
