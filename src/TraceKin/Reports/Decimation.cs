@@ -50,6 +50,34 @@ public static class Decimation
         return keep.ToArray();
     }
 
+    /// <summary>
+    /// Per pixel column: the column's mean x and the lowest and highest y in it, for drawing a dense scatter (such as
+    /// residuals) as the band it looks like. Columns without points are skipped.
+    /// </summary>
+    public static (double[] X, double[] Low, double[] High) Band(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns)
+    {
+        var n = x.Length;
+        var xs = new List<double>(columns); var lo = new List<double>(columns); var hi = new List<double>(columns);
+        if (n == 0 || columns < 1) return ([], [], []);
+        double x0 = x[0], span = x[n - 1] - x[0];
+        var i = 0;
+        while (i < n)
+        {
+            var col = span > 0 ? Column(x[i], x0, span, columns) : 0;
+            double sx = 0, min = double.PositiveInfinity, max = double.NegativeInfinity;
+            var m = 0;
+            while (i < n && (span > 0 ? Column(x[i], x0, span, columns) : 0) == col)
+            {
+                sx += x[i]; m++;
+                if (y[i] < min) min = y[i];
+                if (y[i] > max) max = y[i];
+                i++;
+            }
+            xs.Add(sx / m); lo.Add(min); hi.Add(max);
+        }
+        return (xs.ToArray(), lo.ToArray(), hi.ToArray());
+    }
+
     /// <summary>The values of <paramref name="source"/> at <paramref name="indices"/> (ascending); indices past its end are skipped.</summary>
     public static double[] Pick(ReadOnlySpan<double> source, int[] indices)
     {
