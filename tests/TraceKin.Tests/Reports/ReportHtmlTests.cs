@@ -204,4 +204,29 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         Assert.Contains("safety data sheet", text);
         Assert.Contains("Local codes", text);
     }
+
+    [Fact]
+    public void Beyond_fifty_runs_the_run_plots_are_linked_from_the_plots_folder_not_embedded()
+    {
+        // 8 sample runs repeated under new names up to 56 (round trip on the invented sample): the page stays
+        // small, every run still has its figure, and each links its file in plots/, which is there.
+        var runs = Enumerable.Range(0, 7).SelectMany(k => sample.Result.Runs.Select(r => r with { Plan = r.Plan with { Run = $"{r.Id}-{k}" } })).ToList();
+        var big = sample.Result with { Runs = runs };
+        using var outDir = new RepoPaths.TempDir();
+        var plotDir = Path.Combine(outDir.Path, "plots");
+        Directory.CreateDirectory(plotDir);
+        foreach (var f in Directory.EnumerateFiles(Path.Combine(sample.OutDir, "plots"), "*.png").Where(f => !Path.GetFileName(f).StartsWith("run-", StringComparison.Ordinal)))
+            File.Copy(f, Path.Combine(plotDir, Path.GetFileName(f)));
+        foreach (var r in runs)
+            File.Copy(Path.Combine(sample.OutDir, "plots", RunPlot.FileNameFor(sample.Result.Runs[0].Id)), Path.Combine(plotDir, RunPlot.FileNameFor(r.Id)));
+        var (doc, errors) = Parse(ReportHtml.Render(big, plotDir));
+        Assert.Empty(errors);
+        var runImages = doc.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal))
+            .Select(f => f.QuerySelector("img")!.GetAttribute("src")!).ToList();
+        Assert.Equal(56, runImages.Count);
+        Assert.All(runImages, src => Assert.StartsWith("plots/run-", src));
+        Assert.All(runImages, src => Assert.True(File.Exists(Path.Combine(outDir.Path, src))));
+        // The series plots are still embedded.
+        Assert.Contains(doc.QuerySelectorAll("figure.plot img"), i => i.GetAttribute("src")!.StartsWith("data:image/png;base64,", StringComparison.Ordinal));
+    }
 }
