@@ -68,10 +68,14 @@ public static class AnalyseCommand
             }
         }
         var writers = ReportSet.SeriesWriters(plots);
-        Parallel.ForEach(writers.Where(w => w is not ReportHtml), Write);
+        var isPlot = ReportSet.DrawsPlot;
+        // Numbers first, in the background; the plots side by side; the report once every plot file is on disk.
+        var numbers = writers.Where(w => w is not ReportHtml && !isPlot(w)).Select(w => Task.Run(() => Write(w))).ToArray();
+        Parallel.ForEach(writers.Where(isPlot), Write);
         foreach (var (path, error) in plotFiles.Complete())
             log.Error("could not write {Plot}: {Message}", path, error);
         foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
+        Task.WaitAll(numbers);
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
         foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
         if (result.Findings is { } f)

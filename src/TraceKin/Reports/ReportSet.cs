@@ -9,4 +9,8 @@ public static class ReportSet
         [.. plots ? [new SummaryJson(), new RunsCsv(), new OrderPlot(), new RateConcentrationPlot(), new RateConstantPlot(), new ArrheniusPlot(), new EyringPlot()]
                   : new ISeriesReportWriter[] { new SummaryJson(), new RunsCsv() },
          new ReportHtml(images: plots)]; // last, so it embeds every plot written before it
+
+    /// <summary>True for the writers that draw a series plot into plots/ (the report embeds their files).</summary>
+    public static bool DrawsPlot(ISeriesReportWriter writer) =>
+        writer is OrderPlot or RateConcentrationPlot or RateConstantPlot or ArrheniusPlot or EyringPlot;
 }
