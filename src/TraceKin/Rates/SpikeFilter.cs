@@ -45,12 +45,6 @@ public static class SpikeFilter
         var n = y.Length;
         var flag = new bool[n];
         if (n < 9) return flag;
-        var d = new double[n];
-        for (var i = 0; i < n; i++)
-        {
-            var lo = Math.Clamp(i - 2, 0, n - 5);
-            d[i] = y[i] - MedianOf5(y[lo], y[lo + 1], y[lo + 2], y[lo + 3], y[lo + 4]);
-        }
         // Second differences of a smooth, densely sampled trace centre on 0, so the MAD is taken about 0 (one
         // selection instead of two). Beyond 4,000 points every other one is enough: the MAD of 2,000 values is
         // within about 3 % of the scale (SE of the MAD ≈ 1.17σ/√n: Rousseeuw & Croux 1993, JASA 88, 1273, from memory).
@@ -60,7 +54,11 @@ public static class SpikeFilter
         var sigma = 1.4826 * ArrayStatistics.MedianInplace(second) / Math.Sqrt(6);
         if (!(sigma > 0)) return flag;
         var limit = CutoffFor(n) * sigma;
-        for (var i = 0; i < n; i++) flag[i] = Math.Abs(d[i]) > limit;
+        for (var i = 0; i < n; i++)
+        {
+            var lo = Math.Clamp(i - 2, 0, n - 5);
+            flag[i] = Math.Abs(y[i] - MedianOf5(y[lo], y[lo + 1], y[lo + 2], y[lo + 3], y[lo + 4])) > limit;
+        }
         return flag;
     }
 
