@@ -227,10 +227,10 @@ public static class IntegratedLawFitter
     public const double CompareTolerance = 1e-6;
 
     /// <summary>Bins the candidate laws are compared on, for a trace binned at <see cref="MaxFitPoints"/>.</summary>
-    public const int ComparePoints = 64;
+    public const int ComparePoints = 32;
 
     /// <summary>
-    /// Means of consecutive valid samples in bins of ⌈n/B⌉ (B = 250 for the reported fit, 64 for comparing laws),
+    /// Means of consecutive valid samples in bins of ⌈n/B⌉ (B = 250 for the reported fit, 32 for comparing laws),
     /// weighted by their counts, with the SD of the sample times in each bin, when a trace has more than 500 valid
     /// samples. The model is fitted as the bin average of the curve (see <see cref="LawModel"/>), so the weighted
     /// least-squares fit to bin means gives the estimates of the fit to every sample to first order, and its residual
