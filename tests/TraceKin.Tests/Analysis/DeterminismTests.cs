@@ -50,9 +50,7 @@ public class DeterminismTests
     {
         // The command line keeps no per-point arrays after a run's plot is drawn: summary, table, report and plots
         // must not change by a byte, and the global fit must still see its points (round trip, invented sample).
-        using var series = RepoPaths.CopyOf(Sample);
-        var toml = Path.Combine(series.Path, "series.toml");
-        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[model]\n", "[model]\nglobal_fit = true\n"));
+        using var series = SampleWithGlobalFit();
         using var full = new RepoPaths.TempDir();
         using var none = new RepoPaths.TempDir();
         var a = Write(full.Path, workers: 2, TraceRetention.Full, folder: series.Path);
@@ -72,9 +70,7 @@ public class DeterminismTests
     {
         // The global fit reads the runs' traces after the parallel stage, when only display copies are left: it must
         // still see exactly the points of the full traces it would have used.
-        using var series = RepoPaths.CopyOf(Sample);
-        var toml = Path.Combine(series.Path, "series.toml");
-        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[model]\n", "[model]\nglobal_fit = true\n"));
+        using var series = SampleWithGlobalFit();
         using var full = new RepoPaths.TempDir();
         using var display = new RepoPaths.TempDir();
         var a = Write(full.Path, workers: 2, TraceRetention.Full, folder: series.Path);
@@ -107,6 +103,15 @@ public class DeterminismTests
         // The envelope keeps each column's extremes, so the drawn range of the trace is unchanged.
         Assert.Equal(c.Values.Min(), t.Values.Min());
         Assert.Equal(c.Values.Max(), t.Values.Max());
+    }
+
+    /// <summary>A copy of the sample series with the global progress-curve fit switched on.</summary>
+    private static RepoPaths.TempDir SampleWithGlobalFit()
+    {
+        var series = RepoPaths.CopyOf(Sample);
+        var toml = Path.Combine(series.Path, "series.toml");
+        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[model]\n", "[model]\nglobal_fit = true\n"));
+        return series;
     }
 
     private static SeriesResult Write(string outDir, int workers, TraceRetention retention = TraceRetention.Display, int retainedColumns = 200, string? folder = null)

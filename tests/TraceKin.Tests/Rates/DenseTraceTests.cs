@@ -13,17 +13,8 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
     private const double A0 = 0.05, B0 = 0.08, Noise = 2e-4;
     private const int Points = 10_000;
 
-    public static TheoryData<string, string> Cases()
-    {
-        var d = new TheoryData<string, string>();
-        foreach (var law in new[] { "first", "second", "mixed", "zero" })
-            foreach (var condition in new[] { "clean", "spikes", "drift" })
-                d.Add(law, condition);
-        return d;
-    }
-
     [Theory]
-    [MemberData(nameof(Cases))]
+    [MemberData(nameof(RateAnalysisTests.BiasCases), MemberType = typeof(RateAnalysisTests))]
     public void Headline_initial_rate_of_a_dense_trace_is_within_one_percent_of_the_truth(string law, string condition)
     {
         var (truth, rate) = law switch
@@ -53,24 +44,8 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
     [InlineData("second", "second order", 0.5)]
     public void Reported_95_percent_interval_for_k_of_dense_traces_covers_the_truth_in_92_to_98_percent(string law, string lawName, double k)
     {
-        // 200 traces of 10,000 points: the fit is to 250 bin means, and its interval must still be honest. A correct
-        // 95 % interval covers with binomial SD √(0.95·0.05/200) = 1.5 %, so 92–98 % is a ±2 SD band.
-        const int traces = 200;
-        var covered = 0; var fitted = 0;
-        for (var seed = 0; seed < traces; seed++)
-        {
-            Func<double, double> truth = law == "first" ? t => SyntheticTrace.FirstOrder(k, A0, t) : t => SyntheticTrace.SecondOrder(k, A0, t);
-            var trace = SyntheticTrace.Make(truth, 300, Points, 1e-3, 20_000 + seed);
-            var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default with { Drift = "off" }, law);
-            var f = r.Fits.First(x => x.Law == lawName);
-            if (!f.Fit.Converged) continue;
-            fitted++;
-            if (f.Ci95Low <= k && k <= f.Ci95High) covered++;
-        }
-        var coverage = (double)covered / fitted;
-        output.WriteLine($"{law}: {covered} of {fitted} intervals cover k = {k} ({coverage * 100:F1} %)");
-        Assert.True(fitted >= traces - 2, $"only {fitted} of {traces} fits converged");
-        Assert.InRange(coverage, 0.92, 0.98);
+        // 200 traces of 10,000 points: the fit is to 250 bin means, and its interval must still be honest.
+        CoverageCheck.Assert92To98Percent(output, law, lawName, k, A0, traces: 200, points: Points, noise: 1e-3, firstSeed: 20_000);
     }
 
     [Fact]

@@ -70,24 +70,8 @@ public sealed class RateAnalysisTests(ITestOutputHelper output)
     [InlineData("second", "second order", 0.5)]
     public void Reported_95_percent_interval_for_k_covers_the_true_k_in_92_to_98_percent_of_traces(string law, string lawName, double k)
     {
-        // 250 short traces (60 points) per case, Gaussian noise 0.5 % of [A]0, fixed seeds. A correct 95 % interval covers
-        // the truth with binomial SD √(0.95·0.05/250) = 1.4 %, so 92–98 % is a ±2 SD band.
-        const int traces = 250;
-        var covered = 0; var fitted = 0;
-        for (var seed = 0; seed < traces; seed++)
-        {
-            Func<double, double> truth = law == "first" ? t => SyntheticTrace.FirstOrder(k, A0, t) : t => SyntheticTrace.SecondOrder(k, A0, t);
-            var trace = SyntheticTrace.Make(truth, 300, 60, 2.5e-4, 10_000 + seed);
-            var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default with { Drift = "off" }, law);
-            var f = r.Fits.First(x => x.Law == lawName);
-            if (!f.Fit.Converged) continue;
-            fitted++;
-            if (f.Ci95Low <= k && k <= f.Ci95High) covered++;
-        }
-        var coverage = (double)covered / fitted;
-        output.WriteLine($"{law}: {covered} of {fitted} intervals cover k = {k} ({coverage * 100:F1} %)");
-        Assert.True(fitted >= traces - 2, $"only {fitted} of {traces} fits converged");
-        Assert.InRange(coverage, 0.92, 0.98);
+        // 250 short traces (60 points) per case, Gaussian noise 0.5 % of [A]0, fixed seeds.
+        CoverageCheck.Assert92To98Percent(output, law, lawName, k, A0, traces: 250, points: 60, noise: 2.5e-4, firstSeed: 10_000);
     }
 
     [Fact]
