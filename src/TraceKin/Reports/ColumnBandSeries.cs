@@ -30,6 +30,13 @@ public sealed class ColumnBandSeries : XYAxisSeries
         rc.DrawLineSegments(segments, Color, 1, EdgeRenderingMode.PreferSpeed);
     }
 
+    /// <summary>A short line in the series colour, as for a line series.</summary>
+    public override void RenderLegend(IRenderContext rc, OxyRect legendBox)
+    {
+        var y = (legendBox.Top + legendBox.Bottom) / 2;
+        rc.DrawLine([new ScreenPoint(legendBox.Left, y), new ScreenPoint(legendBox.Right, y)], Color, 1, EdgeRenderingMode.PreferSpeed);
+    }
+
     protected override void UpdateMaxMin()
     {
         base.UpdateMaxMin();

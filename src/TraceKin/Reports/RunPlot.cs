@@ -60,7 +60,15 @@ public sealed class RunPlot : IRunSink, IDisposable
 
         var (xs, ys) = Decimation.Envelope(c.Times, c.Values, 900);
         var dense = xs.Length < c.Count || c.Count > 400;
-        if (dense)
+        if (c.Count > 4 * PlotStyle.Width)
+        {
+            // Several samples per pixel column: the trace drawn as what the pixels show, each column from its lowest
+            // to its highest value, in one draw call (an envelope line through them covers the same pixels).
+            var (bx, lo, hi) = Decimation.Band(c.Times, c.Values, PlotStyle.Width);
+            for (var k = 0; k < bx.Length; k++) { lo[k] *= scale.Factor; hi[k] *= scale.Factor; }
+            m.Series.Add(new ColumnBandSeries { Title = "data", YAxisKey = "c", Color = PlotStyle.Data, X = bx, Low = lo, High = hi });
+        }
+        else if (dense)
         {
             var line = new LineSeries { Title = "data", YAxisKey = "c", Color = PlotStyle.Data, StrokeThickness = 1 };
             for (var i = 0; i < xs.Length; i++) line.Points.Add(new DataPoint(xs[i], ys[i] * scale.Factor));
