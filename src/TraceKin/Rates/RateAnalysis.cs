@@ -37,7 +37,7 @@ public static class RateAnalysis
         for (var i = 0; i < n; i++) if (candidates[i]) w[i] = 0;
         var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
         var spikes = candidates;
-        if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { Fitted.Length: > 0 } chosen && chosen.Fitted.Length == n)
+        if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { } chosen && chosen.Fitted.Length == n)
         {
             var resid = new double[n];
             double lo = double.PositiveInfinity, hi = double.NegativeInfinity;
