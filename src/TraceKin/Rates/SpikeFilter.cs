@@ -76,7 +76,7 @@ public static class SpikeFilter
     public static bool[] FromResiduals(ReadOnlySpan<double> residuals, double floor)
     {
         var flag = new bool[residuals.Length];
-        var (centre, scale) = MedianAndScaleInPlace(residuals.ToArray());
+        var (centre, scale) = MedianAndScale(residuals.ToArray());
         // A perfectly smooth (noise-free) trace has MAD 0; a floor keeps rounding from being called a spike.
         var s = Math.Max(scale, floor);
         if (!(s > 0)) return flag;
@@ -85,12 +85,9 @@ public static class SpikeFilter
         return flag;
     }
 
-    /// <summary>Median and 1.4826·MAD (the MAD scaled to the SD of a normal sample; Leys et al. 2013, eq. 1). The medians
-    /// are found by selection (MathNet's in-place median), not by sorting.</summary>
-    public static (double Median, double Scale) MedianAndScale(ReadOnlySpan<double> x) => MedianAndScaleInPlace(x.ToArray());
-
-    /// <summary>As <see cref="MedianAndScale"/>, reordering and overwriting the array it is given.</summary>
-    private static (double Median, double Scale) MedianAndScaleInPlace(double[] a)
+    /// <summary>Median and 1.4826·MAD (the MAD scaled to the SD of a normal sample; Leys et al. 2013, eq. 1), found by
+    /// selection (MathNet's in-place median), not by sorting; reorders and overwrites the array it is given.</summary>
+    private static (double Median, double Scale) MedianAndScale(double[] a)
     {
         if (a.Length == 0) return (double.NaN, double.NaN);
         var med = ArrayStatistics.MedianInplace(a);

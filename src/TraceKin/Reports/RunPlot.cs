@@ -58,8 +58,7 @@ public sealed class RunPlot : IRunSink, IDisposable
         m.Axes.Add(new LinearAxis { Key = "c", Position = AxisPosition.Left, Title = $"[{run.Converted.Species}] ({scale.Unit})", StartPosition = 0.32, EndPosition = 1, MajorGridlineStyle = LineStyle.Solid, MajorGridlineColor = PlotStyle.Grid });
         m.Axes.Add(new LinearAxis { Key = "r", Position = AxisPosition.Left, Title = $"residual ({scale.Unit})", StartPosition = 0, EndPosition = 0.25, MajorGridlineStyle = LineStyle.Solid, MajorGridlineColor = PlotStyle.Grid });
 
-        var (xs, ys) = Decimation.Envelope(c.Times, c.Values, 900);
-        var dense = xs.Length < c.Count || c.Count > 400;
+        var dense = c.Count > 400;
         if (c.Count > 4 * PlotStyle.Width)
         {
             // Several samples per pixel column: the trace drawn as what the pixels show, each column from its lowest
@@ -70,6 +69,7 @@ public sealed class RunPlot : IRunSink, IDisposable
         }
         else if (dense)
         {
+            var (xs, ys) = Decimation.Envelope(c.Times, c.Values, PlotStyle.Width);
             var line = new LineSeries { Title = "data", YAxisKey = "c", Color = PlotStyle.Data, StrokeThickness = 1 };
             for (var i = 0; i < xs.Length; i++) line.Points.Add(new DataPoint(xs[i], ys[i] * scale.Factor));
             m.Series.Add(line);
@@ -91,7 +91,7 @@ public sealed class RunPlot : IRunSink, IDisposable
         // The tangent stops where it leaves the range of the data, so a long window does not stretch the axis.
         var tEnd = Math.Min(c.Times[^1], 2 * h.WindowEnd);
         double yLo = double.PositiveInfinity, yHi = double.NegativeInfinity;
-        foreach (var v in ys) if (double.IsFinite(v)) { yLo = Math.Min(yLo, v); yHi = Math.Max(yHi, v); }
+        foreach (var v in c.Values) if (double.IsFinite(v)) { yLo = Math.Min(yLo, v); yHi = Math.Max(yHi, v); }
         if (h.Slope != 0 && double.IsFinite(yLo))
         {
             var bound = h.Slope < 0 ? yLo : yHi;
