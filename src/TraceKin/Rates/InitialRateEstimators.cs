@@ -83,7 +83,10 @@ public static class InitialRateEstimators
             for (var b = 0; b < np; b++) v += g[a] * f.Covariance[a, b] * g[b];
         if (!(v >= 0) || !double.IsFinite(slope)) return null;
         return new InitialRate(slope / nu, Math.Sqrt(v) / Math.Abs(nu), f.DegreesOfFreedom, Units.RateUnit,
-            $"integrated law ({law.Law}) at t0", t[0], t[^1], t.Length, slope, p[LawModel.Y0], law.Fitted);
+            $"integrated law ({law.Law}) at t0", t[0], t[^1], t.Length, slope, p[LawModel.Y0], [])
+        {
+            FittedBy = () => law.Fitted,
+        };
     }
 
     private static double[] Fitted(ReadOnlySpan<double> c, double[] residuals)

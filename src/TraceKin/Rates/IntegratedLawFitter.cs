@@ -113,7 +113,7 @@ public static class IntegratedLawFitter
             var chosen = chosenPair.Fit is not null && ReferenceEquals(f, chosenPair.Fit);
             if (!chosen)
             {
-                fits.Add(Describe(m, f, [], false, minAll, sumW, weights, noise));
+                fits.Add(Describe(m, f, false, minAll, sumW, weights, noise));
                 continue;
             }
             var (cm, cf, cw) = (m, f, weights);
@@ -125,16 +125,25 @@ public static class IntegratedLawFitter
                     f.Parameters.Select(p => p.Value).ToArray(), f.Parameters.Select(p => !p.Varied).ToArray(), sFine);
                 if (refit.Item2.Converged) (cm, cf, cw) = (refit.Item1, refit.Item2, wFine);
             }
-            var fitted = Array.Empty<double>();
+            var described = Describe(cm, cf, true, minAll, sumW, cw, noise);
             if (cf.Parameters.All(p => double.IsFinite(p.Value)))
             {
-                fitted = new double[tAll.Length];
-                new LawModel(cm.Law, tAll, nu, a0, cm.Drift).Evaluate(cf.Parameters.Select(p => p.Value).ToArray(), fitted);
+                // Evaluated at every sample only when something asks for it (a plot, the spike check).
+                var (law, times, withDrift) = (cm.Law, tAll, cm.Drift);
+                var values = cf.Parameters.Select(p => p.Value).ToArray();
+                described = described with
+                {
+                    FittedBy = () =>
+                    {
+                        var fitted = new double[times.Length];
+                        new LawModel(law, times, nu, a0, withDrift).Evaluate(values, fitted);
+                        return fitted;
+                    },
+                };
             }
-            var described = Describe(cm, cf, fitted, true, minAll, sumW, cw, noise);
             if (!ReferenceEquals(cf, f))
             {
-                var compared = Describe(m, f, [], true, minAll, sumW, weights, noise);
+                var compared = Describe(m, f, true, minAll, sumW, weights, noise);
                 described = described with { DeltaAicc = compared.DeltaAicc, AkaikeWeight = compared.AkaikeWeight };
             }
             fits.Add(described);
@@ -358,7 +367,7 @@ public static class IntegratedLawFitter
         return (model, fit);
     }
 
-    private static LawFit Describe(LawModel m, FitResult f, double[] fitted, bool chosen, double minAicc, double sumW, double[] w, double noise)
+    private static LawFit Describe(LawModel m, FitResult f, bool chosen, double minAicc, double sumW, double[] w, double noise)
     {
         var p = f.Parameters.Select(x => x.Value).ToArray();
         var k = f.Parameters[LawModel.K];
@@ -370,7 +379,7 @@ public static class IntegratedLawFitter
         var converged = f.Converged;
         var hl = converged ? m.HalfLife(p) : double.NaN;
         var (lo, hi) = converged && double.IsFinite(k.StdError) ? f.Ci95("k") : (double.NaN, double.NaN);
-        return new LawFit(m.Name, f, fitted, chosen)
+        return new LawFit(m.Name, f, chosen)
         {
             Drift = m.Drift,
             DeltaAicc = converged ? f.AicC - minAicc : double.NaN,

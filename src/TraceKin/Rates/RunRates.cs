@@ -3,9 +3,19 @@ using TraceKin.Traces;
 
 namespace TraceKin.Rates;
 
-/// <summary>An integrated rate law fitted to a run's time course; <see cref="Fitted"/> holds the model at every trace time.</summary>
-public sealed record LawFit(string Law, FitResult Fit, double[] Fitted, bool Chosen)
+/// <summary>An integrated rate law fitted to a run's time course; <see cref="Fitted"/> holds the model at every trace
+/// time for the chosen law (empty for the others).</summary>
+public sealed record LawFit(string Law, FitResult Fit, bool Chosen)
 {
+    private ModelCurve _fitted = ModelCurve.Empty;
+
+    /// <summary>The model at every trace time, evaluated when first asked for (a plot, the spike check): a batch
+    /// without plots never pays for it.</summary>
+    public double[] Fitted { get => _fitted.Values; init => _fitted = new ModelCurve(value); }
+
+    /// <summary>Sets <see cref="Fitted"/> to be computed on first use.</summary>
+    internal Func<double[]> FittedBy { init => _fitted = new ModelCurve(value); }
+
     /// <summary>True when the model carries a linear baseline-drift term.</summary>
     public bool Drift { get; init; }
     /// <summary>AICc − lowest AICc among all converged fits; NaN if not converged.</summary>
@@ -25,6 +35,16 @@ public sealed record LawFit(string Law, FitResult Fit, double[] Fitted, bool Cho
     public RunsTest? Runs { get; init; }
     /// <summary>True when the residuals show a pattern (runs test P &lt; 0.001) or scatter far above the trace's own noise.</summary>
     public bool LackOfFit { get; init; }
+}
+
+/// <summary>A model's values at every trace time, given or computed once on first use (thread-safe).</summary>
+internal sealed class ModelCurve
+{
+    public static readonly ModelCurve Empty = new(Array.Empty<double>());
+    private readonly Lazy<double[]> _values;
+    public ModelCurve(double[] values) => _values = new Lazy<double[]>(values);
+    public ModelCurve(Func<double[]> compute) => _values = new Lazy<double[]>(compute, LazyThreadSafetyMode.ExecutionAndPublication);
+    public double[] Values => _values.Value;
 }
 
 /// <summary>Everything the Rates stage found for one run: the headline initial rate, the alternatives, law fits, warnings.</summary>

@@ -66,6 +66,26 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
     }
 
     [Fact]
+    public void Chosen_law_curve_is_evaluated_on_demand_at_every_sample()
+    {
+        // The curve is computed only when asked for (a batch without plots never needs it); when it is, it must be
+        // the fitted law at every sample time: y_end + (y0 − y_end)·exp(−k·t) for first order (closed-form
+        // integrated rate law, common practice, no source), and the law estimate's curve is the same one.
+        var trace = SyntheticTrace.Make(t => SyntheticTrace.FirstOrder(0.01, A0, t), 400, Points, Noise, 41_000);
+        var r = RateAnalysis.Analyse(trace, -1, A0, RateSettings.Default, "lazy");
+        var chosen = r.ChosenLaw!;
+        Assert.Equal("first order", chosen.Law);
+        var p = chosen.Fit.Parameters;
+        var (y0, yEnd, k) = (p[0].Value, p[1].Value, p[2].Value);
+        Assert.Equal(Points, chosen.Fitted.Length);
+        for (var i = 0; i < Points; i += 997)
+            Assert.Equal(yEnd + (y0 - yEnd) * Math.Exp(-k * trace.Times[i]), chosen.Fitted[i], 12);
+        var lawEstimate = r.Estimates.Single(e => e.Method.StartsWith("integrated law", StringComparison.Ordinal));
+        Assert.Same(chosen.Fitted, lawEstimate.Fitted);
+        Assert.All(r.Fits.Where(f => !f.Chosen), f => Assert.Empty(f.Fitted));
+    }
+
+    [Fact]
     public void Running_median_of_five_equals_the_middle_of_the_sorted_five()
     {
         // Every ordering of five distinct values, and random values with ties (fixed seed); reference: sorting.
