@@ -1,3 +1,5 @@
+using System.Buffers;
+
 namespace TraceKin.Fitting;
 
 /// <summary>
@@ -15,20 +17,42 @@ public static class LinearLeastSquares
         int n = design.GetLength(0), p = design.GetLength(1);
         if (names.Count != p) throw new ArgumentException("one name per design column is needed", nameof(names));
         if (y.Length != n) throw new ArgumentException("y must have one value per design row", nameof(y));
-        var w = weights.IsEmpty ? null : weights.ToArray();
+        var x = ArrayPool<double>.Shared.Rent(n * p);
+        try
+        {
+            for (var i = 0; i < n; i++)
+                for (var j = 0; j < p; j++) x[j * n + i] = design[i, j];
+            return FitColumns(model, names, x, n, p, y, weights);
+        }
+        finally { ArrayPool<double>.Shared.Return(x); }
+    }
+
+    /// <summary>Fit y = X·β with X given column-major in <paramref name="x"/> (column j at [j·n, j·n + n)); the
+    /// working arrays come from the shared pool, so a fit allocates little beyond its result.</summary>
+    private static FitResult FitColumns(string model, IReadOnlyList<string> names, double[] x, int n, int p, ReadOnlySpan<double> y, ReadOnlySpan<double> weights)
+    {
         if (n < p || (n == p && p > 0))
             return Failed(model, names, n, p, FitExit.TooFewPoints, $"{n} points for {p} parameters leave no degrees of freedom");
+        var pool = ArrayPool<double>.Shared;
+        double[] a = pool.Rent(n * p), b = pool.Rent(n), qtb = pool.Rent(n);
+        try { return FitColumns(model, names, x, n, p, y, weights.IsEmpty ? null : weights.ToArray(), a, b, qtb); }
+        finally
+        {
+            pool.Return(a); pool.Return(b); pool.Return(qtb);
+        }
+    }
 
-        // √W·X column-major (column j at [j·n, j·n + n)) for the Householder QR, which runs on this thread and
-        // allocates nothing more (a library QR may start worker threads for every small fit).
-        var a = new double[n * p];
-        var b = new double[n];
+    private static FitResult FitColumns(string model, IReadOnlyList<string> names, double[] x, int n, int p, ReadOnlySpan<double> y, double[]? w,
+        double[] a, double[] b, double[] qtb)
+    {
+        // √W·X column-major for the Householder QR, which runs on this thread and allocates nothing more (a library
+        // QR may start worker threads for every small fit).
         for (var i = 0; i < n; i++)
         {
             var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
             if (!double.IsFinite(sw) || !double.IsFinite(y[i]))
                 return Failed(model, names, n, p, FitExit.InvalidValues, $"point {i + 1} has a non-finite value or weight");
-            for (var j = 0; j < p; j++) a[j * n + i] = sw * design[i, j];
+            for (var j = 0; j < p; j++) a[j * n + i] = sw * x[j * n + i];
             b[i] = sw * y[i];
         }
 
@@ -56,7 +80,7 @@ public static class LinearLeastSquares
 
         // γ = R⁻¹·(Qᵀb)[0..p); the residual vector of the scaled problem is Qᵀb with its first p entries set to zero,
         // and β_j = γ_j / ‖column j‖.
-        var qtb = (double[])b.Clone();
+        b.AsSpan(0, n).CopyTo(qtb);
         Householder.ApplyQt(a, n, p, tau, qtb);
         var gamma = new double[p];
         Householder.SolveR(a, n, p, rDiag, qtb, gamma);
@@ -68,7 +92,7 @@ public static class LinearLeastSquares
         {
             var sw = w is null ? 1.0 : Math.Sqrt(w[i]);
             double f = 0;
-            for (var j = 0; j < p; j++) f += design[i, j] * beta[j];
+            for (var j = 0; j < p; j++) f += x[j * n + i] * beta[j];
             var rw = b[i] - sw * f;
             resid[i] = sw > 0 ? rw / sw : y[i] - f;
             chi2 += rw * rw;
@@ -97,7 +121,7 @@ public static class LinearLeastSquares
         for (var j = 0; j < p && !hasIntercept; j++)
         {
             var all = true;
-            for (var i = 0; i < n && all; i++) all = design[i, j] == 1.0;
+            for (var i = 0; i < n && all; i++) all = x[j * n + i] == 1.0;
             hasIntercept = all;
         }
         double ybar = 0, wsum = 0;
@@ -123,21 +147,39 @@ public static class LinearLeastSquares
     /// <summary>Straight line y = intercept + slope·x.</summary>
     public static FitResult Line(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> weights = default)
     {
-        var d = new double[x.Length, 2];
-        for (var i = 0; i < x.Length; i++) { d[i, 0] = 1; d[i, 1] = x[i]; }
-        return Fit("straight line", ["intercept", "slope"], d, y, weights);
+        var n = x.Length;
+        if (y.Length != n) throw new ArgumentException("y must have one value per design row", nameof(y));
+        var d = ArrayPool<double>.Shared.Rent(2 * n);
+        try
+        {
+            d.AsSpan(0, n).Fill(1);
+            x.CopyTo(d.AsSpan(n, n));
+            return FitColumns("straight line", LineNames, d, n, 2, y, weights);
+        }
+        finally { ArrayPool<double>.Shared.Return(d); }
     }
+
+    private static readonly string[] LineNames = ["intercept", "slope"];
+    private static readonly string[][] PolynomialNames = [.. Enumerable.Range(0, 8).Select(d => Enumerable.Range(0, d + 1).Select(k => $"c{k}").ToArray())];
 
     /// <summary>Polynomial y = Σ c_k·(x − x0)^k, k = 0..degree; parameter names c0, c1, …</summary>
     public static FitResult Polynomial(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int degree, double x0 = 0, ReadOnlySpan<double> weights = default)
     {
-        var d = new double[x.Length, degree + 1];
-        for (var i = 0; i < x.Length; i++)
+        var n = x.Length;
+        var p = degree + 1;
+        if (y.Length != n) throw new ArgumentException("y must have one value per design row", nameof(y));
+        var d = ArrayPool<double>.Shared.Rent(n * p);
+        try
         {
-            var v = 1.0;
-            for (var k = 0; k <= degree; k++) { d[i, k] = v; v *= x[i] - x0; }
+            for (var i = 0; i < n; i++)
+            {
+                var v = 1.0;
+                for (var k = 0; k <= degree; k++) { d[k * n + i] = v; v *= x[i] - x0; }
+            }
+            var names = degree < PolynomialNames.Length ? PolynomialNames[degree] : Enumerable.Range(0, p).Select(k => $"c{k}").ToArray();
+            return FitColumns($"polynomial of degree {degree}", names, d, n, p, y, weights);
         }
-        return Fit($"polynomial of degree {degree}", Enumerable.Range(0, degree + 1).Select(k => $"c{k}").ToArray(), d, y, weights);
+        finally { ArrayPool<double>.Shared.Return(d); }
     }
 
     private static FitResult Failed(string model, IReadOnlyList<string> names, int n, int p, FitExit exit, string detail) => new()

@@ -53,9 +53,23 @@ public static class SpikeFilter
         for (int i = 1, k = 0; i < n - 1; i += stride) second[k++] = Math.Abs(y[i - 1] - 2 * y[i] + y[i + 1]);
         var sigma = 1.4826 * ArrayStatistics.MedianInplace(second) / Math.Sqrt(6);
         if (!(sigma > 0)) return flag;
-        var limit = CutoffFor(n) * sigma;
+        return Candidates(y, CutoffFor(n) * sigma);
+    }
+
+    /// <summary>Points with |y_i − median of y_(i−2…i+2)| &gt; limit (the window shifted inwards at the ends).</summary>
+    internal static bool[] Candidates(ReadOnlySpan<double> y, double limit)
+    {
+        var n = y.Length;
+        var flag = new bool[n];
+        if (n < 5) return flag;
         for (var i = 0; i < n; i++)
         {
+            // The median of five is one of them with at least three of the five on each side of it (ties counted),
+            // so a point lying beyond the limit from it lies beyond the limit from at least three of its four
+            // neighbours, one of them an adjacent one. A point within the limit of both adjacent neighbours is
+            // therefore no candidate, and most points are settled without the median (floating-point subtraction
+            // is monotone, so the shortcut gives the same flags).
+            if (i >= 2 && i < n - 2 && Math.Abs(y[i] - y[i - 1]) <= limit && Math.Abs(y[i] - y[i + 1]) <= limit) continue;
             var lo = Math.Clamp(i - 2, 0, n - 5);
             flag[i] = Math.Abs(y[i] - MedianOf5(y[lo], y[lo + 1], y[lo + 2], y[lo + 3], y[lo + 4])) > limit;
         }

@@ -100,6 +100,31 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
         }
     }
 
+    [Fact]
+    public void Spike_candidates_match_the_plain_running_median_rule()
+    {
+        // Reference: |y_i − median of the five-point window| > limit with the median found by sorting (Hampel
+        // identifier on a running median, Hampel 1974); the fast path skips the median where it cannot matter.
+        var rng = new Random(11);
+        for (var trial = 0; trial < 200; trial++)
+        {
+            var n = 5 + rng.Next(60);
+            // Coarse values (many ties), steps, isolated spikes and a smooth trend.
+            var y = Enumerable.Range(0, n).Select(i => Math.Round(3 * Math.Sin(i / 7.0) + rng.Next(3), trial % 2 == 0 ? 0 : 3)).ToArray();
+            for (var s = 0; s < 3; s++) y[rng.Next(n)] += rng.Next(2) == 0 ? 8 : -8;
+            foreach (var limit in new[] { 0.0, 0.5, 1.0, 2.0, 5.0 })
+            {
+                var fast = SpikeFilter.Candidates(y, limit);
+                for (var i = 0; i < n; i++)
+                {
+                    var lo = Math.Clamp(i - 2, 0, n - 5);
+                    var window = y.Skip(lo).Take(5).Order().ToArray();
+                    Assert.True((Math.Abs(y[i] - window[2]) > limit) == fast[i], $"trial {trial}, limit {limit}, point {i}");
+                }
+            }
+        }
+    }
+
     private static IEnumerable<double[]> Permutations(double[] items)
     {
         if (items.Length <= 1) { yield return items; yield break; }
