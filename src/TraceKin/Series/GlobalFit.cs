@@ -67,16 +67,25 @@ public static class GlobalFit
     public static RunTrace Thin(RunTrace tr)
     {
         var t = tr.Times; var c = tr.Concentrations;
-        bool Usable(int i) => t[i] >= 0 && double.IsFinite(t[i]) && double.IsFinite(c[i]);
+        var n = Math.Min(t.Length, c.Length);
+        static bool Usable(double ti, double ci) => ti >= 0 && double.IsFinite(ti) && double.IsFinite(ci);
         var usable = 0;
-        for (var i = 0; i < t.Length; i++) if (Usable(i)) usable++;
+        for (var i = 0; i < n; i++) if (Usable(t[i], c[i])) usable++;
         var stride = Math.Max(1, (int)Math.Ceiling(usable / (double)MaxPointsPerRun));
         var count = (usable + stride - 1) / stride;
         var times = new double[count]; var values = new double[count];
-        for (int i = 0, u = 0, k = 0; i < t.Length; i++)
+        if (usable == n)
         {
-            if (!Usable(i)) continue;
-            if (u++ % stride == 0) { times[k] = t[i]; values[k] = c[i]; k++; }
+            // Every sample usable (the usual case): every stride-th one, without testing them again.
+            for (int i = 0, k = 0; k < count; i += stride, k++) { times[k] = t[i]; values[k] = c[i]; }
+        }
+        else
+        {
+            for (int i = 0, u = 0, k = 0; i < n; i++)
+            {
+                if (!Usable(t[i], c[i])) continue;
+                if (u++ % stride == 0) { times[k] = t[i]; values[k] = c[i]; k++; }
+            }
         }
         return tr with { Times = times, Concentrations = values };
     }

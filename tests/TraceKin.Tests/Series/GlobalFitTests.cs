@@ -81,4 +81,25 @@ public class GlobalFitTests
         Assert.Equal(2, block.GetProperty("orders").GetArrayLength());
         Assert.Equal(k.Value, block.GetProperty("rateConstants")[0].GetProperty("rateConstant").GetProperty("value").GetDouble());
     }
+
+    [Theory]
+    [InlineData(250, false)]
+    [InlineData(10_000, false)]
+    [InlineData(10_000, true)]
+    [InlineData(901, true)]
+    public void Thinning_keeps_every_mth_usable_sample(int n, bool withUnusable)
+    {
+        // Reference: the usable samples (finite, t ≥ 0) in order, every m-th from the first, with
+        // m = ⌈usable / MaxPointsPerRun⌉ (common practice, no source).
+        var t = Enumerable.Range(0, n).Select(i => i * 0.5 - (withUnusable ? 3 : 0)).ToArray();
+        var c = t.Select(x => Math.Exp(-x / 100)).ToArray();
+        if (withUnusable) { c[10] = double.NaN; c[n / 2] = double.PositiveInfinity; t[n - 3] = double.NaN; }
+        var usable = Enumerable.Range(0, n).Where(i => t[i] >= 0 && double.IsFinite(t[i]) && double.IsFinite(c[i])).ToArray();
+        var m = Math.Max(1, (int)Math.Ceiling(usable.Length / (double)GlobalFit.MaxPointsPerRun));
+        var expected = usable.Where((_, k) => k % m == 0).ToArray();
+        var thin = GlobalFit.Thin(new RunTrace("A", -1, t, c));
+        Assert.Equal(expected.Select(i => t[i]), thin.Times);
+        Assert.Equal(expected.Select(i => c[i]), thin.Concentrations);
+        Assert.True(thin.Times.Length <= GlobalFit.MaxPointsPerRun);
+    }
 }
