@@ -10,7 +10,9 @@ using TraceKin.Traces;
 
 // Benchmark-only timings over one series folder (plan.csv + series.toml + exports):
 //   TraceKin.Bench parse  SERIES [--workers N]   read and parse every planned export, nothing else
-//   TraceKin.Bench stages SERIES [--workers N]   time each stage per run (parse, convert, rates, plot) and sum
+//   TraceKin.Bench stages SERIES [--workers N] [--no-plots]
+//                                                time each stage per run (read, SHA-256, parse, convert, rates,
+//                                                plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
 //   TraceKin.Bench ingest SERIES [--repeat N] [--read-all-bytes]
 //                                                read (ExportBytes, or File.ReadAllBytes as SeriesRunner does), parse
@@ -221,10 +223,12 @@ if (args[0] == "render")
     return 0;
 }
 
-// stages: the same work SeriesRunner does per run, with a stopwatch around each step (summed CPU-side time over
-// workers, so the sums can exceed the wall time).
-long tRead = 0, tParse = 0, tConvert = 0, tRates = 0, tBuild = 0, tRender = 0;
-long cRead = 0, cParse = 0, cConvert = 0;
+// stages: the same work SeriesRunner does per run, with a stopwatch and the thread's CPU clock around each step
+// (summed over workers, so the sums can exceed the wall time). --no-plots leaves out the plot steps, as
+// `analyse --no-plots` does.
+long tRead = 0, tHash = 0, tParse = 0, tConvert = 0, tRates = 0, tBuild = 0, tRender = 0;
+long cRead = 0, cHash = 0, cParse = 0, cConvert = 0, cRates = 0;
+var stagePlots = !args.Contains("--no-plots");
 var first = Stopwatch.StartNew();
 _ = RunPlot.Render(SeriesRunner.AnalyseRun(folder, rows[0], config).Run!);
 var firstRender = first.Elapsed.TotalSeconds;
@@ -233,25 +237,37 @@ Parallel.For(0, rows.Count, options, i =>
 {
     var row = rows[i];
     var (t0, u0) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
-    var bytes = File.ReadAllBytes(Path.Combine(folder, row.File));
+    using var bytes = ExportBytes.Read(Path.Combine(folder, row.File));
     var (t1, u1) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
-    var export = ExportReader.FromBytes(bytes, row.File, config.Ingest);
+    _ = System.Security.Cryptography.SHA256.HashData(bytes.Memory.Span);
+    var (th, uh) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
+    var export = ExportReader.FromBytes(bytes.Memory, row.File, config.Ingest);
     var (t2, u2) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
     var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
     var (t3, u3) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
-    Interlocked.Add(ref cRead, u1 - u0);
-    Interlocked.Add(ref cParse, u2 - u1);
-    Interlocked.Add(ref cConvert, u3 - u2);
+    // The reference amount and the partner's [B]0 as SeriesRunner.AnalyseRun takes them from the plan.
     double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
-    var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File);
-    var t4 = Stopwatch.GetTimestamp();
-    var run = new RunResult(row, "", export, converted, rates, []);
-    var model = RunPlot.Build(run);
-    var t5 = Stopwatch.GetTimestamp();
-    _ = PlotStyle.ToPng(model);
-    var t6 = Stopwatch.GetTimestamp();
+    var others = row.InitialConcentrations.Where(kv => kv.Key != converted.Species && kv.Value > 0).ToList();
+    double? partner = reference is not null && others.Count == 1 ? others[0].Value : null;
+    var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner);
+    var (t4, u4) = (Stopwatch.GetTimestamp(), ThreadCpu.Nanoseconds());
+    long t5 = t4, t6 = t4;
+    if (stagePlots)
+    {
+        var run = new RunResult(row, "", export, converted, rates, []);
+        var model = RunPlot.Build(run);
+        t5 = Stopwatch.GetTimestamp();
+        _ = PlotStyle.ToPng(model);
+        t6 = Stopwatch.GetTimestamp();
+    }
+    Interlocked.Add(ref cRead, u1 - u0);
+    Interlocked.Add(ref cHash, uh - u1);
+    Interlocked.Add(ref cParse, u2 - uh);
+    Interlocked.Add(ref cConvert, u3 - u2);
+    Interlocked.Add(ref cRates, u4 - u3);
     Interlocked.Add(ref tRead, t1 - t0);
-    Interlocked.Add(ref tParse, t2 - t1);
+    Interlocked.Add(ref tHash, th - t1);
+    Interlocked.Add(ref tParse, t2 - th);
     Interlocked.Add(ref tConvert, t3 - t2);
     Interlocked.Add(ref tRates, t4 - t3);
     Interlocked.Add(ref tBuild, t5 - t4);
@@ -264,15 +280,21 @@ Console.WriteLine(string.Create(ci, $"workers={workers}"));
 Console.WriteLine(string.Create(ci, $"first_run_with_plot_seconds={firstRender:F3}"));
 Console.WriteLine(string.Create(ci, $"wall_seconds={wallS:F3}"));
 Console.WriteLine(string.Create(ci, $"sum_read_seconds={Sec(tRead):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_sha256_seconds={Sec(tHash):F3}"));
 Console.WriteLine(string.Create(ci, $"sum_parse_seconds={Sec(tParse):F3}"));
 Console.WriteLine(string.Create(ci, $"sum_convert_seconds={Sec(tConvert):F3}"));
 Console.WriteLine(string.Create(ci, $"sum_rates_seconds={Sec(tRates):F3}"));
 // thread CPU time (Linux; 0 elsewhere): what the stage cost itself, whoever else shares the cores
 Console.WriteLine(string.Create(ci, $"sum_cpu_read_seconds={cRead / 1e9:F3}"));
+Console.WriteLine(string.Create(ci, $"sum_cpu_sha256_seconds={cHash / 1e9:F3}"));
 Console.WriteLine(string.Create(ci, $"sum_cpu_parse_seconds={cParse / 1e9:F3}"));
 Console.WriteLine(string.Create(ci, $"sum_cpu_convert_seconds={cConvert / 1e9:F3}"));
-Console.WriteLine(string.Create(ci, $"sum_plot_build_seconds={Sec(tBuild):F3}"));
-Console.WriteLine(string.Create(ci, $"sum_png_render_seconds={Sec(tRender):F3}"));
+Console.WriteLine(string.Create(ci, $"sum_cpu_rates_seconds={cRates / 1e9:F3}"));
+if (stagePlots)
+{
+    Console.WriteLine(string.Create(ci, $"sum_plot_build_seconds={Sec(tBuild):F3}"));
+    Console.WriteLine(string.Create(ci, $"sum_png_render_seconds={Sec(tRender):F3}"));
+}
 return 0;
 
 /// <summary>CPU time of the calling thread (clock_gettime CLOCK_THREAD_CPUTIME_ID, Linux); 0 where unavailable.</summary>
