@@ -43,8 +43,7 @@ public static class SpikeFilter
     public static bool[] Candidates(ReadOnlySpan<double> y)
     {
         var n = y.Length;
-        var flag = new bool[n];
-        if (n < 9) return flag;
+        if (n < 9) return new bool[n];
         // Second differences of a smooth, densely sampled trace centre on 0, so the MAD is taken about 0 (one
         // selection instead of two). Beyond 4,000 points every other one is enough: the MAD of 2,000 values is
         // within about 3 % of the scale (SE of the MAD ≈ 1.17σ/√n: Rousseeuw & Croux 1993, JASA 88, 1273, from memory).
@@ -52,8 +51,7 @@ public static class SpikeFilter
         var second = new double[(n - 2 + stride - 1) / stride];
         for (int i = 1, k = 0; i < n - 1; i += stride) second[k++] = Math.Abs(y[i - 1] - 2 * y[i] + y[i + 1]);
         var sigma = 1.4826 * ArrayStatistics.MedianInplace(second) / Math.Sqrt(6);
-        if (!(sigma > 0)) return flag;
-        return Candidates(y, CutoffFor(n) * sigma);
+        return sigma > 0 ? Candidates(y, CutoffFor(n) * sigma) : new bool[n];
     }
 
     /// <summary>Points with |y_i − median of y_(i−2…i+2)| &gt; limit (the window shifted inwards at the ends).</summary>
