@@ -46,9 +46,18 @@ public static class InitialRateEstimators
     public static InitialRate? Polynomial(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, int count)
     {
         if (count < 6) return null;
-        var best = LinearLeastSquares.Polynomial(t[..count], c[..count], count >= 12 ? 3 : 2);
-        if (!best.Converged || !double.IsFinite(best.Parameters[1].StdError)) best = null;
-        if (best is null) return null;
+        FitResult? best;
+        if (count >= 100 || count < 12) best = LinearLeastSquares.Polynomial(t[..count], c[..count], count >= 12 ? 3 : 2);
+        else
+        {
+            // A short window: the cubic's slope at t0 has about six times the variance of the quadratic's (shifted
+            // Legendre polynomials, common practice, no source), so the degree is chosen by AICc (Burnham &amp;
+            // Anderson 2002, §2.4): the cubic only where its extra term is supported by the data.
+            var q = LinearLeastSquares.Polynomial(t[..count], c[..count], 2);
+            var cu = LinearLeastSquares.Polynomial(t[..count], c[..count], 3);
+            best = !cu.Converged ? q : !q.Converged ? cu : cu.AicC < q.AicC ? cu : q;
+        }
+        if (!best.Converged || !double.IsFinite(best.Parameters[1].StdError)) return null;
         var slope = best.Parameters[1];
         var degreeUsed = best.Parameters.Count - 1;
         return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), best.DegreesOfFreedom, Units.RateUnit,
@@ -88,6 +97,43 @@ public static class InitialRateEstimators
             FittedBy = () => law.Fitted,
         };
     }
+
+    /// <summary>
+    /// (c′) The law estimate averaged over every law that took part in the choice, by Akaike weight:
+    /// v̄ = Σ w_i·v_i with the unconditional standard error Σ w_i·√(se_i² + (v_i − v̄)²) (Burnham &amp; Anderson 2002,
+    /// "Model Selection and Multimodel Inference", eqs. 4.1 and 4.9), so that the uncertainty of which law holds is
+    /// carried into the rate. Laws with weight below 1 % are left out (their share cannot move the result); when only
+    /// the chosen law remains its own estimate is returned unchanged.
+    /// </summary>
+    public static InitialRate? Averaged(IReadOnlyList<(LawModel Model, LawFit Fit)> participants, InitialRate? chosen, ReadOnlySpan<double> t, double nu)
+    {
+        if (chosen is null) return null;
+        var parts = new List<(LawFit Fit, InitialRate Rate, double Weight)>();
+        foreach (var (m, f) in participants)
+        {
+            if (!(f.AkaikeWeight >= MinimumAveragingWeight)) continue;
+            var r = f.Chosen ? chosen : FromLaw(m, f, t, nu);
+            if (r is null || !double.IsFinite(r.StdError)) continue;
+            parts.Add((f, r, f.AkaikeWeight));
+        }
+        if (parts.Count <= 1 || !parts.Any(p => p.Fit.Chosen)) return chosen;
+        var sum = parts.Sum(p => p.Weight);
+        var mean = parts.Sum(p => p.Weight * p.Rate.Value) / sum;
+        var se = parts.Sum(p => p.Weight * Math.Sqrt(p.Rate.StdError * p.Rate.StdError + (p.Rate.Value - mean) * (p.Rate.Value - mean))) / sum;
+        var ci = System.Globalization.CultureInfo.InvariantCulture;
+        var names = string.Join(", ", parts.OrderByDescending(p => p.Weight).Select(p => string.Format(ci, "{0} {1:F2}", p.Fit.Law, p.Weight / sum)));
+        return chosen with
+        {
+            Value = mean,
+            StdError = se,
+            Dof = parts.Min(p => p.Rate.Dof),
+            Slope = mean * nu,
+            Method = $"integrated laws at t0, averaged by Akaike weight ({names})",
+        };
+    }
+
+    /// <summary>Akaike weight below which a law takes no part in the averaged estimate.</summary>
+    public const double MinimumAveragingWeight = 0.01;
 
     private static double[] Fitted(ReadOnlySpan<double> c, double[] residuals)
     {

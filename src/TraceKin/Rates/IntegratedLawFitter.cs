@@ -6,7 +6,15 @@ namespace TraceKin.Rates;
 /// <see cref="FitTimes"/> and <see cref="FitWeights"/> are the points the laws were fitted to (bin means and their
 /// counts for a dense trace; else the samples and their weights), aligned with each fit's residuals.</summary>
 public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenModel, bool DriftChosen, bool NoIntegerLawFits,
-    double[] FitTimes, double[] FitWeights);
+    double[] FitTimes, double[] FitWeights)
+{
+    /// <summary>Every converged fit that took part in the choice, with its model (the chosen one as reported).</summary>
+    public IReadOnlyList<(LawModel Model, LawFit Fit)> Participants { get; init; } = [];
+    /// <summary>Why a drift term took no part in the choice ("auto" mode), or null when it could.</summary>
+    public string? DriftExcluded { get; init; }
+    /// <summary>Score statistic for a drift on the best drift-free fit (≈ χ²(1) without drift) when one was excluded.</summary>
+    public double DriftEvidence { get; init; } = double.NaN;
+}
 
 /// <summary>
 /// Fits every candidate integrated law (with and, if asked, without a linear drift term) to a whole trace and picks
@@ -49,8 +57,14 @@ public static class IntegratedLawFitter
         var families = drift switch { "off" => new[] { false }, "on" => [true], _ => [false, true] };
         var all = new List<(LawModel Model, FitResult Fit)>();
         var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
+        string? driftExcluded = null;
         foreach (var withDrift in families)
         {
+            if (withDrift && drift == "auto" && DriftSeparability(plainFits.Values, tAll) is { } why)
+            {
+                driftExcluded = why;
+                continue;
+            }
             var integer = new List<(LawModel, FitResult)>();
             (LawModel Model, FitResult Fit)? firstOrder = null;
             foreach (var law in Candidates(a0, partner))
@@ -88,7 +102,16 @@ public static class IntegratedLawFitter
         // give Δ = 4–7 as "considerably less support", so the drift-free model is dropped only beyond that); then the integer law with the
         // lowest AICc; order n only when it beats that by more than 10 (Burnham &amp; Anderson 2002, §2.6: Δ &gt; 10 leaves
         // essentially no support for the worse model). Akaike weights over every converged fit.
-        var converged = all.Where(r => r.Fit.Converged).ToList();
+        // A drift term that trades off against the rate parameters cannot be told apart from the reaction: such a fit
+        // takes no part in the choice (with "auto"; "on" keeps it and the correlation is reported).
+        var entangled = drift == "auto"
+            ? all.Where(r => r.Model.Drift && r.Fit.Converged && DriftCorrelation(r.Model, r.Fit) > MaxDriftCorrelation).Select(r => r.Fit).ToHashSet()
+            : [];
+        if (entangled.Count > 0 && driftExcluded is null)
+            driftExcluded = string.Format(System.Globalization.CultureInfo.InvariantCulture,
+                "a drift term correlates with the initial slope (|r| up to {0:F3}, more than {1}), so it cannot be told apart from the reaction",
+                entangled.Max(f => DriftCorrelation(all.First(r => ReferenceEquals(r.Fit, f)).Model, f)), MaxDriftCorrelation);
+        var converged = all.Where(r => r.Fit.Converged && !entangled.Contains(r.Fit)).ToList();
         var minAll = converged.Select(r => r.Fit.AicC).DefaultIfEmpty(double.PositiveInfinity).Min();
         var sumW = converged.Sum(r => Math.Exp(-(r.Fit.AicC - minAll) / 2));
         var picks = converged.GroupBy(r => r.Model.Law.Name).Select(g =>
@@ -107,13 +130,18 @@ public static class IntegratedLawFitter
         // Only the chosen law's curve is evaluated at every sample (for the plot and the spike check); the others keep
         // their numbers.
         var fits = new List<LawFit>();
+        var participants = new List<(LawModel, LawFit)>();
         var chosenModel = chosenPair.Model;
         foreach (var (m, f) in all)
         {
             var chosen = chosenPair.Fit is not null && ReferenceEquals(f, chosenPair.Fit);
             if (!chosen)
             {
-                fits.Add(Describe(m, f, false, minAll, sumW, weights, noise));
+                var other = Describe(m, f, false, minAll, sumW, weights, noise);
+                if (entangled.Contains(f))
+                    other = other with { DeltaAicc = double.NaN, AkaikeWeight = double.NaN, ExcludedBecause = driftExcluded };
+                else if (f.Converged) participants.Add((m, other));
+                fits.Add(other);
                 continue;
             }
             var (cm, cf, cw) = (m, f, weights);
@@ -147,6 +175,7 @@ public static class IntegratedLawFitter
                 described = described with { DeltaAicc = compared.DeltaAicc, AkaikeWeight = compared.AkaikeWeight };
             }
             fits.Add(described);
+            participants.Add((cm, described));
             chosenModel = cm;
         }
         var integerPicks = fits.Where(x => x.Chosen || picks.Any(p => ReferenceEquals(p.Fit, x.Fit) && p.Model.Law is not NthOrderLaw))
@@ -155,7 +184,72 @@ public static class IntegratedLawFitter
         var chosenFit = fits.FirstOrDefault(x => x.Chosen);
         var residualsOnFine = chosenFit is not null && chosenFit.Fit.Residuals.Length == tFine.Length;
         return new LawSelection(fits, chosenModel, chosenModel?.Drift ?? false, noInteger,
-            residualsOnFine ? tFine : t, residualsOnFine ? wFine : weights);
+            residualsOnFine ? tFine : t, residualsOnFine ? wFine : weights)
+        {
+            DriftExcluded = driftExcluded,
+            Participants = participants,
+            DriftEvidence = driftExcluded is null ? double.NaN : BestPlainDriftScore(plainFits.Values, t, weights),
+        };
+    }
+
+    /// <summary>Conversion (1 − u at the last sample, by the best drift-free integer law) a trace must show before a
+    /// drift term may compete in "auto" mode: past 90 % the reaction's curve has flattened and a linear baseline is
+    /// seen apart from it (common practice, no source).</summary>
+    public const double DriftTailConversion = 0.9;
+
+    /// <summary>Largest |correlation| of the drift with the initial slope for a drift fit to take part ("auto").</summary>
+    public const double MaxDriftCorrelation = 0.95;
+
+    /// <summary>Why a drift term may not compete on this trace (null when it may): the trace must run into its tail.</summary>
+    private static string? DriftSeparability(IEnumerable<(LawModel Model, FitResult Fit)> plain, double[] t)
+    {
+        var best = plain.Where(r => r.Fit.Converged && r.Model.Law is not NthOrderLaw).OrderBy(r => r.Fit.AicC).FirstOrDefault();
+        if (best.Fit is null) return "no drift-free law converged, so the trace's conversion is unknown";
+        var p = best.Fit.Parameters.Select(x => x.Value).ToArray();
+        var grad = new double[2 + best.Model.Law.ShapeNames.Count];
+        var u = best.Model.Law.Fraction(t[^1], best.Model.Nu * p[LawModel.K], best.Model.A0(p), p.AsSpan(LawModel.FirstShape, best.Model.Law.ShapeNames.Count), grad);
+        var conversion = 1 - u;
+        return conversion >= DriftTailConversion ? null : string.Format(System.Globalization.CultureInfo.InvariantCulture,
+            "the trace reaches about {0:P0} conversion ({1}); a drift term is told apart from the reaction only once the trace runs past {2:P0}",
+            conversion, best.Model.Law.Name, DriftTailConversion);
+    }
+
+    /// <summary>
+    /// |correlation| of the drift with the initial slope d y/dt at t0 (drift excluded), by the delta method:
+    /// cov(d, h) = Σ_j ∂h/∂p_j·C[d, j], var(h) = ∇hᵀ·C·∇h, ∇h by central differences (Bevington &amp; Robinson, 3rd ed.,
+    /// eq. 3.13, from memory). The end level and the drift always trade off over a flat tail; what matters is whether
+    /// the drift can take over the rate itself. NaN without a covariance.
+    /// </summary>
+    internal static double DriftCorrelation(LawModel model, FitResult fit)
+    {
+        var c = fit.Covariance;
+        var d = model.DriftIndex;
+        if (c is null || d < 0 || !(c[d, d] > 0)) return double.NaN;
+        var p = fit.Parameters.Select(x => x.Value).ToArray();
+        var np = p.Length;
+        var g = new double[np];
+        for (var j = 0; j < np; j++)
+        {
+            if (!fit.Parameters[j].Varied || j == d) continue;
+            var se = fit.Parameters[j].StdError;
+            var h = double.IsFinite(se) && se > 0 ? 1e-4 * se : 1e-7 * Math.Max(Math.Abs(p[j]), 1e-300);
+            var pp = (double[])p.Clone(); pp[j] += h;
+            var pm = (double[])p.Clone(); pm[j] -= h;
+            g[j] = (model.InitialSlope(pp) - model.InitialSlope(pm)) / (2 * h);
+        }
+        double cov = 0, v = 0;
+        for (var a = 0; a < np; a++)
+        {
+            cov += g[a] * c[d, a];
+            for (var b = 0; b < np; b++) v += g[a] * c[a, b] * g[b];
+        }
+        return v > 0 ? Math.Abs(cov) / Math.Sqrt(v * c[d, d]) : double.NaN;
+    }
+
+    private static double BestPlainDriftScore(IEnumerable<(LawModel Model, FitResult Fit)> plain, double[] t, double[] w)
+    {
+        var best = plain.Where(r => r.Fit.Converged).OrderBy(r => r.Fit.AicC).FirstOrDefault();
+        return best.Fit is null || best.Fit.Residuals.Length != t.Length ? double.NaN : DriftScore(best.Model, best.Fit, t, w);
     }
 
     /// <summary>Score statistic below which a law's drift variant is not fitted in "auto" mode (see <see cref="DriftScore"/>).</summary>
@@ -228,6 +322,9 @@ public static class IntegratedLawFitter
         var detail = f.ExitDetail + "; the first-order fit re-expressed with k = k(first order)/[B]0";
         return (model, f with { Model = model.Name, Parameters = pars, Covariance = cov, ExitDetail = detail });
     }
+
+    /// <summary>How many trace ranges the fitted end level may lie beyond the data (a trace followed to 2 % conversion).</summary>
+    public const double EndLevelRanges = 50;
 
     /// <summary>Valid samples above which the laws are fitted to bin means (at most this many bins).</summary>
     public const int MaxFitPoints = 250;
@@ -310,8 +407,12 @@ public static class IntegratedLawFitter
         double ymin = double.PositiveInfinity, ymax = double.NegativeInfinity;
         for (var i = 0; i < y.Length; i++) if (w[i] > 0) { ymin = Math.Min(ymin, y[i]); ymax = Math.Max(ymax, y[i]); }
         var range = Math.Max(ymax - ymin, 1e-300);
-        lower[LawModel.Y0] = lower[LawModel.YEnd] = ymin - 2 * range;
-        upper[LawModel.Y0] = upper[LawModel.YEnd] = ymax + 2 * range;
+        lower[LawModel.Y0] = ymin - 2 * range;
+        upper[LawModel.Y0] = ymax + 2 * range;
+        // The end level of a trace that stops early lies far beyond the data: at 10 % conversion it is nine trace
+        // ranges away, at 2 % fifty. Beyond that the law is indistinguishable from a straight line.
+        lower[LawModel.YEnd] = ymin - EndLevelRanges * range;
+        upper[LawModel.YEnd] = ymax + EndLevelRanges * range;
         for (var s = 0; s < law.ShapeNames.Count; s++)
         {
             lower[LawModel.FirstShape + s] = law.ShapeBounds[s].Low;

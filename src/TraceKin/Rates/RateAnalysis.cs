@@ -60,14 +60,22 @@ public static class RateAnalysis
         for (var i = 0; i < n; i++) if (spikes[i]) spikeList.Add(new Spike(i, t[i], y[i]));
         var (tv, yv) = IntegratedLawFitter.Valid(t, y, w);
 
-        // Early window on the spike-free trace.
-        var (end, count) = Window(tv, yv, referenceConcentration, settings, minPoints: 8);
+        // Early window on the spike-free trace. Without a plan [X]0 (a product, say) the conversion is measured
+        // against the chosen law's whole change |y0 − y_end| (its plateau), not against the part the trace shows.
+        var chosenFit = selection.Fits.FirstOrDefault(f => f.Chosen);
+        var total = referenceConcentration;
+        if (total is null && chosenFit is { Fit.Converged: true } && selection.ChosenModel is { } cm0)
+        {
+            var span = Math.Abs(chosenFit.Fit.Parameters[LawModel.Y0].Value - chosenFit.Fit.Parameters[LawModel.YEnd].Value);
+            if (double.IsFinite(span) && span > 0) total = span;
+        }
+        var (end, count) = Window(tv, yv, total, settings, minPoints: MinimumWindowPoints);
         var estimates = new List<InitialRate>();
         var poly = InitialRateEstimators.Polynomial(tv, yv, coefficient, count);
         var line = InitialRateEstimators.StraightLine(tv, yv, coefficient, count);
-        var chosenFit = selection.Fits.FirstOrDefault(f => f.Chosen);
         var lawRate = chosenFit is not null && selection.ChosenModel is not null
             ? InitialRateEstimators.FromLaw(selection.ChosenModel, chosenFit, t, coefficient) : null;
+        lawRate = InitialRateEstimators.Averaged(selection.Participants, lawRate, t, coefficient);
         if (lawRate is not null) estimates.Add(lawRate);
         if (poly is not null) estimates.Add(poly);
         if (line is not null) estimates.Add(line);
@@ -79,6 +87,7 @@ public static class RateAnalysis
         var lawUsable = lawRate is not null && chosenFit is { LackOfFit: false };
         InitialRate headline;
         string rule;
+        string? unresolved = null;
         switch (settings.Method)
         {
             case "line" when line is not null:
@@ -88,11 +97,23 @@ public static class RateAnalysis
             case "law" when lawRate is not null:
                 headline = lawRate; rule = "integrated law at t0, as set in rates.method"; break;
             default:
-                if (lawUsable) { headline = lawRate!; rule = $"integrated law ({chosenFit!.Law}) at t0: chosen by AICc, converged, residuals pass the runs test"; }
-                else if (poly is not null) { headline = poly; rule = lawRate is null ? "polynomial at t0: no integrated law converged" : "polynomial at t0: the chosen law shows lack of fit"; }
-                else { headline = estimates[0]; rule = $"{estimates[0].Method}: the only estimate available"; }
+                (headline, rule, unresolved) = Choose(lawUsable ? lawRate : null, lawRate, chosenFit, poly, line, estimates);
                 break;
         }
+        // The rate of reaction (1/ν)·d[X]/dt is positive for a reaction that runs forward: a negative headline means
+        // the trace runs against the stated coefficient (or an artefact won), and is never a result without a flag.
+        if (!(headline.Value > 0))
+        {
+            unresolved ??= string.Format(ci, "the initial rate {0:G3} {1} is not positive: the trace runs against the coefficient ν = {2:G3} of the followed species",
+                headline.Value, Units.RateUnit, coefficient);
+            warnings.Add(new Warning("rate-wrong-sign", where, unresolved));
+        }
+        if (unresolved is not null)
+            warnings.Add(new Warning("rate-unresolved", where, unresolved + "; this run is left out of the series fits (model.use_unresolved = true keeps it)"));
+        else if (headline.StdError * FitResult.StudentT95(Math.Max(headline.Dof, 1)) > ImpreciseFraction * Math.Abs(headline.Value))
+            warnings.Add(new Warning("rate-imprecise", where, string.Format(ci,
+                "the 95 % interval of the initial rate is ±{0:P0} of its value (more than ±{1:P0}): more readings, less noise or a longer run would pin it",
+                headline.StdError * FitResult.StudentT95(Math.Max(headline.Dof, 1)) / Math.Abs(headline.Value), ImpreciseFraction)));
 
         // Disagreement check between the estimates that aim at the slope at t0 itself; the straight line is a chord
         // (biased low by about half the conversion it spans), so it is compared only when it is the headline.
@@ -118,6 +139,10 @@ public static class RateAnalysis
             if (selection.DriftChosen && chosenFit.Fit.Parameters.FirstOrDefault(p => p.Name == "drift") is { } d)
                 warnings.Add(new Warning("baseline-drift", where, string.Format(ci,
                     "a linear baseline drift of {0:G3} ± {1:G2} per s was fitted (AICc lower by more than 7 with it)", d.Value, d.StdError)));
+            else if (selection.DriftExcluded is { } why && selection.DriftEvidence >= 9)
+                warnings.Add(new Warning("drift-not-separable", where, string.Format(ci,
+                    "the residuals suggest a baseline drift (score {0:F1}), but {1}; no drift term was fitted, so a real drift would bias this rate",
+                    selection.DriftEvidence, why)));
             else if (UnmodelledDrift(selection.FitTimes, selection.FitWeights, chosenFit.Fit.Residuals))
                 warnings.Add(new Warning("unmodelled-drift", where, "the residuals of the late trace trend with time: the baseline may drift"));
         }
@@ -133,8 +158,50 @@ public static class RateAnalysis
             DeadTime = t[0],
             Spikes = spikeList,
             HeadlineRule = rule,
+            Unresolved = unresolved,
             NoIntegerLawFits = selection.NoIntegerLawFits,
         };
+    }
+
+    /// <summary>Fewest points in the early window the local estimators use (the window is widened to this many).</summary>
+    public const int MinimumWindowPoints = 16;
+
+    /// <summary>A headline whose 95 % interval is wider than ± this fraction of its value is flagged imprecise.</summary>
+    public const double ImpreciseFraction = 0.10;
+
+    /// <summary>Two estimates are irreconcilable when they differ by more than three times their combined standard
+    /// error (by chance about 0.3 % of the time for honest errors; the 2·SE disagreement is only a note).</summary>
+    internal static bool Conflict(InitialRate a, InitialRate b) =>
+        Math.Abs(a.Value - b.Value) > 3 * Math.Sqrt(a.StdError * a.StdError + b.StdError * b.StdError);
+
+    /// <summary>
+    /// The "auto" headline: the integrated-law estimate when it is usable (converged, no lack of fit) and does not
+    /// conflict with the polynomial at t0 (the local estimate that aims at t0 itself); without a usable law, the
+    /// polynomial, unless it conflicts with the straight line. A conflict leaves the run unresolved: the estimate is
+    /// still reported, flagged, and the run is left out of the series fits. The straight line and the polynomial
+    /// share their window, so their agreement with each other is no evidence against the law.
+    /// </summary>
+    private static (InitialRate Headline, string Rule, string? Unresolved) Choose(InitialRate? law, InitialRate? anyLaw, LawFit? chosen,
+        InitialRate? poly, InitialRate? line, List<InitialRate> estimates)
+    {
+        var ci = CultureInfo.InvariantCulture;
+        string Describe(InitialRate e) => string.Format(ci, "{0} {1:G4} ± {2:G2}", e.Method, e.Value, e.StdError);
+        if (law is not null)
+        {
+            var lawName = law.Method.StartsWith("integrated laws", StringComparison.Ordinal) ? "integrated laws averaged by Akaike weight" : $"integrated law ({chosen!.Law})";
+            if (poly is null || !Conflict(law, poly))
+                return (law, $"{lawName} at t0: converged, residuals pass the runs test, the polynomial at t0 agrees within 3 standard errors", null);
+            return (law, $"{lawName} at t0, unresolved", "the integrated-law and polynomial estimates differ by more than three combined standard errors: " +
+                string.Join("; ", estimates.Select(Describe)));
+        }
+        if (poly is not null)
+        {
+            var why = anyLaw is null ? "no integrated law converged" : "the chosen law shows lack of fit";
+            if (line is null || !Conflict(poly, line)) return (poly, $"polynomial at t0: {why}", null);
+            return (poly, $"polynomial at t0 ({why}), unresolved", $"{why}, and the local estimates differ by more than three combined standard errors: " +
+                string.Join("; ", estimates.Select(Describe)));
+        }
+        return (estimates[0], $"{estimates[0].Method}: the only estimate available", null);
     }
 
     [ThreadStatic] private static double[]? _ones;

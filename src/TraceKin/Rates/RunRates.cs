@@ -33,6 +33,8 @@ public sealed record LawFit(string Law, FitResult Fit, bool Chosen)
     public double HalfLifeStdError { get; init; } = double.NaN;
     /// <summary>Wald–Wolfowitz runs test on the residual signs.</summary>
     public RunsTest? Runs { get; init; }
+    /// <summary>Why this converged fit took no part in the law choice (e.g. a drift term entangled with k), or null.</summary>
+    public string? ExcludedBecause { get; init; }
     /// <summary>True when the residuals show a pattern (runs test P &lt; 0.001) or scatter far above the trace's own noise.</summary>
     public bool LackOfFit { get; init; }
 }
@@ -62,6 +64,10 @@ public sealed record RunRates(
     public string HeadlineRule { get; init; } = "";
     /// <summary>The law fit chosen by AICc, if any converged.</summary>
     public LawFit? ChosenLaw => Fits.FirstOrDefault(f => f.Chosen);
+    /// <summary>Why the initial rate is not resolved (its estimates disagree, or it has the wrong sign), or null. An
+    /// unresolved run is left out of the series fits unless the user keeps it (model.use_unresolved).</summary>
+    public string? Unresolved { get; init; }
+    public bool IsResolved => Unresolved is null;
     /// <summary>True when no integer-order law describes the trace (see <see cref="LawFit.LackOfFit"/>).</summary>
     public bool NoIntegerLawFits { get; init; }
 }

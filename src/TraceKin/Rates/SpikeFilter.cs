@@ -10,7 +10,8 @@ public sealed record Spike(int Index, double Time, double Value);
 /// Spike finding by the Hampel identifier: a point is an outlier when it lies more than a cutoff number of robust
 /// standard deviations from a robust centre, the scale being 1.4826·MAD (Hampel 1974, J. Am. Stat. Assoc. 69, 383;
 /// Leys et al. 2013, J. Exp. Soc. Psychol. 49, 764, who recommend the MAD over the SD).
-/// Stage 1 (model-free): each point against a running median of five, on the noise scale of the second differences.
+/// Stage 1 (model-free): each point against a running median of seven (the trace's ends against a robust line through
+/// their neighbours), on the noise scale of the second differences.
 /// Stage 2 (confirmation):
 /// residuals from the fitted integrated law, so that a genuine kink (the end of a zero-order run) is not taken for a spike.
 /// The cutoff grows with the number of points so that a clean trace of any length rarely loses a sample: see
@@ -35,9 +36,14 @@ public static class SpikeFilter
         n < 2 ? MinimumCutoff : Math.Max(MinimumCutoff, Normal.InvCDF(0, 1, 1 - FalseFlagRate / (2.0 * n)));
 
     /// <summary>
-    /// Candidate spikes: |y_i − median of y_(i−2…i+2)| &gt; cutoff·σ̂. The running median of five keeps any monotone
-    /// stretch exactly (the residual is 0 however sharply the trace curves), so only points out of line with their
-    /// neighbours are candidates. σ̂ = 1.4826·median|Δ²y|/√6 is the noise SD from the second differences
+    /// Candidate spikes: |y_i − median of y_(i−3…i+3)| &gt; cutoff·σ̂. The running median of seven keeps any monotone
+    /// stretch exactly (the residual is 0 however sharply the trace curves) and is not pulled by a burst of up to
+    /// three consecutive spikes, so only points out of line with their neighbours are candidates. The first and last
+    /// three points have no centred window: each is compared with the straight line through its six nearest
+    /// neighbours (Theil–Sen: median of pairwise slopes, Sen 1968, J. Am. Stat. Assoc. 63, 1379), which a
+    /// curving end of the trace follows, and only beyond <see cref="EndFactor"/> times the limit, since an
+    /// extrapolated line is less certain than a median inside the trace.
+    /// σ̂ = 1.4826·median|Δ²y|/√6 is the noise SD from the second differences
     /// Δ²y_i = y_(i−1) − 2y_i + y_(i+1) (SD √6·σ for white noise; the MAD keeps it robust to the spikes themselves).
     /// </summary>
     public static bool[] Candidates(ReadOnlySpan<double> y)
@@ -54,33 +60,65 @@ public static class SpikeFilter
         return sigma > 0 ? Candidates(y, CutoffFor(n) * sigma) : new bool[n];
     }
 
-    /// <summary>Points with |y_i − median of y_(i−2…i+2)| &gt; limit (the window shifted inwards at the ends).</summary>
+    /// <summary>How much further than the limit an end point must lie from the line through its neighbours.</summary>
+    public const double EndFactor = 1.5;
+
+    /// <summary>Interior points: |y_i − median of y_(i−3…i+3)| &gt; limit; the three points at each end:
+    /// |y_i − Theil–Sen line of the six nearest others| &gt; <see cref="EndFactor"/>·limit.</summary>
     internal static bool[] Candidates(ReadOnlySpan<double> y, double limit)
     {
         var n = y.Length;
         var flag = new bool[n];
-        if (n < 5) return flag;
-        for (var i = 0; i < n; i++)
+        if (n < 7) return flag;
+        Span<double> w = stackalloc double[7];
+        for (var i = 3; i < n - 3; i++)
         {
-            // The median of five is one of them with at least three of the five on each side of it (ties counted),
-            // so a point lying beyond the limit from it lies beyond the limit from at least three of its four
-            // neighbours, one of them an adjacent one. A point within the limit of both adjacent neighbours is
-            // therefore no candidate, and most points are settled without the median (floating-point subtraction
-            // is monotone, so the shortcut gives the same flags).
-            if (i >= 2 && i < n - 2 && Math.Abs(y[i] - y[i - 1]) <= limit && Math.Abs(y[i] - y[i + 1]) <= limit) continue;
-            var lo = Math.Clamp(i - 2, 0, n - 5);
-            flag[i] = Math.Abs(y[i] - MedianOf5(y[lo], y[lo + 1], y[lo + 2], y[lo + 3], y[lo + 4])) > limit;
+            // A point beyond the limit from the median of seven lies beyond it from at least four of its six
+            // neighbours (four of the seven are on the median's far side, and the point is not one of them); so a
+            // point within the limit of three neighbours is no candidate, and most points are settled without the
+            // median (floating-point subtraction is monotone, so the shortcut gives the same flags).
+            if (Math.Abs(y[i] - y[i - 1]) <= limit && Math.Abs(y[i] - y[i + 1]) <= limit && Math.Abs(y[i] - y[i - 2]) <= limit) continue;
+            y.Slice(i - 3, 7).CopyTo(w);
+            flag[i] = Math.Abs(y[i] - MedianOf7(w)) > limit;
+        }
+        for (var i = 0; i < 3; i++)
+        {
+            flag[i] = EndResidual(y, i, 0) > EndFactor * limit;
+            flag[n - 1 - i] = EndResidual(y, n - 1 - i, n - 7) > EndFactor * limit;
         }
         return flag;
     }
 
-    /// <summary>Median of five by a min/max network: the median of (e, the larger of the two pair minima, the smaller
-    /// of the two pair maxima) (selection network, common practice, no source; checked against sorting in the tests).</summary>
-    internal static double MedianOf5(double a, double b, double c, double d, double e)
+    /// <summary>|y_i − the Theil–Sen line through the other six of y_(from…from+6)|, positions as abscissae.</summary>
+    internal static double EndResidual(ReadOnlySpan<double> y, int i, int from)
     {
-        var f = Math.Max(Math.Min(a, b), Math.Min(c, d));
-        var g = Math.Min(Math.Max(a, b), Math.Max(c, d));
-        return Math.Max(Math.Min(e, f), Math.Min(Math.Max(e, f), g));
+        Span<double> slopes = stackalloc double[15];
+        Span<int> xs = stackalloc int[6];
+        var m = 0;
+        for (var j = from; j < from + 7; j++) if (j != i) xs[m++] = j;
+        var k = 0;
+        for (var a = 0; a < 6; a++)
+            for (var b = a + 1; b < 6; b++) slopes[k++] = (y[xs[b]] - y[xs[a]]) / (xs[b] - xs[a]);
+        slopes.Sort();
+        var slope = slopes[7];
+        Span<double> icpt = stackalloc double[6];
+        for (var a = 0; a < 6; a++) icpt[a] = y[xs[a]] - slope * xs[a];
+        icpt.Sort();
+        var intercept = 0.5 * (icpt[2] + icpt[3]);
+        return Math.Abs(y[i] - (intercept + slope * i));
+    }
+
+    /// <summary>Median of seven values (sorts the span in place).</summary>
+    internal static double MedianOf7(Span<double> w)
+    {
+        // Insertion sort: seven values, no allocation.
+        for (var a = 1; a < 7; a++)
+        {
+            var v = w[a]; var b = a - 1;
+            while (b >= 0 && w[b] > v) { w[b + 1] = w[b]; b--; }
+            w[b + 1] = v;
+        }
+        return w[3];
     }
 
     /// <summary>Confirmed spikes among all points, from the residuals of a fit that excluded the candidates:

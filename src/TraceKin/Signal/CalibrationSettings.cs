@@ -25,6 +25,11 @@ public sealed record CalibrationSettings
         var model = s.Choice("model", "linear", "linear", "quadratic");
         var file = s.String("file");
         var unit = SignalSettings.UnitOf(s, "concentration_unit", "mol/L", Quantity.Concentration);
+        var signalUnitText = s.String("signal_unit");
+        UnitInfo? signalUnit = null;
+        if (signalUnitText is not null)
+            signalUnit = Units.Find(signalUnitText) ?? throw Fail.Setting(s.File, s.KeyName("signal_unit"), Fail.Quote(signalUnitText),
+                "a known signal unit, e.g. \"mS/cm\", \"AU\" or \"kPa\" (leave it out to read the standards in the unit of the export's channel)");
         var signals = s.Doubles("signal");
         var conc = s.Doubles("concentration");
         var others = new List<(string, double)>();
@@ -42,6 +47,9 @@ public sealed record CalibrationSettings
         var result = new CalibrationSettings { Model = model, File = file, OtherSpecies = others };
         if (file is not null)
         {
+            if (signalUnit is not null)
+                throw Fail.Setting(s.File, s.KeyName("signal_unit"), Fail.Quote(signalUnitText!), "no signal_unit with a file of standards",
+                    "write the unit in the file's header instead, e.g. \"signal (mS/cm)\"");
             if (signals is not null || conc is not null)
                 throw Fail.Setting(s.File, s.KeyName("file"), "both a file and inline standards", "one of them", "remove either file or signal/concentration");
             return result;
@@ -52,7 +60,7 @@ public sealed record CalibrationSettings
             if (otherConc[k] is null)
                 throw Fail.Setting(s.File, $"{s.KeyName("other")}[{k}].concentration", "nothing", $"the concentration of {others[k].Item1} in each standard");
         var standards = new CalibrationStandards(signals, conc.Select(unit.ToInternal).ToArray(),
-            others.Select((o, k) => new CalibrationOther(o.Item1, o.Item2, otherConc[k]!)).ToArray());
+            others.Select((o, k) => new CalibrationOther(o.Item1, o.Item2, otherConc[k]!)).ToArray()) { SignalUnit = signalUnit };
         return result with { Standards = standards, Curve = CalibrationCurve.FromStandards(standards, model, s.File, s.Prefix) };
     }
 }

@@ -15,6 +15,11 @@ public sealed record CalibrationOther(string Species, double Coefficient, double
 /// </summary>
 public sealed record CalibrationStandards(double[] Signals, double[] Concentrations, IReadOnlyList<CalibrationOther> Others)
 {
+    /// <summary>The unit the standards' signals are written in (from a header such as <c>signal (mS/cm)</c> or the
+    /// <c>signal_unit</c> key), or null when none was given: they are then read in the unit the export gives its
+    /// channel. <see cref="Signals"/> stay in this unit; the run's signal is brought into it before the curve is read.</summary>
+    public UnitInfo? SignalUnit { get; init; }
+
     /// <summary>
     /// Standards from CSV text: a column <c>signal</c> and one column <c>[X] (unit)</c> per species (the followed one
     /// and each of <paramref name="others"/>). Comma, semicolon or tab delimited; with semicolons a decimal comma is accepted.
@@ -48,6 +53,13 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
             throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine), $"a column \"[{sp}] (unit)\" with the concentration of {sp} in each standard");
         }
 
+        // "signal (mS/cm)", "signal [AU]", "signal/mS/cm" or plain "signal".
+        var signalHeader = header[signalCol];
+        var signalUnitText = signalHeader[6..].Trim().TrimStart('/').Trim().Trim('(', ')', '[', ']', ' ');
+        UnitInfo? signalUnit = null;
+        if (signalUnitText.Length > 0)
+            signalUnit = Units.Find(signalUnitText) ?? throw Fail.At(file, headerIndex + 1, signalCol + 1, Fail.Quote(signalHeader),
+                "a known signal unit in the header, e.g. \"signal (mS/cm)\", \"signal (AU)\" or \"signal (kPa)\", or plain \"signal\" for the unit of the export's channel");
         var main = Column(species);
         var otherCols = others.Select(o => Column(o.Species)).ToArray();
         var culture = delimiter == ';' && lines.Skip(headerIndex + 1).Any(l => l.Contains(',')) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
@@ -66,7 +78,7 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
                 otherConc[k].Add(otherCols[k].Unit.ToInternal(Number(cells[otherCols[k].Col], culture, file, i + 1, otherCols[k].Col + 1)));
         }
         return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
-            others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray());
+            others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = signalUnit };
     }
 
     private static double Number(string cell, CultureInfo culture, string file, int line, int col)

@@ -100,6 +100,9 @@ public sealed record SignalModel
                     Initial = cal.OtherSpecies.Count > 0 ? RequiredInitial() : 0,
                     OthersInitial = cal.OtherSpecies.ToDictionary(o => o.Species, o => InitialOrZero(o.Species)),
                 };
+                // The run's signal arrives in internal units (S/m, Pa, …); the standards are in their own unit (declared,
+                // else the unit the export wrote its channel in), so the signal is brought into that unit first.
+                var stdUnit = StandardsUnit(s, cal, export);
                 var comp = s.Kind == "conductivity" && s.TemperatureCoefficient is { } alpha
                     ? new ConductivityConversion(0, 1, 1, alpha, s.ReferenceTemperature) { TemperatureCoefficientU = s.TemperatureCoefficientU }
                     : null;
@@ -121,11 +124,11 @@ public sealed record SignalModel
                 return new SignalModel
                 {
                     SignalQuantity = q, SignalUnit = unit, Curve = curve,
-                    ToConcentration = (y, t) => curve.ToConcentration(comp is null ? y : comp.Compensate(y, t)),
-                    ToSignal = (c, t) => comp is null ? curve.ToSignal(c) : curve.ToSignal(c) * comp.TemperatureFactor(t),
+                    ToConcentration = (y, t) => curve.ToConcentration(stdUnit.FromInternal(comp is null ? y : comp.Compensate(y, t))),
+                    ToSignal = (c, t) => comp is null ? stdUnit.ToInternal(curve.ToSignal(c)) : stdUnit.ToInternal(curve.ToSignal(c)) * comp.TemperatureFactor(t),
                     RelativeSystematicUncertainty = rel, Budget = budget, ConstantsUsed = constants,
                     Temperature = temperature, UsesPointTemperature = comp is not null,
-                    CurveInput = (y, t) => comp is null ? y : comp.Compensate(y, t),
+                    CurveInput = (y, t) => stdUnit.FromInternal(comp is null ? y : comp.Compensate(y, t)),
                 };
             }
             case "gas_volume":
@@ -273,6 +276,29 @@ public sealed record SignalModel
     {
         var ch = export.Channel(s.Channel);
         return ch.Count > 0 ? ch.Values[0] : null;
+    }
+
+    /// <summary>
+    /// The unit the calibration standards' signals are in: the declared one (file header or signal_unit), else the
+    /// unit the export wrote the channel in, else the internal unit. A declared unit of another quantity than the
+    /// channel's is an error naming both.
+    /// </summary>
+    private static UnitInfo StandardsUnit(SignalSettings s, CalibrationSettings cal, RunExport? export)
+    {
+        var identity = new UnitInfo("", Quantity.Other, 1);
+        var channel = export?.Channel(s.Channel);
+        var declared = cal.Standards?.SignalUnit;
+        if (declared is not null)
+        {
+            if (channel is not null && channel.Quantity != Quantity.Other && declared.Quantity != channel.Quantity)
+                throw Fail.Setting(s.Source, cal.File is null ? "signal.calibration.signal_unit" : $"signal.calibration.file ({cal.File})",
+                    $"standards in {declared.Symbol} ({Units.Describe(declared.Quantity)})",
+                    $"a unit of the channel's quantity: channel {Fail.Quote(channel.Name)} is in {channel.SourceUnit ?? channel.Unit} ({Units.Describe(channel.Quantity)})");
+            return declared.Quantity == Quantity.Other || (channel is not null && channel.Quantity == Quantity.Other) ? identity : declared;
+        }
+        if (channel is { SourceUnit: { Length: > 0 } su } && Units.Find(su) is { } fromExport && fromExport.Quantity == channel.Quantity && channel.Quantity != Quantity.Other)
+            return fromExport;
+        return identity;
     }
 
     private static (Quantity, string) QuantityOf(string kind, RunExport? export, SignalSettings s) => kind switch

@@ -86,29 +86,29 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
     }
 
     [Fact]
-    public void Running_median_of_five_equals_the_middle_of_the_sorted_five()
+    public void Running_median_of_seven_equals_the_middle_of_the_sorted_seven()
     {
-        // Every ordering of five distinct values, and random values with ties (fixed seed); reference: sorting.
+        // Random values with many ties and distinct values (fixed seed); reference: sorting.
         var rng = new Random(5);
-        var sets = new List<double[]>();
-        foreach (var perm in Permutations([1.0, 2, 3, 4, 5])) sets.Add(perm);
-        for (var i = 0; i < 2000; i++) sets.Add(Enumerable.Range(0, 5).Select(_ => (double)rng.Next(4)).ToArray());
-        foreach (var v in sets)
+        for (var i = 0; i < 3000; i++)
         {
+            var v = Enumerable.Range(0, 7).Select(_ => i % 2 == 0 ? (double)rng.Next(4) : rng.NextDouble()).ToArray();
             var sorted = v.Order().ToArray();
-            Assert.Equal(sorted[2], SpikeFilter.MedianOf5(v[0], v[1], v[2], v[3], v[4]));
+            Assert.Equal(sorted[3], SpikeFilter.MedianOf7(v.ToArray()));
         }
     }
 
     [Fact]
     public void Spike_candidates_match_the_plain_running_median_rule()
     {
-        // Reference: |y_i − median of the five-point window| > limit with the median found by sorting (Hampel
-        // identifier on a running median, Hampel 1974); the fast path skips the median where it cannot matter.
+        // Reference: inside the trace |y_i − median of the seven-point window| > limit with the median found by
+        // sorting (Hampel identifier on a running median, Hampel 1974); at the three points of each end, the distance
+        // from the Theil–Sen line of the six nearest others (Sen 1968) beyond 1.5 × limit, computed here by LINQ. The
+        // fast path skips the median where it cannot matter.
         var rng = new Random(11);
         for (var trial = 0; trial < 200; trial++)
         {
-            var n = 5 + rng.Next(60);
+            var n = 7 + rng.Next(60);
             // Coarse values (many ties), steps, isolated spikes and a smooth trend.
             var y = Enumerable.Range(0, n).Select(i => Math.Round(3 * Math.Sin(i / 7.0) + rng.Next(3), trial % 2 == 0 ? 0 : 3)).ToArray();
             for (var s = 0; s < 3; s++) y[rng.Next(n)] += rng.Next(2) == 0 ? 8 : -8;
@@ -117,20 +117,23 @@ public sealed class DenseTraceTests(ITestOutputHelper output)
                 var fast = SpikeFilter.Candidates(y, limit);
                 for (var i = 0; i < n; i++)
                 {
-                    var lo = Math.Clamp(i - 2, 0, n - 5);
-                    var window = y.Skip(lo).Take(5).Order().ToArray();
-                    Assert.True((Math.Abs(y[i] - window[2]) > limit) == fast[i], $"trial {trial}, limit {limit}, point {i}");
+                    bool expected;
+                    if (i >= 3 && i < n - 3)
+                        expected = Math.Abs(y[i] - y.Skip(i - 3).Take(7).Order().ElementAt(3)) > limit;
+                    else
+                    {
+                        var from = i < 3 ? 0 : n - 7;
+                        var xs = Enumerable.Range(from, 7).Where(j => j != i).ToArray();
+                        var slopes = xs.SelectMany((a, ia) => xs.Skip(ia + 1).Select(b => (y[b] - y[a]) / (b - a))).Order().ToArray();
+                        var slope = slopes[slopes.Length / 2];
+                        var icpt = xs.Select(j => y[j] - slope * j).Order().ToArray();
+                        var intercept = 0.5 * (icpt[2] + icpt[3]);
+                        expected = Math.Abs(y[i] - (intercept + slope * i)) > SpikeFilter.EndFactor * limit;
+                    }
+                    Assert.True(expected == fast[i], $"trial {trial}, limit {limit}, point {i}");
                 }
             }
         }
-    }
-
-    private static IEnumerable<double[]> Permutations(double[] items)
-    {
-        if (items.Length <= 1) { yield return items; yield break; }
-        for (var i = 0; i < items.Length; i++)
-            foreach (var rest in Permutations(items.Where((_, j) => j != i).ToArray()))
-                yield return [items[i], .. rest];
     }
 }
 
