@@ -69,7 +69,13 @@ public static class SeriesRunner
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
-        var points = analysed.Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
+        // A run whose initial rate is unresolved is reported but kept out of the series fits unless the user asks.
+        var unresolved = analysed.Where(s => !s.Run!.Rates.IsResolved).Select(s => s.Run!.Id).ToList();
+        if (unresolved.Count > 0)
+            warnings.Add(new Warning("unresolved-runs", "series", config.Model.UseUnresolved
+                ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {string.Join(", ", unresolved)}"
+                : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {string.Join(", ", unresolved)}"));
+        var points = analysed.Where(s => config.Model.UseUnresolved || s.Run!.Rates.IsResolved).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {
             Trace = x.FitTrace ?? SeriesTrace(x.Run),
         }).ToList();

@@ -209,9 +209,26 @@ public static class IntegratedLawFitter
         var grad = new double[2 + best.Model.Law.ShapeNames.Count];
         var u = best.Model.Law.Fraction(t[^1], best.Model.Nu * p[LawModel.K], best.Model.A0(p), p.AsSpan(LawModel.FirstShape, best.Model.Law.ShapeNames.Count), grad);
         var conversion = 1 - u;
-        return conversion >= DriftTailConversion ? null : string.Format(System.Globalization.CultureInfo.InvariantCulture,
-            "the trace reaches about {0:P0} conversion ({1}); a drift term is told apart from the reaction only once the trace runs past {2:P0}",
-            conversion, best.Model.Law.Name, DriftTailConversion);
+        var ci = System.Globalization.CultureInfo.InvariantCulture;
+        if (conversion < DriftTailConversion)
+            return string.Format(ci, "the trace reaches about {0:P0} conversion ({1}); a drift term is told apart from the reaction only once the trace runs past {2:P0}",
+                conversion, best.Model.Law.Name, DriftTailConversion);
+        // The law's word alone is not enough (a zero-order kink "completes" any curve): the trace itself must flatten,
+        // its last quarter sloping by at most a quarter of its first quarter's slope.
+        var (early, late) = QuarterSlopes(t, best.Model, best.Fit);
+        return Math.Abs(late) <= 0.25 * Math.Abs(early) ? null : string.Format(ci,
+            "the trace does not flatten (its last quarter slopes by {0:P0} of its first quarter's slope), so a drift cannot be told apart from the reaction",
+            Math.Abs(late / early));
+    }
+
+    /// <summary>Mean slopes of the fitted curve (drift excluded) over the first and the last quarter of the trace's time.</summary>
+    private static (double Early, double Late) QuarterSlopes(double[] t, LawModel model, FitResult fit)
+    {
+        var p = fit.Parameters.Select(x => x.Value).ToArray();
+        double At(double time) => model.Value(p, time) - (model.Drift ? p[model.DriftIndex] * time : 0);
+        var (t0, t1) = (t[0], t[^1]);
+        var q = 0.25 * (t1 - t0);
+        return ((At(t0 + q) - At(t0)) / q, (At(t1) - At(t1 - q)) / q);
     }
 
     /// <summary>

@@ -70,6 +70,9 @@ public sealed class SummaryJson : ISeriesReportWriter
             }
             w.WriteEndArray();
             w.WriteString("headlineRule", run.Rates.HeadlineRule);
+            w.WriteBoolean("rateResolved", run.Rates.IsResolved);
+            if (run.Rates.Unresolved is { } why) w.WriteString("unresolvedBecause", why);
+            else w.WriteNull("unresolvedBecause");
             Num(w, "deadTime", run.Rates.DeadTime);
             w.WriteBoolean("noIntegerLawFits", run.Rates.NoIntegerLawFits);
             w.WriteStartArray("spikes");

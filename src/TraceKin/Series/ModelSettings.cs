@@ -30,6 +30,9 @@ public sealed record ModelSettings
     /// <summary>Also fit the power law to every run's whole concentration–time course at once (slower).</summary>
     public bool GlobalFit { get; init; }
 
+    /// <summary>Keep runs whose initial rate is unresolved (estimates in conflict, wrong sign) in the series fits.</summary>
+    public bool UseUnresolved { get; init; }
+
     public bool Fits(string law) => Laws.Contains(law, StringComparer.Ordinal);
 
     public static ModelSettings Default { get; } = new();
@@ -56,6 +59,7 @@ public sealed record ModelSettings
             ReferenceTemperatureK = tref,
             EyringTemperatureK = teyring ?? 298.15,
             GlobalFit = s.Bool("global_fit") ?? false,
+            UseUnresolved = s.Bool("use_unresolved") ?? false,
         };
     }
 }

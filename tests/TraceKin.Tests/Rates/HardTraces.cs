@@ -110,6 +110,26 @@ internal static class HardTraces
         return new Case(name, new Trace("X", Quantity.Concentration, "mol/L", t, y), coefficient, reference, trueRate, conversion, artefact);
     }
 
+    /// <summary>A clean Michaelis–Menten product curve at a given [S]0: 40–80 readings, 10–60 % conversion, noise
+    /// 0.5–2 % of the product formed, all drawn from the seed.</summary>
+    public static Case MakeProductCurve(double vmax, double km, double s0, int seed)
+    {
+        var rng = new Random(seed);
+        var points = 40 + rng.Next(41);
+        var conversion = 0.10 + 0.50 * rng.NextDouble();
+        var tEnd = MichaelisMentenTime(vmax, km, s0, conversion);
+        var change = MichaelisMentenProduct(vmax, km, s0, tEnd);
+        var noise = (0.005 + 0.015 * rng.NextDouble()) * change;
+        var t = new double[points];
+        var y = new double[points];
+        for (var i = 0; i < points; i++)
+        {
+            t[i] = tEnd * i / (points - 1);
+            y[i] = MichaelisMentenProduct(vmax, km, s0, t[i]) + noise * SyntheticTrace.Gaussian(rng);
+        }
+        return new Case($"mm/{s0:G3}/{seed}", new Trace("P", Quantity.Concentration, "mol/L", t, y), 1, null, vmax * s0 / (km + s0), conversion, "clean");
+    }
+
     /// <summary>Every kind × artefact, <paramref name="draws"/> seeds each.</summary>
     public static IEnumerable<Case> Battery(int draws, int firstSeed = 1)
     {
