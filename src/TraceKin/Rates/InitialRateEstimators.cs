@@ -46,17 +46,7 @@ public static class InitialRateEstimators
     public static InitialRate? Polynomial(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, int count)
     {
         if (count < 6) return null;
-        FitResult? best;
-        if (count >= 100 || count < 12) best = LinearLeastSquares.Polynomial(t[..count], c[..count], count >= 12 ? 3 : 2);
-        else
-        {
-            // A short window: the cubic's slope at t0 has about six times the variance of the quadratic's (shifted
-            // Legendre polynomials, common practice, no source), so the degree is chosen by AICc (Burnham &amp;
-            // Anderson 2002, §2.4): the cubic only where its extra term is supported by the data.
-            var q = LinearLeastSquares.Polynomial(t[..count], c[..count], 2);
-            var cu = LinearLeastSquares.Polynomial(t[..count], c[..count], 3);
-            best = !cu.Converged ? q : !q.Converged ? cu : cu.AicC < q.AicC ? cu : q;
-        }
+        var best = LinearLeastSquares.Polynomial(t[..count], c[..count], count >= 12 ? 3 : 2);
         if (!best.Converged || !double.IsFinite(best.Parameters[1].StdError)) return null;
         var slope = best.Parameters[1];
         var degreeUsed = best.Parameters.Count - 1;
@@ -102,7 +92,8 @@ public static class InitialRateEstimators
     /// (c′) The law estimate averaged over every law that took part in the choice, by Akaike weight:
     /// v̄ = Σ w_i·v_i with the unconditional standard error Σ w_i·√(se_i² + (v_i − v̄)²) (Burnham &amp; Anderson 2002,
     /// "Model Selection and Multimodel Inference", eqs. 4.1 and 4.9), so that the uncertainty of which law holds is
-    /// carried into the rate. Laws with weight below 1 % are left out (their share cannot move the result); when only
+    /// carried into the rate. Laws with weight below 1 % are left out (their share cannot move the result), and so
+    /// are laws whose slope at t0 has a standard error beyond its value (the law does not determine it); when only
     /// the chosen law remains its own estimate is returned unchanged.
     /// </summary>
     public static InitialRate? Averaged(IReadOnlyList<(LawModel Model, LawFit Fit)> participants, InitialRate? chosen, ReadOnlySpan<double> t, double nu)
@@ -113,7 +104,8 @@ public static class InitialRateEstimators
         {
             if (!(f.AkaikeWeight >= MinimumAveragingWeight)) continue;
             var r = f.Chosen ? chosen : FromLaw(m, f, t, nu);
-            if (r is null || !double.IsFinite(r.StdError)) continue;
+            // A law that leaves the slope at t0 undetermined (its standard error beyond the value) cannot inform it.
+            if (r is null || !double.IsFinite(r.StdError) || (!f.Chosen && !(r.StdError < Math.Abs(r.Value)))) continue;
             parts.Add((f, r, f.AkaikeWeight));
         }
         if (parts.Count <= 1 || !parts.Any(p => p.Fit.Chosen)) return chosen;

@@ -140,7 +140,8 @@ public static class IntegratedLawFitter
                 var other = Describe(m, f, false, minAll, sumW, weights, noise);
                 if (entangled.Contains(f))
                     other = other with { DeltaAicc = double.NaN, AkaikeWeight = double.NaN, ExcludedBecause = driftExcluded };
-                else if (f.Converged) participants.Add((m, other));
+                // Pseudo-first order is the first-order curve re-expressed: one curve, counted once in the average.
+                else if (f.Converged && m.Law is not PseudoFirstOrderLaw) participants.Add((m, other));
                 fits.Add(other);
                 continue;
             }
@@ -473,16 +474,96 @@ public static class IntegratedLawFitter
                 if (f2.Converged) { fit = f2; break; }
             }
         }
+        if (law is ZeroOrderLaw && a0Ref is null && seed is null && startOverride is null)
+        {
+            // Without a plan [A]0 a zero-order run may also be the straight line the trace shows, its end beyond the
+            // data; from the kinked start the fit can settle on a poor line. Both starts are tried; the lower χ² wins.
+            var (tv, yv) = Valid(t, y, w);
+            var line = LinearLeastSquares.Line(tv, yv);
+            if (line.Converged && line.Parameters[1].Value != 0)
+            {
+                var ls = (double[])start.Clone();
+                var b = line.Parameters[1].Value;
+                ls[LawModel.Y0] = line.Parameters[0].Value;
+                ls[LawModel.YEnd] = ls[LawModel.Y0] + Math.Sign(b) * 10 * range;
+                ls[LawModel.K] = Math.Abs(b) / Math.Abs(nu);
+                // The end level does not change a line beyond the data, so it is held where it starts.
+                var held = (bool[])fixedP.Clone();
+                held[LawModel.YEnd] = true;
+                var f2 = NonlinearLeastSquares.Fit(model, y, ls, options with { Fixed = held });
+                if (f2.Converged && (!fit.Converged || f2.ChiSquare < fit.ChiSquare))
+                    fit = f2 with { ExitDetail = f2.ExitDetail + "; a straight line: the end lies beyond the trace (end value held fixed)" };
+            }
+        }
+        if (!fit.Converged && seed is null && startOverride is null && law is not ZeroOrderLaw
+            && CurvatureStart(law, model, t, y, w, nu, a0Ref, shape, lower, upper) is { } cs)
+        {
+            // A partly converted trace whose end is far beyond the data: the guess from the end value is poor, and
+            // the fit crawls along the valley where y_end and k trade off. Start instead from the trace's own slope
+            // and curvature, and give it more steps.
+            var f2 = NonlinearLeastSquares.Fit(model, y, cs, options with { MaxIterations = 400 });
+            if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
+        }
         if (fit.Exit == FitExit.Singular && fit.ExitDetail.Contains("'yEnd'", StringComparison.Ordinal))
         {
             var f2 = (bool[])fixedP.Clone();
             f2[LawModel.YEnd] = true;
             var s2 = (double[])start.Clone();
             if (a0Ref is { } r) s2[LawModel.YEnd] = y0 - Math.Sign(y0 - yEnd) * r;
+            // Without a plan [A]0 an undetermined end lies beyond the data: held ten trace ranges away, where a zero-order
+            // run is the straight line the trace shows (its slope does not depend on where the end is).
+            else if (law is ZeroOrderLaw) s2[LawModel.YEnd] = y0 - Math.Sign(y0 - yEnd) * 10 * range;
             var refit = NonlinearLeastSquares.Fit(model, y, s2, options with { Fixed = f2 });
             if (refit.Converged) fit = refit with { ExitDetail = refit.ExitDetail + "; end value held fixed (not determined by the trace)" };
         }
         return (model, fit);
+    }
+
+    /// <summary>
+    /// A start from the trace's slope and curvature at t0: a quadratic c0 + c1·t + c2·t² over the valid samples gives
+    /// y(0) = c0, y′(0) = c1 and y″(0) = 2·c2. Every law here is a function of kk·t at fixed [A]0 and shape, so the
+    /// ratio u″(0)/u′(0) scales with kk: kk follows from matching it to 2·c2/c1, then the span y0 − y_end from
+    /// y′(0) = (y0 − y_end)·u′(0) (Taylor expansion, common practice, no source). u′ and u″ are taken by finite
+    /// differences of the law itself. With [A]0 from the span (no plan value) the match is repeated three times. Null
+    /// when the trace does not decelerate (c2/c1 ≥ 0) or the start falls outside the bounds.
+    /// </summary>
+    private static double[]? CurvatureStart(RateLaw law, LawModel model, double[] t, double[] y, double[] w, double nu, double? a0Ref,
+        double[] shape, double[] lower, double[] upper)
+    {
+        var (tv, yv) = Valid(t, y, w);
+        if (tv.Length < 6) return null;
+        var q = LinearLeastSquares.Polynomial(tv, yv, 2);
+        if (!q.Converged) return null;
+        double c0 = q.Parameters[0].Value, c1 = q.Parameters[1].Value, c2 = q.Parameters[2].Value;
+        var target = 2 * c2 / c1;
+        if (!(target < 0) || !double.IsFinite(target)) return null;
+        var duration = Math.Max(tv[^1] - tv[0], 1e-12);
+        var grad = new double[2 + shape.Length];
+        var span = c1 * duration; // first guess of y0 − y_end: the change a straight line would make over the trace
+        double kk = 1 / duration;
+        for (var round = 0; round < 3; round++)
+        {
+            var a0 = a0Ref ?? Math.Abs(span);
+            if (!(a0 > 0)) return null;
+            const double kk0 = 1.0;
+            var h = 1e-3;
+            double u1 = law.Fraction(h, kk0, a0, shape, grad), u2 = law.Fraction(2 * h, kk0, a0, shape, grad);
+            var du = (-3 + 4 * u1 - u2) / (2 * h);
+            var d2u = (1 - 2 * u1 + u2) / (h * h);
+            if (!(du < 0) || !double.IsFinite(d2u)) return null;
+            var rho0 = d2u / du; // at kk = 1; scales linearly with kk
+            if (!(rho0 < 0)) return null;
+            kk = target / rho0;
+            span = c1 / (du * kk);
+        }
+        var start = new double[model.ParameterNames.Count];
+        start[LawModel.Y0] = c0;
+        start[LawModel.YEnd] = c0 - span;
+        start[LawModel.K] = kk / Math.Abs(nu);
+        for (var i = 0; i < shape.Length; i++) start[LawModel.FirstShape + i] = shape[i];
+        for (var i = 0; i < start.Length; i++)
+            if (!(start[i] >= lower[i] && start[i] <= upper[i])) return null;
+        return start;
     }
 
     private static LawFit Describe(LawModel m, FitResult f, bool chosen, double minAicc, double sumW, double[] w, double noise)

@@ -164,7 +164,7 @@ public static class RateAnalysis
     }
 
     /// <summary>Fewest points in the early window the local estimators use (the window is widened to this many).</summary>
-    public const int MinimumWindowPoints = 16;
+    public const int MinimumWindowPoints = 8;
 
     /// <summary>A headline whose 95 % interval is wider than ± this fraction of its value is flagged imprecise.</summary>
     public const double ImpreciseFraction = 0.10;

@@ -112,6 +112,8 @@ public sealed class HardTraceTests(ITestOutputHelper output)
                 {
                     var c = HardTraces.MakeProductCurve(vmax, km, s0, ++seed);
                     var r = RateAnalysis.Analyse(c.Trace, 1, null, RateSettings.Default, c.Name);
+                    if (Math.Abs(r.Headline.Value / c.TrueRate - 1) > 0.05)
+                        output.WriteLine($"  {c.Name}: {r.Headline.Value / c.TrueRate - 1:P1} ± {r.Headline.RelativeError:P1} {(r.IsResolved ? "" : "(unresolved)")} {r.Headline.Method}");
                     if (!r.IsResolved) continue;
                     runs.Add(new RunPoint(c.Name, r.Headline.Value, r.Headline.StdError, new Dictionary<string, double> { ["S"] = s0 }, 298.15));
                 }
