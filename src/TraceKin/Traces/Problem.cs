@@ -6,6 +6,12 @@ namespace TraceKin.Traces;
 /// </summary>
 public sealed record Problem(string File, int Line, int Column, string Found, string Expected, string Hint, string? Key = null)
 {
+    /// <summary>
+    /// The input this problem rejects when the problem is located in another file: an export that plan.csv names
+    /// (<see cref="File"/> is then plan.csv, with the line and column of the cell). Null when it is <see cref="File"/> itself.
+    /// </summary>
+    public string? Input { get; init; }
+
     public string Message
     {
         get
