@@ -34,7 +34,7 @@ public static class SeriesRunner
             CheckNamedFiles(folder, config, configText, options);
             config = config with { Signal = config.Signal.WithFilesFrom(folder) };
         }
-        catch (InputException ex) { rejected.Add(ex.Problem); }
+        catch (InputException ex) { rejected.Add(config?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
         try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options), PlanFile); }
         catch (InputException ex) { rejected.Add(ex.Problem); }
@@ -91,6 +91,7 @@ public static class SeriesRunner
     /// <param name="allowOutsideFiles">Read the export even when it resolves outside <paramref name="folder"/>.</param>
     public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config, bool allowOutsideFiles)
     {
+        RunExport? export = null;
         try
         {
             // Only a regular file inside the series folder, checked from its metadata before anything is opened.
@@ -105,7 +106,6 @@ public static class SeriesRunner
                     "the export named in plan.csv", "check the file column of plan.csv"));
             }
             string hash;
-            RunExport export;
             using (bytes)
             {
                 hash = Convert.ToHexStringLower(SHA256.HashData(bytes.Memory.Span));
@@ -123,7 +123,7 @@ public static class SeriesRunner
         }
         catch (InputException ex)
         {
-            return (null, ex.Problem);
+            return (null, Located(ex.Problem, row, config, export));
         }
         catch (Exception ex) when (ex is not OperationCanceledException)
         {
@@ -131,6 +131,24 @@ public static class SeriesRunner
             return (null, AtFileCell(row, $"an internal error while analysing {Fail.Quote(row.File)} ({ex.GetType().Name}: {ex.Message})", "a readable export",
                 "please report this with the file attached"));
         }
+    }
+
+    /// <summary>
+    /// A problem raised after reading, by a stage that sees numbers but no lines, gets a location: a settings problem
+    /// the key in series.toml, a plan-row problem its row's first column, a problem with the file before it was read
+    /// the plan's cell, a problem with the whole trace the line where the export's data begin (the found text says
+    /// which lines hold them).
+    /// </summary>
+    private static Problem Located(Problem p, PlanRow row, SeriesConfig config, RunExport? export)
+    {
+        if (p.Line > 0) return p.Column > 0 ? p : p with { Column = 1 };
+        if (p.Key is not null) return config.Locate(p) with { Input = p.Input ?? row.File };
+        // before the export was read (a file that changed between the check and the read): the plan's cell
+        if (export is null) return AtFileCell(row, $"{Fail.Quote(row.File)}: {p.Found}", p.Expected, p.Hint);
+        var (first, last) = export.DataLines;
+        if (p.File == row.File && first > 0)
+            return p with { Line = first, Column = 1, Found = $"{p.Found} (data rows on lines {first}–{last})" };
+        return p;
     }
 
     private static RunTrace SeriesTrace(RunResult r) =>

@@ -112,7 +112,7 @@ internal static class DelimitedReader
         foreach (var c in constant)
             warnings.Add(new Warning("constant-signal", file, $"channel {Fail.Quote(c.Header)} does not change (lines {rows.FirstLine}–{rows.LastLine})"));
 
-        return new RunExport(file, channels, auxiliary, metadata, detected, warnings);
+        return new RunExport(file, channels, auxiliary, metadata, detected, warnings) { DataLines = (rows.FirstLine, rows.LastLine) };
     }
 
     private static int TimeColumnIndex(string[] header, DelimitedLayout layout, IngestSettings settings, string file)
