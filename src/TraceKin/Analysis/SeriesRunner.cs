@@ -25,16 +25,17 @@ public static class SeriesRunner
     {
         options ??= new AnalysisOptions();
         var rejected = new List<Problem>();
-        SeriesConfig? config = null;
+        SeriesConfig? config = null, read = null;
         Plan? plan = null;
         try
         {
             var configText = ReadSetup(folder, ConfigFile, options);
-            config = SeriesConfig.FromText(configText, ConfigFile);
-            CheckNamedFiles(folder, config, configText, options);
-            config = config with { Signal = config.Signal.WithFilesFrom(folder) };
+            read = SeriesConfig.FromText(configText, ConfigFile);
+            CheckNamedFiles(folder, read, configText, options);
+            // the series is analysed only once the files series.toml names are read too
+            config = read with { Signal = read.Signal.WithFilesFrom(folder) };
         }
-        catch (InputException ex) { rejected.Add(config?.Locate(ex.Problem) ?? ex.Problem); }
+        catch (InputException ex) { rejected.Add(read?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
         try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options), PlanFile); }
         catch (InputException ex) { rejected.Add(ex.Problem); }

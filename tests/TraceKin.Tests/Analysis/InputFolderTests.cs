@@ -186,4 +186,44 @@ public sealed class InputFolderTests(ITestOutputHelper output) : IDisposable
         Assert.Equal(("r005.csv", lines.Length, lines[^1].IndexOf(',') + 2), (p.File, p.Line, p.Column));
         Assert.EndsWith("a number cut short", p.Found);
     }
+
+    private string CalibratedToml(string file)
+    {
+        var toml = TraceKin.Tests.Watch.SeriesFixture.GoodToml.Replace("kind = \"absorbance\"", "kind = \"calibrated\"", StringComparison.Ordinal);
+        foreach (var key in new[] { "molar_absorptivity = 1480\n", "path_length = 1.0\n", "blank = 0.045\n" })
+            toml = toml.Replace(key, "", StringComparison.Ordinal);
+        File.WriteAllText(Path.Combine(_s.Outside, "std.csv"), "signal,[complex] (mmol/L)\n0.003,0\n0.205,1\n0.398,2\n0.607,3\n0.801,4\n");
+        return toml + $"\n[signal.calibration]\nfile = \"{file}\"\n";
+    }
+
+    [Fact]
+    public void A_calibration_file_outside_the_folder_is_refused_at_its_value_in_series_toml()
+    {
+        var toml = CalibratedToml("../outside/std.csv");
+        _s.Write("series.toml", toml);
+        var p = Assert.Single(_s.Analyse().Rejected);
+        var lines = toml.Split('\n');
+        var line = Array.FindIndex(lines, l => l.StartsWith("file = ", StringComparison.Ordinal)) + 1;
+        Assert.Equal(("series.toml", line, 8, "signal.calibration.file"), (p.File, p.Line, p.Column, p.Key));
+        Assert.StartsWith("\"../outside/std.csv\", a path that resolves to ", p.Found);
+        Assert.Contains("outside the series folder", p.Found);
+    }
+
+    [Fact]
+    public void A_calibration_file_outside_is_read_with_the_opt_in()
+    {
+        _s.Write("series.toml", CalibratedToml("../outside/std.csv"));
+        Assert.DoesNotContain(_s.Analyse(allowOutside: true).Rejected, p => p.File == "series.toml");
+    }
+
+    [Fact]
+    public void A_series_folder_reached_through_a_link_still_reads_its_own_files()
+    {
+        // the folder is compared by its real path too, so a link to the whole series is not "outside"
+        var link = Path.Combine(_s.Root, "series-link");
+        Directory.CreateSymbolicLink(link, _s.Folder);
+        var result = TraceKin.Analysis.SeriesRunner.Analyse(link, new TraceKin.Analysis.AnalysisOptions { Workers = 1 });
+        Assert.Empty(result.Rejected);
+        Assert.Equal(ProbeSeries.GoodRuns, result.Runs.Count);
+    }
 }
