@@ -14,15 +14,16 @@ public static class AnalyseCommand
         var output = new Option<DirectoryInfo>("--out", "-o") { Description = "Folder for summary.json, runs.csv, plots/ and the log.", Required = true };
         var noPlots = new Option<bool>("--no-plots") { Description = "Skip the PNG plots (numbers only)." };
         var workers = new Option<int>("--workers") { Description = "Runs analysed at once (default: number of cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        var outside = new Option<bool>("--allow-outside-files") { Description = "Also read files that plan.csv or series.toml name outside the series folder (after following links)." };
         var cmd = new Command("analyse", "Analyse one series folder: initial rates, fits, orders, rate constant, plots.")
         {
-            series, output, noPlots, workers,
+            series, output, noPlots, workers, outside,
         };
-        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers)));
+        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers), pr.GetValue(outside)));
         return cmd;
     }
 
-    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers)
+    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers, bool allowOutsideFiles = false)
     {
         if (!series.Exists)
         {
@@ -37,12 +38,12 @@ public static class AnalyseCommand
         Directory.CreateDirectory(output.FullName);
         using var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(output.FullName, "tracekin.log"));
         log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
-        var result = Analyse(series.FullName, output.FullName, plots, workers, log);
+        var result = Analyse(series.FullName, output.FullName, plots, workers, log, allowOutsideFiles);
         return result.Rejected.Count == 0 ? ExitCodes.Ok : ExitCodes.SomeRejected;
     }
 
     /// <summary>Analyse and write every output; shared by `analyse` and `watch`.</summary>
-    public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log)
+    public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false)
     {
         // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
         using var plotFiles = new OutputQueue();
@@ -55,6 +56,7 @@ public static class AnalyseCommand
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
             Progress = progress.Report,
+            AllowOutsideFiles = allowOutsideFiles,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
         // The series outputs are independent of each other: write them side by side while the run plots drain to

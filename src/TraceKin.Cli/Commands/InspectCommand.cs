@@ -38,7 +38,7 @@ public static class InspectCommand
         var rejected = 0;
         foreach (var file in files)
         {
-            output.WriteLine(file.Name);
+            output.WriteLine(Shown(file.Name));
             try
             {
                 var (settings, source) = SettingsFor(file, settingsFile);
@@ -49,12 +49,12 @@ public static class InspectCommand
             catch (InputException ex)
             {
                 rejected++;
-                output.WriteLine($"  rejected: {ex.Problem.Message}");
+                output.WriteLine(Shown($"  rejected: {ex.Problem.Message}"));
             }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
                 rejected++;
-                output.WriteLine($"  rejected: {file.Name}: could not be read ({ex.Message})");
+                output.WriteLine(Shown($"  rejected: {file.Name}: could not be read ({ex.Message})"));
             }
             output.WriteLine();
         }
@@ -74,26 +74,29 @@ public static class InspectCommand
         foreach (var (key, value) in run.Detected)
         {
             if (key.StartsWith("column ", StringComparison.Ordinal)) continue;
-            o.WriteLine($"  {key,-20} {value}");
+            o.WriteLine(Shown($"  {key,-20} {value}"));
         }
         if (run.Metadata.Count > 0)
         {
             o.WriteLine("  metadata");
-            foreach (var (key, value) in run.Metadata) o.WriteLine($"    {key,-18} {value}");
+            foreach (var (key, value) in run.Metadata) o.WriteLine(Shown($"    {key,-18} {value}"));
         }
         o.WriteLine("  columns");
         foreach (var (key, value) in run.Detected.Where(d => d.Key.StartsWith("column ", StringComparison.Ordinal)))
-            o.WriteLine($"    {key["column ".Length..],-18} {value}");
+            o.WriteLine(Shown($"    {key["column ".Length..],-18} {value}"));
         o.WriteLine("  traces");
-        foreach (var t in run.Channels) o.WriteLine("    " + Describe(t, "channel"));
-        foreach (var t in run.Auxiliary) o.WriteLine("    " + Describe(t, "auxiliary"));
+        foreach (var t in run.Channels) o.WriteLine(Shown("    " + Describe(t, "channel")));
+        foreach (var t in run.Auxiliary) o.WriteLine(Shown("    " + Describe(t, "auxiliary")));
         if (run.Warnings.Count == 0) o.WriteLine("  warnings             none");
         else
         {
             o.WriteLine("  warnings");
-            foreach (var w in run.Warnings) o.WriteLine($"    [{w.Code}] {w}");
+            foreach (var w in run.Warnings) o.WriteLine(Shown($"    [{w.Code}] {w}"));
         }
     }
+
+    /// <summary>A line of input text (headers, metadata, names) with control characters shown as visible escapes.</summary>
+    private static string Shown(string line) => PrintableText.Escape(line);
 
     private static string Describe(Trace t, string role)
     {

@@ -80,7 +80,7 @@ public static class WatchCommand
         using var onTerm = PosixSignalRegistration.Create(PosixSignal.SIGTERM, ctx => { ctx.Cancel = true; stop.Cancel(); });
         var loop = new WatchLoop(options, ledger, TimeProvider.System, log, line =>
         {
-            Console.Error.WriteLine(line);
+            Console.Error.WriteLine(Traces.PrintableText.Escape(line));
             log.Information("{Status}", line);
         });
         if (!options.Once) Console.Error.WriteLine($"tracekin watch: watching {options.Inbox} (Ctrl+C to stop)");

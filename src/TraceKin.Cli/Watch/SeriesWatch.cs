@@ -30,6 +30,7 @@ public sealed class SeriesWatch
     private readonly Action<string> _status;
     private readonly Dictionary<string, (FileSignature Signature, string Sha256)> _snapshot = new(StringComparer.Ordinal);
     private readonly HashSet<string> _unreadable = new(StringComparer.Ordinal);
+    private readonly Dictionary<string, InputRefusal> _refused = new(StringComparer.Ordinal);
     private bool _cleaned;
     private DateTimeOffset? _settlingSince;
 
@@ -69,17 +70,32 @@ public sealed class SeriesWatch
         foreach (var setup in new[] { SeriesRunner.PlanFile, SeriesRunner.ConfigFile })
         {
             if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } sig) return SeriesPass.Vanished;
+            if (Refusal(setup) is { } refused)
+            {
+                // a pipe, device or link out of the folder is never opened; said once, looked at again later
+                if (_unreadable.Add(setup)) _log.Warning("{Series}/{File} is not read: found {Found}; expected {Expected}", Name, setup, refused.Found, refused.Expected);
+                recheck = Earliest(recheck, now + _options.Settle);
+                setupTaken = false;
+                continue;
+            }
             if (TryTake(setup, sig, now, ref recheck, out var sha)) inputs[setup] = sha;
             else setupTaken = false;
         }
         if (!setupTaken) return new SeriesPass(false, false, recheck, _ledger.Latest(Name));
 
         var plan = ReadSetup();
+        _refused.Clear();
         if (plan is not null)
         {
             foreach (var file in plan.Rows.Select(r => r.File).Distinct(StringComparer.Ordinal))
             {
-                if (!IsInside(file)) continue;
+                // Only regular files inside the series folder are copied (no link out of it, no pipe or device,
+                // checked before any open); a missing one is waited for, like one still being written.
+                if (Refusal(file) is { Missing: false } refused)
+                {
+                    _refused[file] = refused;
+                    continue;
+                }
                 var raw = Path.Combine(_folder, file);
                 if (FileSignature.Of(raw) is not { } sig)
                 {
@@ -197,12 +213,7 @@ public sealed class SeriesWatch
         }
     }
 
-    private bool IsInside(string file)
-    {
-        var full = Path.GetFullPath(Path.Combine(_folder, file));
-        var root = Path.GetFullPath(_folder) + Path.DirectorySeparatorChar;
-        return full.StartsWith(root, StringComparison.Ordinal);
-    }
+    private InputRefusal? Refusal(string file) => SeriesInputs.Check(_folder, file, allowOutside: false, Ingest.ExportReader.MaxBytes, out _);
 
     private static bool SameState(LedgerRecord committed, IReadOnlyDictionary<string, string> inputs, SortedSet<string> pending) =>
         committed.Inputs.Count == inputs.Count
@@ -228,10 +239,12 @@ public sealed class SeriesWatch
         var result = SeriesRunner.Analyse(_snapshotDir, options);
 
         // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for.
-        var waiting = result.Rejected.Where(p => pending.Contains(p.File) && p.Line == 0).ToList();
+        var waiting = result.Rejected.Where(p => p.Input is { } f && pending.Contains(f)).ToList();
+        // A file refused in the inbox is missing from the copy: report why it was refused, not that the copy lacks it.
         result = result with
         {
-            Rejected = result.Rejected.Except(waiting).ToList(),
+            Rejected = result.Rejected.Except(waiting)
+                .Select(p => p.Input is { } f && _refused.TryGetValue(f, out var r) ? p with { Found = r.Found, Expected = r.Expected, Hint = r.Hint } : p).ToList(),
             Warnings = result.Warnings.Concat(pending.Select(f => new Warning("export-pending", f,
                 "named in plan.csv but not (yet) complete in the inbox; it is analysed as soon as it has settled"))).ToList(),
         };
@@ -254,7 +267,7 @@ public sealed class SeriesWatch
         foreach (var (file, sha) in inputs)
         {
             var isNew = committed?.Input(file)?.Sha256 != sha;
-            var problem = result.Rejected.FirstOrDefault(p => p.File == file);
+            var problem = result.Rejected.FirstOrDefault(p => (p.Input ?? p.File) == file);
             var isSetup = file is SeriesRunner.PlanFile or SeriesRunner.ConfigFile;
             var status = problem is not null ? LedgerInput.Rejected : isSetup ? LedgerInput.Setup : LedgerInput.Analysed;
             records.Add(new LedgerInput(file, sha, status, isNew, problem?.Message));

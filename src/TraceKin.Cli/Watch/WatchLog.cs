@@ -13,6 +13,7 @@ public static class WatchLog
 
     public static Serilog.Core.Logger Create(string outDir, bool verbose = false) =>
         new LoggerConfiguration()
+            .Enrich.With<EscapeInputText>()
             .MinimumLevel.Is(verbose ? LogEventLevel.Debug : LogEventLevel.Information)
             .WriteTo.Console(restrictedToMinimumLevel: LogEventLevel.Error, standardErrorFromLevel: LogEventLevel.Verbose,
                 outputTemplate: "tracekin watch: {Message:lj}{NewLine}")

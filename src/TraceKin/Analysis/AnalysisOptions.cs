@@ -18,4 +18,9 @@ public sealed record AnalysisOptions
     public TraceRetention Retention { get; init; } = TraceRetention.Full;
     /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>
     public int RetainedColumns { get; init; } = 200;
+    /// <summary>
+    /// Read files that plan.csv or series.toml name even when they resolve (after symbolic links) outside the series
+    /// folder. Off by default: every input must lie inside the folder (see <see cref="Setup.SeriesInputs"/>).
+    /// </summary>
+    public bool AllowOutsideFiles { get; init; }
 }

@@ -25,16 +25,19 @@ public static class SeriesRunner
     {
         options ??= new AnalysisOptions();
         var rejected = new List<Problem>();
-        SeriesConfig? config = null;
+        SeriesConfig? config = null, read = null;
         Plan? plan = null;
         try
         {
-            config = SeriesConfig.FromFile(Path.Combine(folder, ConfigFile));
-            config = config with { Signal = config.Signal.WithFilesFrom(folder) };
+            var configText = ReadSetup(folder, ConfigFile, options);
+            read = SeriesConfig.FromText(configText, ConfigFile);
+            CheckNamedFiles(folder, read, configText, options);
+            // the series is analysed only once the files series.toml names are read too
+            config = read with { Signal = read.Signal.WithFilesFrom(folder) };
         }
-        catch (InputException ex) { rejected.Add(ex.Problem); }
+        catch (InputException ex) { rejected.Add(read?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
-        try { plan = Plan.FromFile(Path.Combine(folder, PlanFile)); }
+        try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options), PlanFile); }
         catch (InputException ex) { rejected.Add(ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
         if (config is null || plan is null)
@@ -44,7 +47,7 @@ public static class SeriesRunner
         Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            var (run, problem) = AnalyseRun(folder, row, config);
+            var (run, problem) = AnalyseRun(folder, row, config, options.AllowOutsideFiles);
             RunTrace? fitTrace = null;
             if (run is not null)
             {
@@ -90,21 +93,26 @@ public static class SeriesRunner
     }
 
     /// <summary>One run through Ingest → Signal → Rates; bad input becomes its located problem, never an exception.</summary>
-    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config)
+    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config) => AnalyseRun(folder, row, config, false);
+
+    /// <param name="allowOutsideFiles">Read the export even when it resolves outside <paramref name="folder"/>.</param>
+    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config, bool allowOutsideFiles)
     {
-        var path = Path.Combine(folder, row.File);
+        RunExport? export = null;
         try
         {
+            // Only a regular file inside the series folder, checked from its metadata before anything is opened.
+            if (SeriesInputs.Check(folder, row.File, allowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
+                return (null, AtFileCell(row, refusal.Found, refusal.Expected, refusal.Hint));
             // A pooled buffer, not a new large-object array per file: the bytes are not needed once parsed.
             ExportBytes bytes;
             try { bytes = ExportBytes.Read(path); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
-                return (null, new Problem(row.File, 0, 0, ex is FileNotFoundException ? "no such file" : "a file that cannot be read (" + ex.Message + ")",
-                    "the export named in plan.csv", $"check the file column of plan.csv (line {row.Line})"));
+                return (null, AtFileCell(row, ex is FileNotFoundException ? $"{Fail.Quote(row.File)}: no such file" : $"{Fail.Quote(row.File)}, a file that cannot be read ({ex.Message})",
+                    "the export named in plan.csv", "check the file column of plan.csv"));
             }
             string hash;
-            RunExport export;
             using (bytes)
             {
                 hash = Convert.ToHexStringLower(SHA256.HashData(bytes.Memory.Span));
@@ -122,14 +130,32 @@ public static class SeriesRunner
         }
         catch (InputException ex)
         {
-            return (null, ex.Problem);
+            return (null, Located(ex.Problem, row, config, export));
         }
         catch (Exception ex) when (ex is not OperationCanceledException)
         {
             // A defect of ours must not stop the batch: report it against the file, plainly.
-            return (null, new Problem(row.File, 0, 0, $"an internal error ({ex.GetType().Name}: {ex.Message})", "a readable export",
+            return (null, AtFileCell(row, $"an internal error while analysing {Fail.Quote(row.File)} ({ex.GetType().Name}: {ex.Message})", "a readable export",
                 "please report this with the file attached"));
         }
+    }
+
+    /// <summary>
+    /// A problem raised after reading, by a stage that sees numbers but no lines, gets a location: a settings problem
+    /// the key in series.toml, a plan-row problem its row's first column, a problem with the file before it was read
+    /// the plan's cell, a problem with the whole trace the line where the export's data begin (the found text says
+    /// which lines hold them).
+    /// </summary>
+    private static Problem Located(Problem p, PlanRow row, SeriesConfig config, RunExport? export)
+    {
+        if (p.Line > 0) return p.Column > 0 ? p : p with { Column = 1 };
+        if (p.Key is not null) return config.Locate(p) with { Input = p.Input ?? row.File };
+        // before the export was read (a file that changed between the check and the read): the plan's cell
+        if (export is null) return AtFileCell(row, $"{Fail.Quote(row.File)}: {p.Found}", p.Expected, p.Hint);
+        var (first, last) = export.DataLines;
+        if (p.File == row.File && first > 0)
+            return p with { Line = first, Column = 1, Found = $"{p.Found} (data rows on lines {first}–{last})" };
+        return p;
     }
 
     private static RunTrace SeriesTrace(RunResult r) =>
@@ -151,7 +177,39 @@ public static class SeriesRunner
     }
 
     private static Problem Missing(string file, IOException ex) =>
-        new(file, 0, 0, ex is FileNotFoundException or DirectoryNotFoundException ? "no such file" : ex.Message, $"{file} in the series folder", "see docs/formats.md");
+        new(file, 1, 1, ex is FileNotFoundException or DirectoryNotFoundException ? "no such file" : ex.Message, $"{file} in the series folder", "see docs/formats.md");
+
+    /// <summary>A problem with the file a plan row names, located at that row's file cell in plan.csv.</summary>
+    private static Problem AtFileCell(PlanRow row, string found, string expected, string hint) =>
+        new(PlanFile, row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
+
+    /// <summary>plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).</summary>
+    private static string ReadSetup(string folder, string name, AnalysisOptions options)
+    {
+        // A setup file is small; the export limit is only a guard against reading a disk image by mistake.
+        if (SeriesInputs.Check(folder, name, options.AllowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
+            throw Fail.At(name, 1, 1, refusal.Found, refusal.Expected, refusal.Hint);
+        return File.ReadAllText(path);
+    }
+
+    /// <summary>Files that series.toml names (the calibration standards) follow the rule for exports, located at the key's value.</summary>
+    private static void CheckNamedFiles(string folder, SeriesConfig config, string configText, AnalysisOptions options)
+    {
+        if (config.Signal.Calibration?.File is not { } file) return;
+        if (SeriesInputs.Check(folder, file, options.AllowOutsideFiles, ExportReader.MaxBytes, out _) is not { } refusal) return;
+        var (line, column) = TomlValueAt(configText, file);
+        throw new InputException(new Problem(ConfigFile, line, column, refusal.Found, refusal.Expected, refusal.Hint, "signal.calibration.file"));
+    }
+
+    /// <summary>1-based line and column of the first quoted occurrence of <paramref name="value"/> in TOML text (1, 1 when absent).</summary>
+    private static (int Line, int Column) TomlValueAt(string text, string value)
+    {
+        var lines = text.Replace("\r\n", "\n").Split('\n');
+        for (var i = 0; i < lines.Length; i++)
+            foreach (var quoted in new[] { $"\"{value}\"", $"'{value}'" })
+                if (lines[i].IndexOf(quoted, StringComparison.Ordinal) is var at and >= 0) return (i + 1, at + 1);
+        return (1, 1);
+    }
 
     private static IEnumerable<string> UnplannedExports(string folder, Plan plan)
     {

@@ -91,7 +91,14 @@ internal static class DelimitedReader
             // a constant column is judged on what the instrument wrote, before saturated points are taken out
             if (spec.Role == ColumnRole.Signal && IsConstant(trace.Values)) constant.Add(spec);
             else if (spec.Quantity == Quantity.Absorbance && spec.Role == ColumnRole.Signal)
+            {
                 trace = SaturationCheck.Apply(trace, r => rows.RowLines[r], settings, file, warnings);
+                // located here, at the channel's header, rather than as a sample count later with no line to name
+                if (trace.Count < 3)
+                    throw Fail.At(file, layout.HeaderLine, layout.HeaderColumns[spec.Index],
+                        $"channel {Fail.Quote(spec.Header)} with {n - trace.Count} of its {n} readings stuck at the detector's ceiling, leaving {trace.Count}",
+                        "at least 3 readings below saturation", "dilute the sample or use a shorter path length; ingest.saturation_absorbance sets the threshold");
+            }
             channels.Add(trace);
         }
         var signals = kept.Count(c => c.Role == ColumnRole.Signal);
@@ -105,7 +112,7 @@ internal static class DelimitedReader
         foreach (var c in constant)
             warnings.Add(new Warning("constant-signal", file, $"channel {Fail.Quote(c.Header)} does not change (lines {rows.FirstLine}–{rows.LastLine})"));
 
-        return new RunExport(file, channels, auxiliary, metadata, detected, warnings);
+        return new RunExport(file, channels, auxiliary, metadata, detected, warnings) { DataLines = (rows.FirstLine, rows.LastLine) };
     }
 
     private static int TimeColumnIndex(string[] header, DelimitedLayout layout, IngestSettings settings, string file)

@@ -25,17 +25,29 @@ public sealed class ExportBytes : IDisposable
     public ReadOnlyMemory<byte> Memory => (_buffer ?? throw new ObjectDisposedException(nameof(ExportBytes))).AsMemory(0, _length);
 
     /// <summary>
-    /// Reads a whole export. A missing file or one above <see cref="ExportReader.MaxBytes"/> is an <see cref="InputException"/>
-    /// naming <paramref name="path"/>'s file name; other IO failures throw as <see cref="File.ReadAllBytes"/> would.
+    /// Reads a whole export. A missing file, anything but a regular file (a pipe or device, refused before it is opened,
+    /// since opening or reading it could block or never end) or a file whose metadata gives more than
+    /// <see cref="ExportReader.MaxBytes"/> is an <see cref="InputException"/> naming <paramref name="path"/>'s file name
+    /// (at line 1, column 1: the file as a whole); other IO failures throw as <see cref="File.ReadAllBytes"/> would.
     /// </summary>
     public static ExportBytes Read(string path)
     {
         var name = Path.GetFileName(path);
-        if (!File.Exists(path)) throw Fail.At(name, 0, 0, "no such file", "an export file", $"looked for {path}");
+        switch (Setup.SeriesInputs.KindOf(path, out var size))
+        {
+            case Setup.SeriesInputs.FileKind.Missing:
+                throw Fail.At(name, 1, 1, "no such file", "an export file", $"looked for {path}");
+            case Setup.SeriesInputs.FileKind.Regular:
+                break;
+            default:
+                throw Fail.At(name, 1, 1, "not a regular file (a folder, pipe, device or socket)", "an export file", "a pipe or device is never opened");
+        }
+        if (size > ExportReader.MaxBytes)
+            throw Fail.At(name, 1, 1, $"a file of {size:N0} bytes", $"at most {ExportReader.MaxBytes:N0} bytes", "is this a time-course export?");
         using var handle = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read, FileOptions.SequentialScan);
         var length = RandomAccess.GetLength(handle);
         if (length > ExportReader.MaxBytes)
-            throw Fail.At(name, 0, 0, $"a file of {length:N0} bytes", $"at most {ExportReader.MaxBytes:N0} bytes", "is this a time-course export?");
+            throw Fail.At(name, 1, 1, $"a file of {length:N0} bytes", $"at most {ExportReader.MaxBytes:N0} bytes", "is this a time-course export?");
         var buffer = ArrayPool<byte>.Shared.Rent(Math.Max(1, (int)length));
         try
         {
@@ -46,7 +58,7 @@ public sealed class ExportBytes : IDisposable
                 if (total == buffer.Length)
                 {
                     if (total >= ExportReader.MaxBytes)
-                        throw Fail.At(name, 0, 0, $"a file of more than {ExportReader.MaxBytes:N0} bytes", $"at most {ExportReader.MaxBytes:N0} bytes", "is this a time-course export?");
+                        throw Fail.At(name, 1, 1, $"a file of more than {ExportReader.MaxBytes:N0} bytes", $"at most {ExportReader.MaxBytes:N0} bytes", "is this a time-course export?");
                     var larger = ArrayPool<byte>.Shared.Rent((int)Math.Min(2L * buffer.Length, ExportReader.MaxBytes));
                     buffer.AsSpan(0, total).CopyTo(larger);
                     ArrayPool<byte>.Shared.Return(buffer);

@@ -76,7 +76,8 @@ internal static class FastRow
                     }
                     i++;
                 }
-                else if (i < len && text[i] != (byte)'\n' && text[i] != (byte)'\r')
+                // a row that ends the text without a line break goes to the general path, which checks for a cut-off number
+                else if (i >= len || (text[i] != (byte)'\n' && text[i] != (byte)'\r'))
                     ok = false;
             }
             if (!ok) break;
@@ -113,7 +114,8 @@ internal static class FastRow
             var i = pos;
             if (!PlainNumber.TryRead(text, ref i, separator, out var raw) || i >= len || text[i] != delimiter) break;
             i++;
-            if (!PlainNumber.TryRead(text, ref i, separator, out var value) || (i < len && text[i] != (byte)'\n' && text[i] != (byte)'\r')) break;
+            // a row that ends the text without a line break goes to the general path, which checks for a cut-off number
+            if (!PlainNumber.TryRead(text, ref i, separator, out var value) || i >= len || (text[i] != (byte)'\n' && text[i] != (byte)'\r')) break;
             var time = timeUnit.ToInternal(raw);
             if (!(time > previous)) break;
             times[n] = time;

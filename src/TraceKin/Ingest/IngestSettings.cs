@@ -24,6 +24,11 @@ public sealed record IngestSettings
     public string? TimeZeroKey { get; init; }
     /// <summary>"error" (default), "average" (rows sharing a time are averaged) or "first" (later duplicates dropped).</summary>
     public string DuplicateTimes { get; init; } = "error";
+    /// <summary>
+    /// "error" (default): an export whose last row is incomplete (fewer cells than the header, or a number cut short at
+    /// the very end of the file) is rejected; "drop": that row is left out with a located warning.
+    /// </summary>
+    public string CutLastRow { get; init; } = "error";
     /// <summary>Absorbance at or above which a run of identical values is taken as a saturated detector; 0 turns the check off.</summary>
     public double SaturationAbsorbance { get; init; } = 2.5;
     /// <summary>How many identical consecutive values make a saturation plateau.</summary>
@@ -45,6 +50,7 @@ public sealed record IngestSettings
             TimeZero = s.Choice("time_zero", "auto", "auto", "first-sample", "metadata"),
             TimeZeroKey = s.String("time_zero_key"),
             DuplicateTimes = s.Choice("duplicate_times", "error", "error", "average", "first"),
+            CutLastRow = s.Choice("cut_last_row", "error", "error", "drop"),
             SaturationAbsorbance = s.Double("saturation_absorbance", 2.5),
             SaturationPoints = s.Int("saturation_points") ?? 3,
             IgnoreColumns = s.Strings("ignore_columns") ?? [],

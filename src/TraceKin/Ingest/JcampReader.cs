@@ -181,7 +181,7 @@ internal static class JcampReader
         if (yQuantity == Quantity.Absorbance) trace = SaturationCheck.Apply(trace, k => pointLines[k], settings, file, warnings);
         if (values.All(v => v == values[0]))
             throw Fail.At(file, dataLine + 1, 1, $"a constant signal (every value {Fmt(ys[0])})", "a signal that changes with time", "was the instrument recording?");
-        return new RunExport(file, [trace], [], metadata, detected, warnings);
+        return new RunExport(file, [trace], [], metadata, detected, warnings) { DataLines = (pointLines[0], pointLines[^1]) };
     }
 
     private static AsdfForms ReadXyData(List<(int Line, string Text)> dataLines, string file, int dataLine, double xFactor, double yFactor,

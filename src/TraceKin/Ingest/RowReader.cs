@@ -99,7 +99,8 @@ internal sealed class RowReader
                     break;
                 }
             }
-            ReadRow(line, lines.LineNumber, cellBuffer, headerCount);
+            // a line that ends the text has no line break after it: it may be an export cut off while being written
+            ReadRow(line, lines.LineNumber, cellBuffer, headerCount, lines, unterminated: start + length == span.Length);
         }
         if (_time is null)
             throw Fail.At(_file, _layout.HeaderLine + 1, 1, "no data rows after the header", "numeric rows", "the export may be empty or cut off");
@@ -159,11 +160,24 @@ internal sealed class RowReader
         lines.MoveTo(position, lineNumber);
     }
 
-    private void ReadRow(ReadOnlySpan<byte> line, int lineNumber, Cell[] cells, int headerCount)
+    private void ReadRow(ReadOnlySpan<byte> line, int lineNumber, Cell[] cells, int headerCount, TextLines lines, bool unterminated)
     {
         var n = CellSplitter.Split(line, _layout.Delimiter, cells, _file, lineNumber);
         if (n == headerCount + 1 && cells[headerCount].Length == 0 && !cells[headerCount].Quoted) n = headerCount;
+        if (n < headerCount && OnlyBlankLinesFollow(lines))
+        {
+            if (CutLastRow(lineNumber, LineColumn.ColumnIn(line, line.Length), $"a last row of {n} cell{(n == 1 ? "" : "s")}{(unterminated ? " with no line break after it" : "")}",
+                $"{headerCount} cells, as in the header on line {_layout.HeaderLine}")) return;
+        }
         if (n != headerCount) Ragged(line, lineNumber, n, cells, headerCount);
+        if (unterminated && !cells[n - 1].Quoted && IsCutNumber(line.Slice(cells[n - 1].Start, cells[n - 1].Length)))
+        {
+            var cut = line.Slice(cells[n - 1].Start, cells[n - 1].Length);
+            if (CutLastRow(lineNumber, LineColumn.ColumnIn(line, cells[n - 1].Start),
+                cut.IsEmpty ? "an empty last cell at the very end of the file (no line break after it)"
+                    : $"{Fail.Quote(System.Text.Encoding.UTF8.GetString(cut))} at the very end of the file (no line break after it), a number cut short",
+                "a complete number in the last cell")) return;
+        }
         if (Count == 0) FirstLine = lineNumber;
         if (!_decimalForced && DecimalLine == 0) DecideDecimal(line, lineNumber, cells, headerCount);
 
@@ -172,6 +186,7 @@ internal sealed class RowReader
         _time ??= TimeFormFor(timeBytes, lineNumber, LineColumn.ColumnIn(line, timeCell.Start));
         if (!_time.TryRead(timeBytes, Decimal, out var t))
             BadTime(line, lineNumber, timeCell);
+        if (!(Math.Abs(t) <= MaxMagnitude)) throw TooLarge(lineNumber, LineColumn.ColumnIn(line, timeCell.Start), timeBytes);
 
         if (Count > 0)
         {
@@ -228,8 +243,12 @@ internal sealed class RowReader
     {
         var bytes = line.Slice(cell.Start, cell.Length);
         var status = NumberCell.TryParse(bytes, Decimal, out var v);
-        if (status == NumberStatus.Ok) return v;
         var column = LineColumn.ColumnIn(line, cell.Start);
+        if (status == NumberStatus.Ok)
+        {
+            if (Math.Abs(v) <= MaxMagnitude) return v;
+            throw TooLarge(lineNumber, column, bytes);
+        }
         var found = Fail.Quote(System.Text.Encoding.UTF8.GetString(bytes));
         var sep = Decimal == (byte)',' ? "comma" : "point";
         throw status switch
@@ -310,6 +329,78 @@ internal sealed class RowReader
                 ? "decimal commas in a comma-delimited file must be quoted (\"0,02\"); or export with ; as delimiter"
                 : "an extra delimiter in the row? quote cells that contain the delimiter";
         throw Fail.At(_file, lineNumber, column, $"{n} cell{(n == 1 ? "" : "s")}", $"{headerCount} cells, as in the header on line {_layout.HeaderLine}", hint);
+    }
+
+    /// <summary>
+    /// Largest magnitude accepted in a cell (and of a time in seconds). No instrument reads 1e100 of anything, and the
+    /// fits square and sum values: numbers near the double limit (~1.8e308) would overflow to infinity there, far from
+    /// any line number. The fast path cannot produce such numbers (its largest is below 1e38), so it needs no check.
+    /// </summary>
+    public const double MaxMagnitude = 1e100;
+
+    private InputException TooLarge(int lineNumber, int column, ReadOnlySpan<byte> bytes) =>
+        Fail.At(_file, lineNumber, column, $"{Fail.Quote(System.Text.Encoding.UTF8.GetString(bytes))}, a number beyond ±1e100", "a reading of magnitude at most 1e100",
+            "no instrument reads such a value; is the cell damaged, or the unit in the header wrong?");
+
+    /// <summary>True when every line after the current one is blank: the current row is the export's last.</summary>
+    private bool OnlyBlankLinesFollow(TextLines lines)
+    {
+        var mark = lines.Mark();
+        try
+        {
+            var span = _text.Span;
+            while (lines.Next(out var s, out var l))
+                if (DelimitedLayout.KindOf(span.Slice(s, l)) != LineKind.Blank) return false;
+            return true;
+        }
+        finally
+        {
+            lines.Restore(mark);
+        }
+    }
+
+    /// <summary>
+    /// A cell that ends the file in the middle of a number: empty, a sign alone, or digits followed by a decimal
+    /// separator or an exponent mark with no digits after it ("12.", "12,", "1.2e", "1.2e-").
+    /// </summary>
+    internal static bool IsCutNumber(ReadOnlySpan<byte> cell)
+    {
+        if (cell.IsEmpty) return true;
+        var body = cell[0] is (byte)'+' or (byte)'-' ? cell[1..] : cell;
+        if (body.IsEmpty) return true; // a sign alone
+        if (body[^1] is (byte)'+' or (byte)'-')
+        {
+            // an exponent sign with nothing after it: "1.2e-"
+            body = body[..^1];
+            if (body.IsEmpty || (body[^1] | 0x20) != (byte)'e') return false;
+        }
+        var last = body[^1];
+        var separator = last is (byte)'.' or (byte)',';
+        if (!separator && (last | 0x20) != (byte)'e') return false;
+        int digits = 0, separators = 0;
+        foreach (var b in body[..^1])
+        {
+            if ((uint)(b - '0') <= 9) digits++;
+            else if (b is (byte)'.' or (byte)',') separators++;
+            else return false;
+        }
+        return digits > 0 && separators <= (separator ? 0 : 1);
+    }
+
+    /// <summary>
+    /// The export's last row is incomplete: a located error, or, with ingest.cut_last_row = "drop", a located
+    /// warning and the row left out (true).
+    /// </summary>
+    private bool CutLastRow(int lineNumber, int column, string found, string expected)
+    {
+        if (_settings.CutLastRow == "drop")
+        {
+            Warnings.Add(new Warning("cut-last-row", $"{_file}:{lineNumber}:{column}",
+                $"found {found}, expected {expected}; the row on line {lineNumber} was left out (ingest.cut_last_row = \"drop\")"));
+            return true;
+        }
+        throw Fail.At(_file, lineNumber, column, found, expected,
+            "the export looks cut off (saved or copied while it was still being written?); export it again, or set ingest.cut_last_row = \"drop\" to analyse it without its last row");
     }
 
     private void Grow()

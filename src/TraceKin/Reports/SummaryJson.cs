@@ -136,6 +136,7 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteNumber("line", p.Line);
             w.WriteNumber("column", p.Column);
             if (p.Key is not null) w.WriteString("key", p.Key);
+            if (p.Input is not null) w.WriteString("input", p.Input);
             w.WriteString("found", p.Found);
             w.WriteString("expected", p.Expected);
             w.WriteString("hint", p.Hint);

@@ -11,7 +11,11 @@ public sealed record PlanRow(
     double? TemperatureK,
     IReadOnlyDictionary<string, double> InitialConcentrations,
     IReadOnlyDictionary<string, string> Extra,
-    int Line);
+    int Line)
+{
+    /// <summary>1-based column number where the row's file cell starts (for messages about the file it names).</summary>
+    public int FileColumn { get; init; } = 1;
+}
 
 /// <summary>
 /// plan.csv: the series' run table. Columns `run`, `file`, `temperature (unit)` and one `[X]0 (unit)` per species;
@@ -108,7 +112,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                 conc[sp] = v;
             }
             var ex = extra.ToDictionary(e => e.Name, e => cells[e.Col].Trim(), StringComparer.Ordinal);
-            rows.Add(new PlanRow(run, fileName, temp, conc, ex, i + 1));
+            rows.Add(new PlanRow(run, fileName, temp, conc, ex, i + 1) { FileColumn = Col(line, delimiter, fileCol) });
         }
         if (rows.Count == 0)
             throw Fail.At(file, headerIndex + 2, 1, "no run rows", "one row per run under the header");

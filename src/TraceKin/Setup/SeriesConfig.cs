@@ -21,6 +21,19 @@ public sealed record SeriesConfig(
     RateSettings Rates,
     ModelSettings Model)
 {
+    /// <summary>The text the settings were read from, to locate a settings problem found later (see <see cref="TomlKeyLocation"/>).</summary>
+    public string? Text { get; init; }
+
+    /// <summary>A problem named by a series.toml key (this file's, or an export's conflict with a key) located at that key.</summary>
+    public Problem Locate(Problem p)
+    {
+        if (p.Key is null || p.Line > 0 || Text is null) return p;
+        var (line, column) = TomlKeyLocation.Find(Text, p.Key);
+        return p.File == File
+            ? p with { Line = line, Column = column }
+            : p with { File = File, Line = line, Column = column, Found = $"{Fail.Quote(p.File)}: {p.Found}", Input = p.Input ?? p.File };
+    }
+
     public static SeriesConfig FromFile(string path) =>
         FromText(System.IO.File.ReadAllText(path), System.IO.Path.GetFileName(path));
 
@@ -34,22 +47,29 @@ public sealed record SeriesConfig(
         catch (Exception ex) when (ex is not InputException)
         {
             var (line, col) = LocationOf(ex.Message);
-            throw Fail.At(file, line, col, "text that is not valid TOML (" + FirstLine(ex.Message) + ")", "TOML key = value lines and [tables]", "see docs/formats.md");
+            throw Fail.At(file, Math.Max(1, line), Math.Max(1, col), "text that is not valid TOML (" + FirstLine(ex.Message) + ")", "TOML key = value lines and [tables]", "see docs/formats.md");
         }
-        var root = new TomlSection(file, "", table);
-        var name = root.String("name", "");
-        var description = root.String("description", "");
-        var sections = new List<TomlSection>();
-        TomlSection Sec(string key) { var s = root.Section(key); sections.Add(s); return s; }
-        var config = new SeriesConfig(file, name, description,
-            IngestSettings.FromToml(Sec("ingest")),
-            SignalSettings.FromToml(Sec("signal")),
-            RateSettings.FromToml(Sec("rates")),
-            ModelSettings.FromToml(Sec("model")));
-        foreach (var s in sections.Prepend(root))
-            foreach (var k in s.UnreadKeys)
-                throw Fail.Setting(file, s.KeyName(k), "a key TraceKin does not know", "one of the keys listed in docs/formats.md", "check the spelling");
-        return config;
+        try
+        {
+            var root = new TomlSection(file, "", table);
+            var name = root.String("name", "");
+            var description = root.String("description", "");
+            var sections = new List<TomlSection>();
+            TomlSection Sec(string key) { var s = root.Section(key); sections.Add(s); return s; }
+            var config = new SeriesConfig(file, name, description,
+                IngestSettings.FromToml(Sec("ingest")),
+                SignalSettings.FromToml(Sec("signal")),
+                RateSettings.FromToml(Sec("rates")),
+                ModelSettings.FromToml(Sec("model")));
+            foreach (var s in sections.Prepend(root))
+                foreach (var k in s.UnreadKeys)
+                    throw Fail.Setting(file, s.KeyName(k), "a key TraceKin does not know", "one of the keys listed in docs/formats.md", "check the spelling");
+            return config with { Text = text };
+        }
+        catch (InputException ex) when (ex.Problem.Key is not null && ex.Problem.Line == 0)
+        {
+            throw new InputException(TomlKeyLocation.Locate(ex.Problem, text));
+        }
     }
 
     private static (int Line, int Col) LocationOf(string message)

@@ -1,11 +1,20 @@
 namespace TraceKin.Traces;
 
 /// <summary>
-/// A located reason why an input was rejected. Line and column are 1-based numbers (0 = not applicable).
+/// A located reason why an input was rejected. Line and column are 1-based numbers; a problem with a file as a whole
+/// (empty, missing) is at line 1, column 1, and a problem with a file that a plan.csv cell names is at that cell
+/// (<see cref="Input"/> names the file). Only a settings problem built before its key was located carries 0
+/// (<see cref="Fail.Setting"/>); SeriesConfig locates it in series.toml.
 /// <paramref name="Key"/> names the setting (e.g. <c>signal.path_length</c>) when the problem is in series.toml.
 /// </summary>
 public sealed record Problem(string File, int Line, int Column, string Found, string Expected, string Hint, string? Key = null)
 {
+    /// <summary>
+    /// The input this problem rejects when the problem is located in another file: an export that plan.csv names
+    /// (<see cref="File"/> is then plan.csv, with the line and column of the cell). Null when it is <see cref="File"/> itself.
+    /// </summary>
+    public string? Input { get; init; }
+
     public string Message
     {
         get

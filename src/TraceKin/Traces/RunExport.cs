@@ -15,6 +15,9 @@ public sealed record RunExport(
     IReadOnlyList<KeyValuePair<string, string>> Detected,
     IReadOnlyList<Warning> Warnings)
 {
+    /// <summary>1-based numbers of the first and last line holding data (0 when not known), to locate a problem with the whole trace.</summary>
+    public (int First, int Last) DataLines { get; init; }
+
     /// <summary>The channel of that name (case-insensitive), or the only channel when name is null.</summary>
     public Trace Channel(string? name)
     {

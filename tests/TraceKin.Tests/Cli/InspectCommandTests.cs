@@ -64,4 +64,17 @@ public sealed class InspectCommandTests : IDisposable
         Assert.Equal(0, root.Parse(["inspect", f.FullName]).Invoke());
         Assert.Equal(2, root.Parse(["inspect", f.FullName, Path.Combine(_dir.FullName, "missing.csv")]).Invoke());
     }
+
+    [Fact]
+    public void Inspect_shows_control_characters_from_the_export_as_visible_escapes()
+    {
+        // an invented preamble value carrying a terminal "clear screen" sequence and a bell
+        var f = Write("r1.csv", "operator: MK\u001B[2J\u0007\ntime (s),A520\n0,0.50\n1,0.45\n2,0.41\n");
+        var output = new StringWriter();
+        Assert.Equal(0, InspectCommand.Run([f], null, output));
+        var text = output.ToString();
+        Assert.DoesNotContain("\u001B", text, StringComparison.Ordinal);
+        Assert.DoesNotContain("\u0007", text, StringComparison.Ordinal);
+        Assert.Contains(@"MK\x1B[2J\x07", text, StringComparison.Ordinal);
+    }
 }

@@ -40,14 +40,14 @@ public class BadInputTests
     }
 
     [Fact]
-    public void Truncated_last_row_is_a_ragged_row_error_with_a_hint()
+    public void Truncated_last_row_is_a_cut_row_error_with_a_hint()
     {
         var p = Rejects("time (s),A520,A600\n0,0.5,0.1\n1,0.4,0.2\n2,0.3");
         Assert.Equal(4, p.Line);
         Assert.Equal(6, p.Column); // just past the end of the short row
-        Assert.Equal("2 cells", p.Found);
+        Assert.Equal("a last row of 2 cells with no line break after it", p.Found);
         Assert.Contains("3 cells", p.Expected);
-        Assert.Contains("truncated", p.Hint);
+        Assert.Contains("cut off", p.Hint);
     }
 
     [Fact]

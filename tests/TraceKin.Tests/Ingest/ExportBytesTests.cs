@@ -62,4 +62,50 @@ public class ExportBytesTests
         Assert.Equal(Path.GetFileName(path), problem.File);
         Assert.Contains("no such file", problem.Message);
     }
+
+    [Fact]
+    public async Task A_pipe_given_as_an_export_is_refused_before_it_is_opened()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"tracekin-fifo-{Guid.NewGuid():N}.csv");
+        if (TraceKin.Tests.Analysis.ProbeSeries.MakeFifo(path, out var reason) is null)
+        {
+            Assert.True(Environment.GetEnvironmentVariable("CI") is null, $"cannot make a FIFO: {reason}; CI requires this check");
+            return; // nothing to check without a pipe (the reason is in the assertion above when CI is set)
+        }
+        try
+        {
+            // ExportBytes.Read would block in open(2) if it opened the pipe; it refuses it from its metadata instead.
+            // The minute is a guard against that hang, not a speed check.
+            var read = Task.Run(() => Assert.Throws<InputException>(() => ExportReader.FromFile(path, IngestSettings.Default)).Problem);
+            if (await Task.WhenAny(read, Task.Delay(TimeSpan.FromMinutes(1))) != read)
+            {
+                using (new FileStream(path, FileMode.Open, FileAccess.Write)) { }
+                Assert.Fail("reading the pipe blocked: it was opened");
+            }
+            var problem = await read;
+            Assert.Equal((Path.GetFileName(path), 1, 1), (problem.File, problem.Line, problem.Column));
+            Assert.StartsWith("not a regular file", problem.Found);
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
+    [Fact]
+    public void An_export_whose_metadata_exceeds_the_limit_is_refused_before_reading()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"tracekin-sparse-{Guid.NewGuid():N}.csv");
+        try
+        {
+            using (var fs = File.Create(path)) fs.SetLength(ExportReader.MaxBytes + 1); // sparse: no data written
+            var problem = Assert.Throws<InputException>(() => ExportBytes.Read(path)).Problem;
+            Assert.Equal("a file of 1,073,741,825 bytes", problem.Found);
+            Assert.Equal((1, 1), (problem.Line, problem.Column));
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
 }
