@@ -21,7 +21,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     private static readonly HashSet<string> KnownFindings =
     [
         nameof(SeriesFindings.Orders), nameof(SeriesFindings.RateConstant), nameof(SeriesFindings.RateConstantAtFittedOrders),
-        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
+        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
         nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
     ];
 
@@ -137,8 +137,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
                     .Raw($"<td class=\"num\">{o.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", o.Method).Raw("</tr>\n");
             }
             h.Raw("</tbody>\n</table>\n");
+            foreach (var v in f.OrderVerdicts)
+                h.Element("p", v.Text + ".", $"class=\"note verdict\" data-verdict=\"{v.Verdict}\"");
             if (f.RoundedOrders is { Count: > 0 } ro)
-                h.Element("p", "Every order's 95 % interval contains a simple value, so the headline k is computed at the rounded orders: " +
+                h.Element("p", "Every order is equivalent to a simple value within the practical margin, so the headline k is computed at the rounded orders: " +
                     string.Join(", ", ro.OrderBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => $"n({kv.Key}) = {kv.Value.ToString(CultureInfo.InvariantCulture)}")) + ".", "class=\"note\"");
         }
         if (f.RateConstant is { } k || f.RateConstantAtFittedOrders is not null)

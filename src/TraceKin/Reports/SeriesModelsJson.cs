@@ -45,6 +45,27 @@ public static class SeriesModelsJson
                 w.WriteEndObject();
             }
             else w.WriteNull("roundedOrders");
+            w.WriteStartArray("orderVerdicts");
+            foreach (var v in f.OrderVerdicts)
+            {
+                w.WriteStartObject();
+                w.WriteString("species", v.Species);
+                Num(w, "order", v.Order);
+                Num(w, "simpleValue", v.SimpleValue);
+                w.WriteString("verdict", v.Verdict switch
+                {
+                    OrderVerdictKind.Equivalent => "equivalent",
+                    OrderVerdictKind.ConsistentButImprecise => "consistent-but-imprecise",
+                    _ => "different",
+                });
+                Num(w, "margin", v.Margin);
+                Pair(w, "ci90", v.Ci90Low, v.Ci90High);
+                Num(w, "pLower", v.PLower);
+                Num(w, "pUpper", v.PUpper);
+                w.WriteString("text", v.Text);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
             RateConstant(w, "rateConstantAtFittedOrders", f.RateConstantAtFittedOrders);
             w.WriteStartArray("curvature");
             foreach (var c in f.Curvature)
@@ -56,6 +77,9 @@ public static class SeriesModelsJson
                 w.WriteNumber("dof", c.Dof);
                 Num(w, "pValue", c.PValue);
                 w.WriteBoolean("significant", c.Significant);
+                Num(w, "localOrderAtLowest", c.LocalOrderAtLowest);
+                Num(w, "localOrderAtHighest", c.LocalOrderAtHighest);
+                w.WriteBoolean("relevant", c.Relevant);
                 w.WriteEndObject();
             }
             w.WriteEndArray();

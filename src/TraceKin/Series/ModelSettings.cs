@@ -30,12 +30,25 @@ public sealed record ModelSettings
     /// <summary>Also fit the power law to every run's whole concentration–time course at once (slower).</summary>
     public bool GlobalFit { get; init; }
 
+    /// <summary>Practical margin on an order: an order is rounded only when shown equivalent to a simple value within
+    /// ±this (two one-sided tests), and a curved log–log plot is flagged only when the local order changes by more.</summary>
+    public double OrderMargin { get; init; } = OrderEquivalence.DefaultMargin;
+
     /// <summary>Keep runs whose initial rate is unresolved (estimates in conflict, wrong sign) in the series fits.</summary>
     public bool UseUnresolved { get; init; }
 
     public bool Fits(string law) => Laws.Contains(law, StringComparer.Ordinal);
 
     public static ModelSettings Default { get; } = new();
+
+    private static double Margin(TomlSection s)
+    {
+        var m = s.Double("order_margin", OrderEquivalence.DefaultMargin);
+        if (!(m > 0 && m <= 0.25))
+            throw Fail.Setting(s.File, s.KeyName("order_margin"), m.ToString(System.Globalization.CultureInfo.InvariantCulture),
+                "a margin on an order above 0 and at most 0.25 (half the step between simple orders), e.g. 0.05");
+        return m;
+    }
 
     public static ModelSettings FromToml(TomlSection s)
     {
@@ -60,6 +73,7 @@ public sealed record ModelSettings
             EyringTemperatureK = teyring ?? 298.15,
             GlobalFit = s.Bool("global_fit") ?? false,
             UseUnresolved = s.Bool("use_unresolved") ?? false,
+            OrderMargin = Margin(s),
         };
     }
 }

@@ -106,11 +106,15 @@ public static class OrderAnalysis
             orders = logLogOrders;
         }
 
-        // Rounded orders: only when every interval holds a simple value; k is then refitted there and both are shown.
-        var rounded = orders.ToDictionary(o => o.Species, o => SimpleOrders.MinBy(s => Math.Abs(s - o.Value)));
-        var useRounded = settings.RoundOrders && orders.All(o => o.Ci95Low <= rounded[o.Species] && rounded[o.Species] <= o.Ci95High);
+        // Rounded orders: only when every order is shown equivalent to a simple value within the practical margin (two
+        // one-sided tests); k is then refitted there and both are shown.
+        var verdicts = orders.Select(o => OrderEquivalence.Judge(o, settings.OrderMargin)).ToList();
+        var rounded = verdicts.ToDictionary(v => v.Species, v => v.SimpleValue);
+        var useRounded = settings.RoundOrders && verdicts.All(v => v.Verdict == OrderVerdictKind.Equivalent);
         if (settings.RoundOrders && !useRounded)
-            warnings.Add(new Warning("orders-not-simple", "series", "not every order's 95 % interval contains a simple value (0, ½, 1, 3/2, 2); k is given at the fitted orders"));
+            warnings.Add(new Warning("orders-not-simple", "series", "not every order is shown equivalent to a simple value (0, ½, 1, 3/2, 2) within ±" +
+                settings.OrderMargin.ToString("0.###", System.Globalization.CultureInfo.InvariantCulture) + ", so k is given at the fitted orders: " +
+                string.Join("; ", verdicts.Where(v => v.Verdict != OrderVerdictKind.Equivalent).Select(v => v.Text))));
         var fitted = orders.ToDictionary(o => o.Species, o => o.Value);
         var atOrders = useRounded ? rounded : fitted;
 
@@ -129,7 +133,7 @@ public static class OrderAnalysis
             return new RunRateConstant(r.RunId, r.Rate / denom, r.RateStdError / denom);
         }).ToArray();
 
-        var curvature = PowerLawCurvature.Check(usable, lnc, varied, groups, weights, warnings);
+        var curvature = PowerLawCurvature.Check(usable, lnc, varied, groups, weights, warnings, settings.OrderMargin);
         SaturationFindings? saturation = null;
         var chosen = ModelSettings.Power;
         if (settings.Fits(ModelSettings.Saturation))
@@ -162,6 +166,7 @@ public static class OrderAnalysis
             PowerLawFit = power,
             Design = design,
             Curvature = curvature,
+            OrderVerdicts = verdicts,
             Saturation = saturation,
             ChosenLaw = chosen,
             Temperature = temperature,

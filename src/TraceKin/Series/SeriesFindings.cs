@@ -63,7 +63,14 @@ public sealed record DesignCheck(IReadOnlyList<string> Species, double Condition
 /// Systematic curvature of ln v0 against ln[X]0: the coefficient c of (ln[X]0 − mean)² added to the log–log model, its
 /// standard error and two-sided p-value. A significant c means the power law is the wrong shape for this species.
 /// </summary>
-public sealed record CurvatureCheck(string Species, double Quadratic, double StdError, int Dof, double PValue, bool Significant);
+public sealed record CurvatureCheck(string Species, double Quadratic, double StdError, int Dof, double PValue, bool Significant)
+{
+    /// <summary>Local order d ln v0/d ln[X]0 = n + 2c·(ln[X]0 − mean) at the lowest and the highest [X]0 measured.</summary>
+    public double LocalOrderAtLowest { get; init; } = double.NaN;
+    public double LocalOrderAtHighest { get; init; } = double.NaN;
+    /// <summary>True when the local order changes across the measured range by more than the practical margin.</summary>
+    public bool Relevant { get; init; }
+}
 
 /// <summary>
 /// The double-reciprocal (1/v0 against 1/[S]0) straight line, shown only as a cross-check of the saturation fit, never
@@ -145,6 +152,8 @@ public sealed record SeriesFindings(
     public FitResult? PowerLawFit { get; init; }
     public DesignCheck? Design { get; init; }
     public IReadOnlyList<CurvatureCheck> Curvature { get; init; } = [];
+    /// <summary>Each fitted order judged against the simple values within the practical margin (OrderEquivalence).</summary>
+    public IReadOnlyList<OrderVerdict> OrderVerdicts { get; init; } = [];
     public SaturationFindings? Saturation { get; init; }
     public string ChosenLaw { get; init; } = "power";
     public TemperatureFindings? Temperature { get; init; }
