@@ -26,6 +26,7 @@ public sealed class WatchLoop(WatchOptions options, Ledger ledger, TimeProvider 
     private TaskCompletionSource _wake = new(TaskCreationOptions.RunContinuationsAsynchronously);
     private volatile bool _rescanWanted = true;
 
+    private static readonly TimeSpan RetryFloor = TimeSpan.FromSeconds(1);
     private readonly SortedSet<string> _failed = new(StringComparer.Ordinal);
     private readonly Dictionary<string, int> _rejected = new(StringComparer.Ordinal);
 
@@ -58,7 +59,8 @@ public sealed class WatchLoop(WatchOptions options, Ledger ledger, TimeProvider 
                 {
                     // The pass failed: try again later (with --once, report it instead of trying for ever).
                     _failed.Add(d.Name);
-                    if (!options.Once) entry.Due = Earliest(entry.Due, d.Pass?.RecheckAt ?? now + options.Settle);
+                    // Not sooner than a second, so a lasting failure with a zero settle interval does not spin.
+                    if (!options.Once) entry.Due = Earliest(entry.Due, now + (options.Settle > RetryFloor ? options.Settle : RetryFloor));
                 }
                 else if (d.Pass.Gone)
                 {
