@@ -42,7 +42,7 @@ public sealed class OutputLock : IDisposable
         {
             stream = new FileStream(path, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
         }
-        catch (IOException) when (File.Exists(path))
+        catch (IOException) when (HeldByAnother(path))
         {
             refusal = $"another tracekin ({Owner(ownerPath)}) is already writing to {outDir}; wait until it has finished, or choose another --out folder (lock file {path})";
             return null;
@@ -61,6 +61,22 @@ public sealed class OutputLock : IDisposable
         }
         refusal = null;
         return new OutputLock(stream, ownerPath);
+    }
+
+    /// <summary>
+    /// Whether a failed open was another process's lock, not another trouble (a read-only file system, say): a shared
+    /// open for reading is refused only while someone holds the file exclusively.
+    /// </summary>
+    private static bool HeldByAnother(string path)
+    {
+        if (!File.Exists(path)) return false;
+        try
+        {
+            using var probe = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
+            return false;
+        }
+        catch (IOException) { return true; }
+        catch (UnauthorizedAccessException) { return false; }
     }
 
     /// <summary>"process 1234, tracekin analyse", from the owner file; a plain phrase when it cannot be read.</summary>

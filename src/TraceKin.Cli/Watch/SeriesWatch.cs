@@ -227,7 +227,7 @@ public sealed class SeriesWatch
         var wanted = new HashSet<string>(keep.Select(k => Path.GetFullPath(Path.Combine(_snapshotDir, k))), StringComparer.Ordinal);
         // The snapshot folder must be our own real folder before anything in it is deleted.
         OutputPaths.EnsureFolder(_options.Out, _snapshotDir);
-        foreach (var f in Directory.EnumerateFiles(_snapshotDir, "*", SearchOption.AllDirectories))
+        foreach (var f in OutputPaths.FilesBelow(_snapshotDir))
         {
             if (wanted.Contains(Path.GetFullPath(f))) continue;
             File.Delete(f);
@@ -375,7 +375,7 @@ public sealed class SeriesWatch
     /// <summary>Temporary files of an atomic write that a killed process never renamed (only ever ours: the lock is held).</summary>
     private void RemoveOrphanTemporaries()
     {
-        foreach (var f in Directory.EnumerateFiles(_outDir, ".*.tmp", SearchOption.AllDirectories))
+        foreach (var f in OutputPaths.FilesBelow(_outDir, ".*.tmp"))
         {
             if (new FileInfo(f).LinkTarget is not null) continue;
             try { File.Delete(f); }
@@ -386,10 +386,11 @@ public sealed class SeriesWatch
     private List<LedgerOutput> HashOutputs()
     {
         var outputs = new List<LedgerOutput>();
-        foreach (var f in Directory.EnumerateFiles(_outDir, "*", SearchOption.AllDirectories).Order(StringComparer.Ordinal))
+        foreach (var f in OutputPaths.FilesBelow(_outDir).Order(StringComparer.Ordinal))
         {
             var rel = Path.GetRelativePath(_outDir, f).Replace('\\', '/');
             if (rel.Split('/').Any(part => part.StartsWith('.'))) continue;
+            if (new FileInfo(f).LinkTarget is not null) continue; // not ours, and never read through
             try
             {
                 using var fs = new FileStream(f, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);

@@ -76,6 +76,20 @@ public static class OutputPaths
         Directory.CreateDirectory(full);
     }
 
+    /// <summary>
+    /// The files below <paramref name="folder"/>, recursively, without following or listing links: a recursive listing
+    /// of the runtime goes into a linked folder, and deleting or hashing what it lists would reach outside.
+    /// </summary>
+    public static IEnumerable<string> FilesBelow(string folder, string pattern = "*") =>
+        Directory.EnumerateFiles(folder, pattern, new EnumerationOptions
+        {
+            RecurseSubdirectories = true,
+            AttributesToSkip = FileAttributes.ReparsePoint,
+            MatchType = MatchType.Win32,
+            MatchCasing = MatchCasing.PlatformDefault,
+            IgnoreInaccessible = false,
+        });
+
     private static OutputPathException Link(string path, string target, string what) =>
         new($"{path} is a symbolic link (to {target}) where TraceKin writes a {what}; TraceKin never writes through a link inside the output folder — remove the link or choose another output folder");
 }

@@ -81,4 +81,17 @@ public sealed class AtomicFileTests : IDisposable
         var ex = Assert.Throws<OutputPathException>(() => AtomicFile.WriteAllBytes(Path.Combine(_out.Path, "plots", "a.png"), [1], root: _out.Path));
         Assert.Contains("is a file where TraceKin needs a folder", ex.Message, StringComparison.Ordinal);
     }
+
+    [Fact]
+    public void Listing_the_files_below_an_output_folder_does_not_go_into_linked_folders_or_list_linked_files()
+    {
+        Directory.CreateDirectory(Path.Combine(_out.Path, "plots"));
+        File.WriteAllText(Path.Combine(_out.Path, "plots", "a.png"), "ours");
+        File.WriteAllText(Path.Combine(_elsewhere.Path, "b.png"), "not ours");
+        Directory.CreateSymbolicLink(Path.Combine(_out.Path, "linked"), _elsewhere.Path);
+        File.CreateSymbolicLink(Path.Combine(_out.Path, "plots", "c.png"), Path.Combine(_elsewhere.Path, "b.png"));
+        Assert.Equal([Path.Combine(_out.Path, "plots", "a.png")], OutputPaths.FilesBelow(_out.Path).ToArray());
+        // The runtime's own recursive listing does go through the link, which is why FilesBelow exists.
+        Assert.Contains(Path.Combine(_out.Path, "linked", "b.png"), Directory.EnumerateFiles(_out.Path, "*", SearchOption.AllDirectories));
+    }
 }

@@ -187,7 +187,8 @@ public class SeriesWatchTests
         b.Clock.Advance(Settle);
         Assert.False(b.Watch.Pass().Analysed); // t0 + 1 settle: setup taken, exports first seen
         // From t0 + 2 settle intervals on, the whole export has settled; the cut one has been unchanged for longer than
-        // the settle interval, but not yet for the longer one, so the series still waits for it.
+        // the settle interval (the plain rule would take it now), but not yet for the longer one, so the series waits.
+        Assert.True(FileStability.UnterminatedFactor >= 2);
         for (var k = 2; k <= FileStability.UnterminatedFactor; k++)
         {
             b.Clock.Advance(Settle);
@@ -200,5 +201,53 @@ public class SeriesWatchTests
         Assert.True(taken.Analysed);
         Assert.Contains(taken.Committed!.Inputs, i => i.File == SeriesFixture.FileOf(2));
         Assert.Empty(taken.Committed.Pending);
+    }
+
+    [Fact]
+    public void Cleaning_the_snapshot_never_deletes_through_a_link_planted_in_it()
+    {
+        using var b = new Bench();
+        WriteSeries(b.Folder, 2, seed: 1);
+        var elsewhere = SeriesFixture.TempFolder("elsewhere");
+        try
+        {
+            File.WriteAllText(Path.Combine(elsewhere, "precious.csv"), "keep");
+            Directory.CreateDirectory(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha"));
+            Directory.CreateSymbolicLink(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha", "linked"), elsewhere);
+            for (var i = 0; i < 3; i++)
+            {
+                b.Watch.Pass();
+                b.Clock.Advance(Settle);
+            }
+            Assert.Equal("keep", File.ReadAllText(Path.Combine(elsewhere, "precious.csv")));
+            Assert.NotNull(b.Ledger.Latest("alpha"));
+        }
+        finally { Directory.Delete(elsewhere, recursive: true); }
+    }
+
+    [Fact]
+    public void A_snapshot_folder_that_is_a_link_fails_the_pass_and_nothing_is_written_or_deleted_through_it()
+    {
+        using var b = new Bench();
+        WriteSeries(b.Folder, 2, seed: 1);
+        var elsewhere = SeriesFixture.TempFolder("elsewhere");
+        try
+        {
+            File.WriteAllText(Path.Combine(elsewhere, "precious.csv"), "keep");
+            Directory.CreateDirectory(Path.Combine(b.Out, SeriesWatch.WorkFolder));
+            Directory.CreateSymbolicLink(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha"), elsewhere);
+            Assert.Throws<TraceKin.Reports.OutputPathException>(() =>
+            {
+                for (var i = 0; i < 3; i++)
+                {
+                    b.Watch.Pass();
+                    b.Clock.Advance(Settle);
+                }
+            });
+            Assert.Equal(["precious.csv"], Directory.EnumerateFileSystemEntries(elsewhere).Select(Path.GetFileName));
+            Assert.Equal("keep", File.ReadAllText(Path.Combine(elsewhere, "precious.csv")));
+            Assert.Null(b.Ledger.Latest("alpha"));
+        }
+        finally { Directory.Delete(elsewhere, recursive: true); }
     }
 }
