@@ -97,7 +97,7 @@ public static class WatchCommand
             }
             using (log)
             using (ledger)
-                return Serve(options, log, ledger);
+                return Serve(options, log, ledger, error);
         }
     }
 
@@ -114,7 +114,7 @@ public static class WatchCommand
         OutputPaths.EnsureFolder(outDir, Path.Combine(outDir, SeriesWatch.WorkFolder));
     }
 
-    private static int Serve(WatchOptions options, Serilog.Core.Logger log, Ledger ledger)
+    private static int Serve(WatchOptions options, Serilog.Core.Logger log, Ledger ledger, TextWriter error)
     {
         if (ledger.IgnoredLines > 0)
             log.Warning("ignored {Count} incomplete line(s) of the ledger {Ledger} (an interrupted write)", ledger.IgnoredLines, ledger.Path);
@@ -126,10 +126,10 @@ public static class WatchCommand
         using var onTerm = PosixSignalRegistration.Create(PosixSignal.SIGTERM, ctx => { ctx.Cancel = true; stop.Cancel(); });
         var loop = new WatchLoop(options, ledger, TimeProvider.System, log, line =>
         {
-            Console.Error.WriteLine(line);
+            lock (error) error.WriteLine(line);
             log.Information("{Status}", line);
         });
-        if (!options.Once) Console.Error.WriteLine($"tracekin watch: watching {options.Inbox} (Ctrl+C to stop)");
+        if (!options.Once) error.WriteLine($"tracekin watch: watching {options.Inbox} (Ctrl+C to stop)");
         loop.RunAsync(stop.Token).GetAwaiter().GetResult();
         log.Information("stopped after {Count} analysis pass(es)", loop.Analyses);
 

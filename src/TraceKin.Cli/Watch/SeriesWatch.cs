@@ -332,6 +332,9 @@ public sealed class SeriesWatch
         _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
             Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
         Announce(record, result);
+        // An export that cannot be read is not an input of the record; say so once, when it first counts as rejected.
+        foreach (var p in unreadable.Where(p => committed?.Pending.Contains(p.File) != true))
+            _status($"{Name}/{p.File}: rejected — {p.Message}");
         return record;
     }
 

@@ -57,9 +57,12 @@ public sealed class WatchOnceTests : IDisposable
         Directory.CreateDirectory(Path.Combine(gamma, SeriesFixture.FileOf(3))); // a folder where the plan names an export
         Series("delta", 4);
 
-        var (code, _) = Once();
+        var (code, error) = Once();
 
         Assert.Equal(ExitCodes.SomeRejected, code);
+        Assert.Contains("gamma/r003.csv: rejected — r003.csv: found a file that cannot be read (a folder, not a file)", error, StringComparison.Ordinal);
+        Assert.Contains("beta/plan.csv: rejected", error, StringComparison.Ordinal);
+        Assert.Contains("alpha/r004.csv: analysed", error, StringComparison.Ordinal);
         foreach (var good in new[] { "alpha", "delta" })
         {
             using var s = Summary(good);
