@@ -7,7 +7,7 @@ namespace TraceKin.Tests.Reports;
 // File names derived from run ids: safe characters, bounded length, unique in a series (robustness, no source needed).
 public class RunFileNamesTests
 {
-    private static readonly System.Text.RegularExpressions.Regex Safe = new("^run-[A-Za-z0-9_][A-Za-z0-9._-]*\\.png$");
+    private static readonly System.Text.RegularExpressions.Regex Safe = new("^run-[A-Za-z0-9_-][A-Za-z0-9._-]{0,79}\\.png$");
 
     [Fact]
     public void A_plain_run_id_keeps_its_name()
@@ -30,6 +30,7 @@ public class RunFileNamesTests
     [InlineData("Lösung ü")]
     [InlineData("")]
     [InlineData(" ")]
+    [InlineData("-R1")]
     public void An_id_with_unsafe_characters_gives_a_safe_name_that_is_not_hidden(string id)
     {
         var name = RunFileNames.For([id]).PlotFile(id);
@@ -85,6 +86,8 @@ public class RunFileNamesTests
         using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir.Path, "summary.json")));
         var runs = doc.RootElement.GetProperty("runs").EnumerateArray().ToDictionary(r => r.GetProperty("id").GetString()!, r => r.GetProperty("plotFile").GetString()!);
         Assert.Equal(8, runs.Count);
+        using var schema = JsonDocument.Parse(File.ReadAllText(Path.Combine(RepoPaths.Docs, "summary.schema.json")));
+        Assert.Empty(SchemaCheck.Validate(schema.RootElement, doc.RootElement));
         Assert.Equal("plots/run-R3.png", runs["R3"]);
         Assert.True(runs[longId].Length <= "plots/".Length + 88);
         Assert.Equal(8, runs.Values.Distinct().Count());
