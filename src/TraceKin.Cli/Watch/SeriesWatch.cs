@@ -216,7 +216,8 @@ public sealed class SeriesWatch
         _unreadable.Remove(file);
         sha = Convert.ToHexStringLower(SHA256.HashData(bytes));
         // Through AtomicFile inside the output folder: a link planted in the snapshot is refused, never written through.
-        AtomicFile.WriteAllBytes(copy, bytes, _options.Out);
+        // Not flushed to disk: the snapshot is disposable, and a restart copies the inputs again.
+        AtomicFile.WriteAllBytes(copy, bytes, _options.Out, durable: false);
         _snapshot[file] = (sig, sha);
         return true;
     }

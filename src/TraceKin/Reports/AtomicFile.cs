@@ -10,7 +10,9 @@ namespace TraceKin.Reports;
 /// </summary>
 public static class AtomicFile
 {
-    public static void Write(string path, Action<Stream> write, string? root = null)
+    /// <param name="durable">Flush the file to disk before the rename (false for disposable copies: the rename still
+    /// hides a half-written file, but a power cut may lose the content).</param>
+    public static void Write(string path, Action<Stream> write, string? root = null, bool durable = true)
     {
         var full = Path.GetFullPath(path);
         var dir = OutputPaths.EnsureFileFolder(root ?? Path.GetDirectoryName(full)!, full);
@@ -21,7 +23,7 @@ public static class AtomicFile
             using (var fs = new FileStream(temp, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
             {
                 write(fs);
-                fs.Flush(flushToDisk: true);
+                fs.Flush(flushToDisk: durable);
             }
             // Checked again just before the rename: a link put there while we wrote is refused, not replaced.
             OutputPaths.CheckFile(full);
@@ -36,5 +38,5 @@ public static class AtomicFile
     public static void WriteAllText(string path, string text, string? root = null) =>
         Write(path, s => { var b = new System.Text.UTF8Encoding(false).GetBytes(text); s.Write(b); }, root);
 
-    public static void WriteAllBytes(string path, byte[] bytes, string? root = null) => Write(path, s => s.Write(bytes), root);
+    public static void WriteAllBytes(string path, byte[] bytes, string? root = null, bool durable = true) => Write(path, s => s.Write(bytes), root, durable);
 }
