@@ -21,7 +21,7 @@ public sealed class AnalyseOutputTests : IDisposable
     private static (int Code, string Error) Analyse(string outDir, bool plots = true)
     {
         var error = new StringWriter();
-        var code = AnalyseCommand.Run(new DirectoryInfo(Sample), new DirectoryInfo(outDir), plots, workers: 2, error);
+        var code = AnalyseCommand.Run(new DirectoryInfo(Sample), new DirectoryInfo(outDir), plots, workers: 2, error: error);
         return (code, error.ToString());
     }
 
