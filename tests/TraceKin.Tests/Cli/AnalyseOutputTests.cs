@@ -124,6 +124,31 @@ public sealed class AnalyseOutputTests : IDisposable
     }
 
     [Fact]
+    public void A_folder_where_report_html_goes_is_refused_before_anything_is_written()
+    {
+        var outDir = Path.Combine(_dir.Path, "out");
+        Directory.CreateDirectory(Path.Combine(outDir, "report.html"));
+        var (code, error) = Analyse(outDir);
+        Assert.Equal(ExitCodes.Usage, code);
+        Assert.Contains("report.html is a folder where TraceKin writes a file", error, StringComparison.Ordinal);
+        Assert.False(File.Exists(Path.Combine(outDir, "summary.json")));
+    }
+
+    [Fact]
+    public void A_run_plot_that_cannot_be_written_gives_exit_1_and_every_other_output_is_still_written()
+    {
+        var outDir = Path.Combine(_dir.Path, "out");
+        Directory.CreateDirectory(Path.Combine(outDir, "plots", "run-R2.png")); // a folder where the picture goes
+        var (code, error) = Analyse(outDir);
+        Assert.Equal(ExitCodes.CannotWrite, code);
+        Assert.Contains("1 output file(s) could not be written", error, StringComparison.Ordinal);
+        NoStackTrace(error);
+        foreach (var f in new[] { "summary.json", "runs.csv", "report.html", "plots/run-R1.png", "plots/run-R8.png", "plots/orders.png" })
+            Assert.True(File.Exists(Path.Combine(outDir, f)), f);
+        Assert.Contains("run-R2.png is a folder where TraceKin writes a file", File.ReadAllText(Path.Combine(outDir, AnalyseCommand.LogFile)), StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void An_analysis_into_an_out_whose_lock_is_held_is_refused_naming_the_holder_and_writes_nothing()
     {
         var outDir = Path.Combine(_dir.Path, "out");
