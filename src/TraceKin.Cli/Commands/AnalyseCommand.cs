@@ -19,44 +19,103 @@ public static class AnalyseCommand
         {
             series, output, noPlots, workers, outside,
         };
-        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers), pr.GetValue(outside)));
+        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers), allowOutsideFiles: pr.GetValue(outside)));
         return cmd;
     }
 
-    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers, bool allowOutsideFiles = false)
+    /// <summary>The files `analyse` writes directly into --out (plots/ holds the pictures).</summary>
+    public static readonly string[] OutputFiles = [SummaryJson.FileName, RunsCsv.FileName, ReportHtml.FileName, LogFile];
+
+    public const string LogFile = "tracekin.log";
+
+    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers, TextWriter? error = null, bool allowOutsideFiles = false)
     {
+        error ??= Console.Error;
         if (!series.Exists)
         {
-            Console.Error.WriteLine($"tracekin: series folder not found: {series.FullName}");
+            error.WriteLine($"tracekin: series folder not found: {series.FullName}");
             return ExitCodes.Usage;
         }
         if (workers < 1)
         {
-            Console.Error.WriteLine("tracekin: --workers must be at least 1");
+            error.WriteLine("tracekin: --workers must be at least 1");
             return ExitCodes.Usage;
         }
-        Directory.CreateDirectory(output.FullName);
-        using var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(output.FullName, "tracekin.log"));
-        log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
-        var result = Analyse(series.FullName, output.FullName, plots, workers, log, allowOutsideFiles);
-        return result.Rejected.Count == 0 ? ExitCodes.Ok : ExitCodes.SomeRejected;
+        var outDir = output.FullName;
+        OutputLock? held;
+        try
+        {
+            // One analysis per --out at a time: a second one would mix its files with ours and append to our log.
+            held = OutputLock.TryTake(outDir, "analyse", out var refusal);
+            if (held is null)
+            {
+                error.WriteLine($"tracekin: {refusal}");
+                return ExitCodes.Usage;
+            }
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            error.WriteLine($"tracekin: cannot use --out {outDir}: {ex.Message}");
+            return ExitCodes.Usage;
+        }
+        using (held)
+        {
+            try
+            {
+                // Everything analyse will write is checked before the first byte, so a refusal leaves --out as it was.
+                CheckOutputs(outDir);
+                int failures;
+                SeriesResult result;
+                using (var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(outDir, LogFile)))
+                {
+                    log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
+                    (result, failures) = Analyse(series.FullName, outDir, plots, workers, log, allowOutsideFiles);
+                }
+                if (failures > 0)
+                {
+                    error.WriteLine($"tracekin: {failures} output file(s) could not be written into {outDir} (see the messages above); the results there are incomplete");
+                    return ExitCodes.CannotWrite;
+                }
+                return result.Rejected.Count == 0 ? ExitCodes.Ok : ExitCodes.SomeRejected;
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                error.WriteLine($"tracekin: cannot write the results into {outDir}: {ex.Message}");
+                return ExitCodes.CannotWrite;
+            }
+        }
     }
 
-    /// <summary>Analyse and write every output; shared by `analyse` and `watch`.</summary>
-    public static SeriesResult Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false)
+    /// <summary>
+    /// Refuses (with <see cref="OutputPathException"/>) when a file or folder analyse writes is a symbolic link or of
+    /// the wrong kind: the fixed files, plots/ and every entry of plots/ that is a link.
+    /// </summary>
+    public static void CheckOutputs(string outDir)
     {
+        foreach (var f in OutputFiles) OutputPaths.CheckFile(Path.Combine(outDir, f));
+        var plotDir = new DirectoryInfo(Path.Combine(outDir, "plots"));
+        if (plotDir.LinkTarget is null && !plotDir.Exists) return;
+        OutputPaths.EnsureFolder(outDir, plotDir.FullName); // throws for a link or a file
+        foreach (var entry in plotDir.EnumerateFileSystemInfos())
+            if (entry.LinkTarget is not null) OutputPaths.CheckFile(entry.FullName);
+    }
+
+    /// <summary>Analyses and writes every output; returns the result and how many output files could not be written.</summary>
+    public static (SeriesResult Result, int Failures) Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false)
+    {
+        var failures = 0;
         // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
         using var plotFiles = new OutputQueue();
         var progress = new BatchProgress(log);
         using var runPlot = plots ? new RunPlot(outDir, plotFiles) : null;
         var options = new AnalysisOptions
         {
+            AllowOutsideFiles = allowOutsideFiles,
             Workers = workers,
             RunSink = runPlot,
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
             Progress = progress.Report,
-            AllowOutsideFiles = allowOutsideFiles,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
         // The series outputs are independent of each other: write them side by side while the run plots drain to
@@ -66,6 +125,7 @@ public static class AnalyseCommand
             try { writer.Write(result, outDir); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
+                Interlocked.Increment(ref failures);
                 log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
             }
         }
@@ -75,7 +135,10 @@ public static class AnalyseCommand
         var numbers = writers.Where(w => w is not ReportHtml && !isPlot(w)).Select(w => Task.Run(() => Write(w))).ToArray();
         Parallel.ForEach(writers.Where(isPlot), Write);
         foreach (var (path, error) in plotFiles.Complete())
+        {
+            failures++;
             log.Error("could not write {Plot}: {Message}", path, error);
+        }
         foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
         Task.WaitAll(numbers);
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
@@ -108,8 +171,10 @@ public static class AnalyseCommand
                 LogEstimate(log, "entropy of activation ΔS‡", ey.EntropyOfActivation);
             }
         }
+        // A run whose plot could not be drawn or handed over carries a run-output-failed warning.
+        failures += result.Runs.Sum(r => r.Warnings.Count(w => w.Code == "run-output-failed"));
         log.Information("{Analysed} run(s) analysed, {Rejected} rejected; results in {Out}", result.Runs.Count, result.Rejected.Count, outDir);
-        return result;
+        return (result, failures);
     }
 
     private static void LogEstimate(ILogger log, string name, TraceKin.Series.Estimate e) =>

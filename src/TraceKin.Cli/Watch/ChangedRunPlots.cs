@@ -9,26 +9,30 @@ namespace TraceKin.Cli.Watch;
 /// the tool version) or the picture is missing, so re-analysing a series after one new export redraws one plot,
 /// not all — also after a restart. What each plot was drawn from is kept in a small key file beside the snapshot,
 /// written after the picture, so a kill in between only costs one redraw. A plot that cannot be written is logged and
-/// counted, never thrown.
+/// counted, never thrown. Every file goes through <see cref="AtomicFile"/> inside the watcher's output folder
+/// <paramref name="root"/>.
 /// </summary>
-public sealed class ChangedRunPlots(string outDir, string keyDir, IReadOnlyDictionary<string, string> inputs, ILogger log) : IRunSink
+public sealed class ChangedRunPlots(string root, string outDir, string keyDir, IReadOnlyDictionary<string, string> inputs, ILogger log) : IRunSink
 {
     private readonly RunPlot _plot = new(outDir);
     private int _failures;
 
     public int Failures => Volatile.Read(ref _failures);
 
+    public void Begin(TraceKin.Setup.Plan plan) => _plot.Begin(plan);
+
     public void Accept(RunResult run)
     {
-        var name = RunPlot.FileNameFor(run.Id);
+        var name = _plot.FileNameOf(run.Id);
         var png = Path.Combine(outDir, "plots", name);
         var keyFile = Path.Combine(keyDir, name + ".key");
         var key = string.Join(' ', run.InputSha256, inputs.GetValueOrDefault(SeriesRunner.PlanFile), inputs.GetValueOrDefault(SeriesRunner.ConfigFile), SeriesRunner.ToolVersion);
         try
         {
-            if (File.Exists(png) && File.Exists(keyFile) && File.ReadAllText(keyFile) == key) return;
+            if (File.Exists(png) && new FileInfo(png).LinkTarget is null && File.Exists(keyFile) && new FileInfo(keyFile).LinkTarget is null
+                && File.ReadAllText(keyFile) == key) return;
             _plot.Accept(run);
-            AtomicFile.WriteAllText(keyFile, key);
+            AtomicFile.WriteAllText(keyFile, key, root);
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {

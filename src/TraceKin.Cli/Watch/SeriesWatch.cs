@@ -29,8 +29,11 @@ public sealed class SeriesWatch
     private readonly ILogger _log;
     private readonly Action<string> _status;
     private readonly Dictionary<string, (FileSignature Signature, string Sha256)> _snapshot = new(StringComparer.Ordinal);
-    private readonly HashSet<string> _unreadable = new(StringComparer.Ordinal);
     private readonly Dictionary<string, InputRefusal> _refused = new(StringComparer.Ordinal);
+    private readonly HashSet<string> _announcedRefusals = new(StringComparer.Ordinal);
+    // Planned exports (and setup files) that exist but cannot be read (with why); rejected once the series stops
+    // waiting for them, said once, looked at again later.
+    private readonly Dictionary<string, string> _unreadable = new(StringComparer.Ordinal);
     private bool _cleaned;
     private DateTimeOffset? _settlingSince;
 
@@ -65,23 +68,27 @@ public sealed class SeriesWatch
         var inputs = new SortedDictionary<string, string>(StringComparer.Ordinal);
         var pending = new SortedSet<string>(StringComparer.Ordinal);
         var settling = 0;
+        var changing = 0; // settling files that are not unreadable: still being written
 
         var setupTaken = true;
         foreach (var setup in new[] { SeriesRunner.PlanFile, SeriesRunner.ConfigFile })
         {
-            if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } sig) return SeriesPass.Vanished;
+            if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } found) return SeriesPass.Vanished;
             if (Refusal(setup) is { } refused)
             {
                 // a pipe, device or link out of the folder is never opened; said once, looked at again later
-                if (_unreadable.Add(setup)) _log.Warning("{Series}/{File} is not read: found {Found}; expected {Expected}", Name, setup, refused.Found, refused.Expected);
+                if (_unreadable.TryAdd(setup, refused.Found)) _log.Warning("{Series}/{File} is not read: found {Found}; expected {Expected}", Name, setup, refused.Found, refused.Expected);
                 recheck = Earliest(recheck, now + _options.Settle);
                 setupTaken = false;
                 continue;
             }
+            // The longer settle of a file without a final line end is for exports written row by row; the setup
+            // files are saved whole by an editor, and are often saved without a final line end.
+            var sig = found with { Unterminated = false };
             if (TryTake(setup, sig, now, ref recheck, out var sha)) inputs[setup] = sha;
             else setupTaken = false;
         }
-        if (!setupTaken) return new SeriesPass(false, false, recheck, _ledger.Latest(Name));
+        if (!setupTaken) return new SeriesPass(false, false, recheck, _ledger.Latest(Name)) { Waiting = true };
 
         var plan = ReadSetup();
         _refused.Clear();
@@ -101,12 +108,15 @@ public sealed class SeriesWatch
                 {
                     _stability.Forget(raw);
                     pending.Add(file);
+                    if (NotAFile(raw) is { } why) _unreadable[file] = why;
+                    else _unreadable.Remove(file);
                 }
                 else if (TryTake(file, sig, now, ref recheck, out var sha)) inputs[file] = sha;
                 else
                 {
                     pending.Add(file);
                     settling++;
+                    if (!_unreadable.ContainsKey(file)) changing++;
                 }
             }
         }
@@ -118,18 +128,41 @@ public sealed class SeriesWatch
         {
             _settlingSince ??= now;
             if (now - _settlingSince.Value < MaxWaitForSettling * _options.Settle)
-                return new SeriesPass(false, false, recheck, _ledger.Latest(Name));
+                return new SeriesPass(false, false, recheck, _ledger.Latest(Name)) { Waiting = true };
         }
         else _settlingSince = null;
 
+        var unreadable = pending.Count(_unreadable.ContainsKey);
         var committed = _ledger.Latest(Name);
         if (committed is not null && SameState(committed, inputs, pending) && File.Exists(Path.Combine(_outDir, SummaryJson.FileName)))
-            return new SeriesPass(false, false, recheck, committed);
+            return new SeriesPass(false, false, recheck, committed) { Rejected = RejectedIn(committed) + unreadable, Settling = changing > 0 };
 
         _settlingSince = null;
         var record = Analyse(committed, inputs, pending);
         if (record is null) recheck = Earliest(recheck, now + _options.Settle);
-        return new SeriesPass(false, record is not null, recheck, record ?? committed);
+        return new SeriesPass(false, record is not null, recheck, record ?? committed)
+        {
+            Failed = record is null,
+            Rejected = record is null ? 0 : RejectedIn(record) + unreadable,
+            Settling = changing > 0,
+        };
+    }
+
+    private static int RejectedIn(LedgerRecord record) => record.Inputs.Count(i => i.Status == LedgerInput.Rejected);
+
+    /// <summary>Why a planned path that is not a readable file can never become one by settling (a folder, a dangling link); null otherwise.</summary>
+    private static string? NotAFile(string path)
+    {
+        try
+        {
+            if (Directory.Exists(path)) return "a folder, not a file";
+            if (new FileInfo(path).LinkTarget is { } target) return $"a symbolic link to {target}, which does not exist";
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            return ex.Message;
+        }
+        return null;
     }
 
     /// <summary>Parses the snapshot's setup; null when either file is bad (the analysis then reports it).</summary>
@@ -155,7 +188,8 @@ public sealed class SeriesWatch
         sha = "";
         var raw = Path.Combine(_folder, file);
         var stableAt = _stability.Observe(raw, sig);
-        if (stableAt > now)
+        // Against the clock as read by the look itself (not the pass's start), so a zero settle interval takes a file at once.
+        if (stableAt > _time.GetUtcNow())
         {
             recheck = Earliest(recheck, stableAt);
             return false;
@@ -167,15 +201,20 @@ public sealed class SeriesWatch
             return true;
         }
         byte[] bytes;
-        try
+        if (sig.Length == 0)
+        {
+            // Nothing to read (and a named pipe, whose length is 0, is never opened: that would wait for a writer).
+            bytes = [];
+        }
+        else try
         {
             // Read-only, sharing everything, so the instrument can go on writing, renaming or deleting.
             using var fs = new FileStream(raw, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
-            var before = new FileSignature(fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
+            var before = (fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
             using var ms = new MemoryStream(before.Length > 0 && before.Length < int.MaxValue ? (int)before.Length : 0);
             fs.CopyTo(ms);
-            var after = new FileSignature(fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
-            if (before != sig || after != sig || ms.Length != sig.Length)
+            var after = (fs.Length, File.GetLastWriteTimeUtc(fs.SafeFileHandle));
+            if (before != (sig.Length, sig.LastWriteUtc) || after != before || ms.Length != sig.Length)
             {
                 // It changed between the look and the read: let it settle again.
                 _stability.Restart(raw);
@@ -187,15 +226,16 @@ public sealed class SeriesWatch
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
             // Said once per file (a writer holding it exclusively is normal for a while); tried again every settle interval.
-            if (_unreadable.Add(file)) _log.Warning("{Series}/{File} cannot be opened for reading yet: {Message}", Name, file, ex.Message);
+            if (_unreadable.TryAdd(file, ex.Message)) _log.Warning("{Series}/{File} cannot be opened for reading yet: {Message}", Name, file, ex.Message);
             _stability.Restart(raw);
             recheck = Earliest(recheck, now + _options.Settle);
             return false;
         }
         _unreadable.Remove(file);
         sha = Convert.ToHexStringLower(SHA256.HashData(bytes));
-        Directory.CreateDirectory(Path.GetDirectoryName(copy)!);
-        File.WriteAllBytes(copy, bytes);
+        // Through AtomicFile inside the output folder: a link planted in the snapshot is refused, never written through.
+        // Not flushed to disk: the snapshot is disposable, and a restart copies the inputs again.
+        AtomicFile.WriteAllBytes(copy, bytes, _options.Out, durable: false);
         _snapshot[file] = (sig, sha);
         return true;
     }
@@ -204,8 +244,9 @@ public sealed class SeriesWatch
     private void PruneSnapshot(IEnumerable<string> keep)
     {
         var wanted = new HashSet<string>(keep.Select(k => Path.GetFullPath(Path.Combine(_snapshotDir, k))), StringComparer.Ordinal);
-        if (!Directory.Exists(_snapshotDir)) return;
-        foreach (var f in Directory.EnumerateFiles(_snapshotDir, "*", SearchOption.AllDirectories))
+        // The snapshot folder must be our own real folder before anything in it is deleted.
+        OutputPaths.EnsureFolder(_options.Out, _snapshotDir);
+        foreach (var f in OutputPaths.FilesBelow(_snapshotDir))
         {
             if (wanted.Contains(Path.GetFullPath(f))) continue;
             File.Delete(f);
@@ -222,13 +263,25 @@ public sealed class SeriesWatch
 
     private LedgerRecord? Analyse(LedgerRecord? committed, SortedDictionary<string, string> inputs, SortedSet<string> pending)
     {
-        Directory.CreateDirectory(_outDir);
+        ChangedRunPlots? plots;
+        try
+        {
+            // The series' results folder and the plot keys' folder are real folders inside OUT before anything is written or removed.
+            OutputPaths.EnsureFolder(_options.Out, _outDir);
+            OutputPaths.EnsureFolder(_options.Out, _plotKeyDir);
+            if (_options.Plots) OutputPaths.EnsureFolder(_options.Out, Path.Combine(_outDir, "plots"));
+            plots = _options.Plots ? new ChangedRunPlots(_options.Out, _outDir, _plotKeyDir, inputs, _log) : null;
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            _log.Error("{Series}: not analysed, cannot write its results: {Message}", Name, ex.Message);
+            return null;
+        }
         if (!_cleaned)
         {
             RemoveOrphanTemporaries();
             _cleaned = true;
         }
-        var plots = _options.Plots ? new ChangedRunPlots(_outDir, _plotKeyDir, inputs, _log) : null;
         var options = new AnalysisOptions
         {
             Workers = Math.Max(1, _options.Workers),
@@ -238,14 +291,18 @@ public sealed class SeriesWatch
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var result = SeriesRunner.Analyse(_snapshotDir, options);
 
-        // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for.
+        // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for. One
+        // that is there but cannot be read (or is a folder, or a dangling link) is rejected, and tried again when it
+        // changes; a file refused in the inbox is missing from the copy: report why it was refused, not that the copy lacks it.
         var waiting = result.Rejected.Where(p => p.Input is { } f && pending.Contains(f)).ToList();
-        // A file refused in the inbox is missing from the copy: report why it was refused, not that the copy lacks it.
+        var unreadable = pending.Where(_unreadable.ContainsKey).Select(f => new Problem(f, 1, 1, $"a file that cannot be read ({_unreadable[f]})",
+            "an export the watcher can open for reading", "check the file (its permissions, or which program holds it); it is tried again when it changes") { Input = f }).ToList();
         result = result with
         {
             Rejected = result.Rejected.Except(waiting)
-                .Select(p => p.Input is { } f && _refused.TryGetValue(f, out var r) ? p with { Found = r.Found, Expected = r.Expected, Hint = r.Hint } : p).ToList(),
-            Warnings = result.Warnings.Concat(pending.Select(f => new Warning("export-pending", f,
+                .Select(p => p.Input is { } f && _refused.TryGetValue(f, out var r) ? p with { Found = r.Found, Expected = r.Expected, Hint = r.Hint } : p)
+                .Concat(unreadable).ToList(),
+            Warnings = result.Warnings.Concat(pending.Where(f => !_unreadable.ContainsKey(f)).Select(f => new Warning("export-pending", f,
                 "named in plan.csv but not (yet) complete in the inbox; it is analysed as soon as it has settled"))).ToList(),
         };
 
@@ -259,7 +316,15 @@ public sealed class SeriesWatch
                 _log.Error("{Series}: could not write {Writer} output: {Message}", Name, writer.GetType().Name, ex.Message);
             }
         }
-        if (result.Plan is not null) RemoveStalePlots(result);
+        if (result.Plan is not null && _options.Plots)
+        {
+            try { RemoveStalePlots(result); }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                failures++;
+                _log.Error("{Series}: could not remove the plots of runs no longer analysed: {Message}", Name, ex.Message);
+            }
+        }
         if (failures > 0) return null; // not committed: the series is tried again
 
         var setupOk = result.Config is not null && result.Plan is not null;
@@ -284,6 +349,14 @@ public sealed class SeriesWatch
         _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
             Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
         Announce(record, result);
+        // An export that cannot be read is not an input of the record; say so once, when it first counts as rejected.
+        foreach (var p in unreadable.Where(p => committed?.Pending.Contains(p.File) != true))
+            _status($"{Name}/{p.File}: rejected — {p.Message}");
+        // A file refused in the inbox (a folder, a pipe, a link out of the series) is never copied, so it is no input of
+        // the record either: said once per refusal.
+        foreach (var p in result.Rejected.Where(p => p.Input is { } f && _refused.ContainsKey(f)))
+            if (_announcedRefusals.Add($"{p.Input}\n{p.Found}"))
+                _status($"{Name}/{p.Input}: rejected — {p.Message}");
         return record;
     }
 
@@ -306,21 +379,30 @@ public sealed class SeriesWatch
         }
     }
 
+    /// <summary>
+    /// Removes run plots (plots/run-*.png) that belong to no analysed run now: a run rejected, dropped from the plan,
+    /// or whose file name changed. Links are left alone (TraceKin never removes what it did not write).
+    /// </summary>
     private void RemoveStalePlots(SeriesResult result)
     {
-        var analysed = new HashSet<string>(result.Runs.Select(r => r.Id), StringComparer.Ordinal);
-        foreach (var row in result.Plan!.Rows.Where(r => !analysed.Contains(r.Run)))
+        var plotDir = Path.Combine(_outDir, "plots");
+        if (!Directory.Exists(plotDir)) return;
+        OutputPaths.EnsureFolder(_options.Out, plotDir);
+        var names = RunFileNames.For(result.Plan!);
+        var current = new HashSet<string>(result.Runs.Select(r => names.PlotFile(r.Id)), StringComparer.Ordinal);
+        foreach (var png in new DirectoryInfo(plotDir).EnumerateFiles("run-*.png"))
         {
-            var png = Path.Combine(_outDir, "plots", RunPlot.FileNameFor(row.Run));
-            if (File.Exists(png)) File.Delete(png);
+            if (current.Contains(png.Name) || png.LinkTarget is not null) continue;
+            png.Delete();
         }
     }
 
     /// <summary>Temporary files of an atomic write that a killed process never renamed (only ever ours: the lock is held).</summary>
     private void RemoveOrphanTemporaries()
     {
-        foreach (var f in Directory.EnumerateFiles(_outDir, ".*.tmp", SearchOption.AllDirectories))
+        foreach (var f in OutputPaths.FilesBelow(_outDir, ".*.tmp"))
         {
+            if (new FileInfo(f).LinkTarget is not null) continue;
             try { File.Delete(f); }
             catch (IOException) { }
         }
@@ -329,10 +411,11 @@ public sealed class SeriesWatch
     private List<LedgerOutput> HashOutputs()
     {
         var outputs = new List<LedgerOutput>();
-        foreach (var f in Directory.EnumerateFiles(_outDir, "*", SearchOption.AllDirectories).Order(StringComparer.Ordinal))
+        foreach (var f in OutputPaths.FilesBelow(_outDir).Order(StringComparer.Ordinal))
         {
             var rel = Path.GetRelativePath(_outDir, f).Replace('\\', '/');
             if (rel.Split('/').Any(part => part.StartsWith('.'))) continue;
+            if (new FileInfo(f).LinkTarget is not null) continue; // not ours, and never read through
             try
             {
                 using var fs = new FileStream(f, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);

@@ -11,6 +11,9 @@ public static class WatchLog
 {
     public const string FilePattern = "tracekin-watch-.log";
 
+    /// <summary>Today's log file name (the file sink puts the date before the extension).</summary>
+    public static string TodayFile() => $"tracekin-watch-{DateTime.Now:yyyyMMdd}.log";
+
     public static Serilog.Core.Logger Create(string outDir, bool verbose = false) =>
         new LoggerConfiguration()
             .Enrich.With<EscapeInputText>()

@@ -7,7 +7,8 @@ namespace TraceKin.Cli.Watch;
 /// The watch loop: finds the series folders of the inbox, hears file events (and rescans the whole inbox at start,
 /// periodically, and after the event queue overflowed), and runs passes of due series — several series at once,
 /// never two passes of the same series. Stops, after the passes in flight, when cancelled; with
-/// <see cref="WatchOptions.Once"/>, when every series has been seen with all its files settled.
+/// <see cref="WatchOptions.Once"/>, when no series has a file still being written (an unreadable file is rejected,
+/// not waited for; a pass that failed is not tried again then: the failure is counted in <see cref="FailedSeries"/>).
 /// </summary>
 public sealed class WatchLoop(WatchOptions options, Ledger ledger, TimeProvider time, ILogger log, Action<string> status)
 {
@@ -25,8 +26,18 @@ public sealed class WatchLoop(WatchOptions options, Ledger ledger, TimeProvider 
     private TaskCompletionSource _wake = new(TaskCreationOptions.RunContinuationsAsynchronously);
     private volatile bool _rescanWanted = true;
 
+    private static readonly TimeSpan RetryFloor = TimeSpan.FromSeconds(1);
+    private readonly SortedSet<string> _failed = new(StringComparer.Ordinal);
+    private readonly Dictionary<string, int> _rejected = new(StringComparer.Ordinal);
+
     /// <summary>Passes that analysed a series (for tests and the closing log line).</summary>
     public int Analyses { get; private set; }
+
+    /// <summary>Series whose last pass failed (an error, or outputs that could not be written); read after <see cref="RunAsync"/>.</summary>
+    public IReadOnlyCollection<string> FailedSeries => _failed;
+
+    /// <summary>Inputs rejected or unreadable in the series' current states, over all series; read after <see cref="RunAsync"/>.</summary>
+    public int RejectedInputs => _rejected.Values.Sum();
 
     public async Task RunAsync(CancellationToken cancel)
     {
@@ -44,12 +55,27 @@ public sealed class WatchLoop(WatchOptions options, Ledger ledger, TimeProvider 
                 running.Remove(d.Name);
                 var entry = _series[d.Name];
                 entry.Busy = false;
-                if (d.Pass is null) { if (!options.Once) entry.Due = Earliest(entry.Due, now + options.Settle); } // the pass failed: try again later
-                else if (d.Pass.Gone) _series.Remove(d.Name);
+                if (d.Pass is null || d.Pass.Failed)
+                {
+                    // The pass failed: try again later (with --once, report it instead of trying for ever).
+                    _failed.Add(d.Name);
+                    // Not sooner than a second, so a lasting failure with a zero settle interval does not spin.
+                    if (!options.Once) entry.Due = Earliest(entry.Due, now + (options.Settle > RetryFloor ? options.Settle : RetryFloor));
+                }
+                else if (d.Pass.Gone)
+                {
+                    _series.Remove(d.Name);
+                    _failed.Remove(d.Name);
+                    _rejected.Remove(d.Name);
+                }
                 else
                 {
                     if (d.Pass.Analysed) Analyses++;
-                    if (d.Pass.RecheckAt is { } at) entry.Due = Earliest(entry.Due, at);
+                    _failed.Remove(d.Name);
+                    if (!d.Pass.Waiting) _rejected[d.Name] = d.Pass.Rejected;
+                    // With --once a series is looked at again only while some file is still being written: a file that
+                    // cannot be read is rejected, not waited for (it would keep a --once run going for ever).
+                    if (d.Pass.RecheckAt is { } at && (!options.Once || d.Pass.Waiting || d.Pass.Settling)) entry.Due = Earliest(entry.Due, at);
                 }
             }
 

@@ -1,8 +1,13 @@
+using TraceKin.Setup;
+
 namespace TraceKin.Analysis;
 
 /// <summary>Called once per run as soon as it is analysed (from worker threads), e.g. to draw its plot.</summary>
 public interface IRunSink
 {
+    /// <summary>Called once with the series' plan before any run is accepted (e.g. to name the per-run files).</summary>
+    void Begin(Plan plan) { }
+
     void Accept(RunResult run);
 }
 

@@ -18,7 +18,7 @@ public sealed class ArrheniusPlot : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir)
     {
         if (result.Findings?.Temperature is not { Arrhenius: not null } t) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)));
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)), root: outDir);
     }
 
     public static PlotModel Build(TemperatureFindings t)

@@ -13,7 +13,7 @@ public sealed class EyringPlot : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir)
     {
         if (result.Findings?.Temperature is not { Eyring: not null } t) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)));
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)), root: outDir);
     }
 
     public static PlotModel Build(TemperatureFindings t)

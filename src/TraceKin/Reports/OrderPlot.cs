@@ -16,7 +16,7 @@ public sealed class OrderPlot : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir)
     {
         if (result.Findings is not { Orders.Count: > 0, RateConstant: not null }) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)));
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)), root: outDir);
     }
 
     public static PlotModel Build(SeriesResult r)

@@ -11,14 +11,14 @@ namespace TraceKin.Reports;
 /// </summary>
 public sealed class OutputQueue : IDisposable
 {
-    private readonly Channel<(string Path, byte[] Bytes)> _channel;
+    private readonly Channel<(string Path, byte[] Bytes, string? Root)> _channel;
     private readonly Task[] _writers;
     private readonly ConcurrentQueue<(string Path, string Error)> _failures = new();
     private IReadOnlyList<(string Path, string Error)>? _completed;
 
     public OutputQueue(int writers = 3, int capacity = 32)
     {
-        _channel = Channel.CreateBounded<(string, byte[])>(new BoundedChannelOptions(capacity)
+        _channel = Channel.CreateBounded<(string, byte[], string?)>(new BoundedChannelOptions(capacity)
         {
             FullMode = BoundedChannelFullMode.Wait,
             SingleReader = writers == 1,
@@ -29,11 +29,11 @@ public sealed class OutputQueue : IDisposable
             .ToArray();
     }
 
-    /// <summary>Queues one file; blocks only while the queue is full.</summary>
-    public void Enqueue(string path, byte[] bytes)
+    /// <summary>Queues one file (inside the output folder <paramref name="root"/>, see <see cref="AtomicFile"/>); blocks only while the queue is full.</summary>
+    public void Enqueue(string path, byte[] bytes, string? root = null)
     {
         var writer = _channel.Writer;
-        while (!writer.TryWrite((path, bytes)))
+        while (!writer.TryWrite((path, bytes, root)))
         {
             if (!writer.WaitToWriteAsync().AsTask().GetAwaiter().GetResult())
                 throw new InvalidOperationException("the output queue is already complete");
@@ -57,7 +57,7 @@ public sealed class OutputQueue : IDisposable
         while (reader.WaitToReadAsync().AsTask().GetAwaiter().GetResult())
             while (reader.TryRead(out var item))
             {
-                try { AtomicFile.WriteAllBytes(item.Path, item.Bytes); }
+                try { AtomicFile.WriteAllBytes(item.Path, item.Bytes, item.Root); }
                 catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
                 {
                     _failures.Enqueue((item.Path, ex.Message));

@@ -18,7 +18,7 @@ public sealed class RateConcentrationPlot : ISeriesReportWriter
     {
         if (result.Findings is not { } f || Species(f) is null || f.Temperature is not null) return;
         var points = result.Runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(f, points)));
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(f, points)), root: outDir);
     }
 
     /// <summary>The species on the x axis, or null when there is nothing to draw (no saturation fit and several orders).</summary>

@@ -15,7 +15,7 @@ public sealed class RateConstantPlot : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir)
     {
         if (result.Findings is not { PerRunK.Count: > 0 }) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)));
+        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)), root: outDir);
     }
 
     public static PlotModel Build(SeriesResult r)

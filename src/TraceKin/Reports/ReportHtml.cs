@@ -31,7 +31,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             using var writer = new StreamWriter(stream, new System.Text.UTF8Encoding(false), 1 << 16, leaveOpen: true);
             Render(result, images ? Path.Combine(outDir, "plots") : null, new Html(writer));
             writer.Flush();
-        });
+        }, root: outDir);
 
     /// <summary>The page as text; <paramref name="plotDir"/> null leaves the plots out (analyse --no-plots).</summary>
     public static string Render(SeriesResult r, string? plotDir)
@@ -374,7 +374,8 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var figures = new List<(string File, string Caption)>();
         if (Directory.Exists(plotDir))
         {
-            var runFiles = r.Runs.Select(x => (File: RunPlot.FileNameFor(x.Id), Caption: $"Run {x.Id} ({x.File}): concentration, early window, fit, initial-rate tangent and residuals")).ToList();
+            var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
+            var runFiles = r.Runs.Select(x => (File: names.PlotFile(x.Id), Caption: $"Run {x.Id} ({x.File}): concentration, early window, fit, initial-rate tangent and residuals")).ToList();
             var runNames = new HashSet<string>(runFiles.Select(x => x.File), StringComparer.Ordinal);
             var seriesFiles = Directory.EnumerateFiles(plotDir, "*.png").Select(Path.GetFileName).OfType<string>()
                 .Where(f => !f.StartsWith("run-", StringComparison.Ordinal) && !f.StartsWith('.') && !runNames.Contains(f))
@@ -391,7 +392,8 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         foreach (var (file, caption) in figures)
         {
             var path = Path.Combine(plotDir, file);
-            if (!File.Exists(path)) continue;
+            // A link in plots/ is not ours (TraceKin never writes one): its target is neither embedded nor linked.
+            if (!File.Exists(path) || new FileInfo(path).LinkTarget is not null) continue;
             if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal))
             {
                 h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img loading=\"lazy\" alt=\"{Html.Escape(caption)}\" {Html.Attr("src", "plots/" + file)}>\n")

@@ -18,24 +18,31 @@ public sealed class RunPlot : IRunSink, IDisposable
     private readonly string _plotDir;
     // One pixel buffer and render context per worker thread, reused for every run that worker draws.
     private readonly ThreadLocal<PngRenderer> _renderers = new(() => new PngRenderer(), trackAllValues: true);
+    private readonly string _outDir;
     private readonly OutputQueue? _files;
+    private RunFileNames? _names;
     private bool _disposed;
 
     public RunPlot(string outDir, OutputQueue? writeQueue = null)
     {
+        _outDir = outDir;
         _plotDir = Path.Combine(outDir, "plots");
         _files = writeQueue;
-        Directory.CreateDirectory(_plotDir);
+        OutputPaths.EnsureFolder(outDir, _plotDir);
     }
 
-    public static string FileNameFor(string runId) => $"run-{Safe(runId)}.png";
+    /// <summary>Takes the run file names from the plan (<see cref="RunFileNames"/>), unique across the series.</summary>
+    public void Begin(TraceKin.Setup.Plan plan) => _names = RunFileNames.For(plan);
+
+    /// <summary>The file name (in plots/) of a run's picture: from the plan when <see cref="Begin"/> was called.</summary>
+    public string FileNameOf(string runId) => _names?.PlotFile(runId) ?? $"run-{RunFileNames.Stem(runId)}.png";
 
     public void Accept(RunResult run)
     {
-        var path = Path.Combine(_plotDir, FileNameFor(run.Id));
+        var path = Path.Combine(_plotDir, FileNameOf(run.Id));
         var png = _renderers.Value!.Render(Build(run));
-        if (_files is null) AtomicFile.WriteAllBytes(path, png);
-        else _files.Enqueue(path, png);
+        if (_files is null) AtomicFile.WriteAllBytes(path, png, _outDir);
+        else _files.Enqueue(path, png, _outDir);
     }
 
     public static byte[] Render(RunResult run) => PlotStyle.ToPng(Build(run));
@@ -141,11 +148,5 @@ public sealed class RunPlot : IRunSink, IDisposable
             >= 1e-4 => (1e3, "mmol/L"),
             _ => (1e6, "µmol/L"),
         };
-    }
-
-    public static string Safe(string id)
-    {
-        var chars = id.Select(ch => char.IsLetterOrDigit(ch) || ch is '-' or '_' or '.' ? ch : '_').ToArray();
-        return new string(chars);
     }
 }

@@ -14,7 +14,7 @@ public sealed class RunsCsv : ISeriesReportWriter
     public const string FileName = "runs.csv";
 
     public void Write(SeriesResult result, string outDir) =>
-        AtomicFile.WriteAllText(Path.Combine(outDir, FileName), ToText(result));
+        AtomicFile.WriteAllText(Path.Combine(outDir, FileName), ToText(result), root: outDir);
 
     public static string ToText(SeriesResult r)
     {

@@ -11,15 +11,17 @@ namespace TraceKin.Reports;
 /// docs/summary.schema.json). Numbers are written round-trip exact; a number that is not finite is written as null.
 /// No time stamps, so the same inputs give the same bytes.
 /// </summary>
-public sealed class SummaryJson : ISeriesReportWriter
+/// <param name="plots">Whether the run plots are drawn: each run's <c>plotFile</c> names its picture, or is null.</param>
+public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
 {
     public const string FileName = "summary.json";
 
     public void Write(SeriesResult result, string outDir) =>
-        AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s));
+        AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s, plots), root: outDir);
 
-    public static void WriteTo(SeriesResult r, Stream stream)
+    public static void WriteTo(SeriesResult r, Stream stream, bool plots = true)
     {
+        var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
         // The structure is fixed by this code (and checked against the schema by the tests), so the writer's own
         // per-token validation is skipped: it is a fifth of the time of a large summary.
         using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true, SkipValidation = true });
@@ -35,6 +37,8 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteString("id", run.Id);
             w.WriteString("file", run.File);
             w.WriteString("sha256", run.InputSha256);
+            if (plots) w.WriteString("plotFile", "plots/" + names.PlotFile(run.Id));
+            else w.WriteNull("plotFile");
             Num(w, "temperature", run.Plan.TemperatureK);
             w.WriteStartObject("initialConcentrations");
             foreach (var (sp, c) in run.Plan.InitialConcentrations.OrderBy(kv => kv.Key, StringComparer.Ordinal)) Num(w, sp, c);

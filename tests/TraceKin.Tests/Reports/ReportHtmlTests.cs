@@ -217,8 +217,9 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         Directory.CreateDirectory(plotDir);
         foreach (var f in Directory.EnumerateFiles(Path.Combine(sample.OutDir, "plots"), "*.png").Where(f => !Path.GetFileName(f).StartsWith("run-", StringComparison.Ordinal)))
             File.Copy(f, Path.Combine(plotDir, Path.GetFileName(f)));
+        var names = RunFileNames.For(sample.Result.Plan!);
         foreach (var r in runs)
-            File.Copy(Path.Combine(sample.OutDir, "plots", RunPlot.FileNameFor(sample.Result.Runs[0].Id)), Path.Combine(plotDir, RunPlot.FileNameFor(r.Id)));
+            File.Copy(Path.Combine(sample.OutDir, "plots", names.PlotFile(sample.Result.Runs[0].Id)), Path.Combine(plotDir, names.PlotFile(r.Id)));
         var (doc, errors) = Parse(ReportHtml.Render(big, plotDir));
         Assert.Empty(errors);
         var runImages = doc.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal))

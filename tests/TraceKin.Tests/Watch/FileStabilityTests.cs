@@ -103,4 +103,77 @@ public class FileStabilityTests
         Assert.True(s.IsStable("a.csv", Written(1, Start)));
         Assert.False(s.IsStable("b.csv", Written(1, Start + TimeSpan.FromMilliseconds(300))));
     }
+
+    private static FileSignature HalfRow(long length, DateTimeOffset at) => new(length, at.UtcDateTime, Unterminated: true);
+
+    [Fact]
+    public void A_file_paused_in_the_middle_of_a_row_is_not_settled_after_the_settle_interval_but_after_the_longer_one()
+    {
+        var clock = new FakeClock(Start);
+        var s = new FileStability(clock, Settle);
+        var sig = HalfRow(100, Start);
+        var longer = FileStability.UnterminatedFactor * Settle;
+        Assert.Equal(Start + longer, s.Observe("a.csv", sig));
+        clock.Advance(Settle + TimeSpan.FromMilliseconds(1)); // paused for longer than the settle interval
+        Assert.False(s.IsStable("a.csv", sig));
+        clock.Advance(longer - Settle - TimeSpan.FromMilliseconds(2)); // 1 ms short of the longer interval
+        Assert.False(s.IsStable("a.csv", sig));
+        clock.Advance(TimeSpan.FromMilliseconds(1));
+        Assert.True(s.IsStable("a.csv", sig));
+    }
+
+    [Fact]
+    public void A_half_row_that_is_completed_settles_after_the_normal_interval_from_its_completion()
+    {
+        var clock = new FakeClock(Start);
+        var s = new FileStability(clock, Settle);
+        s.Observe("a.csv", HalfRow(100, Start));
+        clock.Advance(TimeSpan.FromMilliseconds(700));
+        var done = Written(104, Start + TimeSpan.FromMilliseconds(700));
+        Assert.Equal(clock.GetUtcNow() + Settle, s.Observe("a.csv", done));
+        clock.Advance(Settle);
+        Assert.True(s.IsStable("a.csv", done));
+    }
+
+    [Fact]
+    public void An_old_file_without_a_final_line_end_is_trusted_on_first_sight_only_when_older_than_the_longer_interval()
+    {
+        var clock = new FakeClock(Start);
+        var s = new FileStability(clock, Settle);
+        var longer = FileStability.UnterminatedFactor * Settle;
+        Assert.True(s.IsStable("old.csv", HalfRow(100, Start - longer - FileStability.TimestampSlack)));
+        // Older than the settle interval and its slack, but not than the longer interval: it waits.
+        Assert.False(s.IsStable("recent.csv", HalfRow(100, Start - Settle - FileStability.TimestampSlack - TimeSpan.FromMilliseconds(1))));
+    }
+
+    [Theory]
+    [InlineData("time,A\n0,1\n", false)]
+    [InlineData("time,A\r\n0,1\r\n", false)]
+    [InlineData("time,A\r0,1\r", false)]
+    [InlineData("time,A\n0,1\n2,0.", true)]
+    [InlineData("", true)]
+    public void A_signature_records_whether_the_last_byte_ends_a_line(string text, bool unterminated)
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"tracekin-sig-{Guid.NewGuid():N}.csv");
+        try
+        {
+            File.WriteAllText(path, text);
+            Assert.Equal(unterminated, FileSignature.Of(path)!.Value.Unterminated);
+        }
+        finally { File.Delete(path); }
+    }
+
+    [Fact]
+    public void A_utf16_file_ending_with_a_line_end_counts_as_ended()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"tracekin-sig-{Guid.NewGuid():N}.csv");
+        try
+        {
+            File.WriteAllText(path, "time,A\n0,1\n", new System.Text.UnicodeEncoding(bigEndian: false, byteOrderMark: true));
+            Assert.False(FileSignature.Of(path)!.Value.Unterminated);
+            File.WriteAllText(path, "time,A\n0,1", new System.Text.UnicodeEncoding(bigEndian: true, byteOrderMark: true));
+            Assert.True(FileSignature.Of(path)!.Value.Unterminated);
+        }
+        finally { File.Delete(path); }
+    }
 }

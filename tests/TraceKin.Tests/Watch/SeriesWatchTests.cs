@@ -173,4 +173,81 @@ public class SeriesWatchTests
         Assert.Equal(0, summary.RootElement.GetProperty("rejected").GetArrayLength());
         Assert.Contains(summary.RootElement.GetProperty("warnings").EnumerateArray(), w => w.ToString().Contains("export-pending", StringComparison.Ordinal));
     }
+
+    [Fact]
+    public void An_export_cut_in_the_middle_of_a_row_is_not_taken_until_it_has_been_unchanged_for_the_longer_interval()
+    {
+        using var b = new Bench();
+        WriteSeries(b.Folder, 2, seed: 1);
+        var half = Path.Combine(b.Folder, SeriesFixture.FileOf(2));
+        var text = File.ReadAllText(half).TrimEnd();
+        File.WriteAllText(half, text[..^3]); // the instrument paused inside its last row: no line end yet
+
+        b.Watch.Pass();                       // t0: plan.csv and series.toml first seen
+        b.Clock.Advance(Settle);
+        Assert.False(b.Watch.Pass().Analysed); // t0 + 1 settle: setup taken, exports first seen
+        // From t0 + 2 settle intervals on, the whole export has settled; the cut one has been unchanged for longer than
+        // the settle interval (the plain rule would take it now), but not yet for the longer one, so the series waits.
+        Assert.True(FileStability.UnterminatedFactor >= 2);
+        for (var k = 2; k <= FileStability.UnterminatedFactor; k++)
+        {
+            b.Clock.Advance(Settle);
+            var waiting = b.Watch.Pass();
+            Assert.False(waiting.Analysed, $"analysed at t0 + {k} settle intervals");
+            Assert.True(waiting.Waiting);
+        }
+        b.Clock.Advance(Settle);               // unchanged for UnterminatedFactor settle intervals: taken
+        var taken = b.Watch.Pass();
+        Assert.True(taken.Analysed);
+        Assert.Contains(taken.Committed!.Inputs, i => i.File == SeriesFixture.FileOf(2));
+        Assert.Empty(taken.Committed.Pending);
+    }
+
+    [Fact]
+    public void Cleaning_the_snapshot_never_deletes_through_a_link_planted_in_it()
+    {
+        using var b = new Bench();
+        WriteSeries(b.Folder, 2, seed: 1);
+        var elsewhere = SeriesFixture.TempFolder("elsewhere");
+        try
+        {
+            File.WriteAllText(Path.Combine(elsewhere, "precious.csv"), "keep");
+            Directory.CreateDirectory(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha"));
+            Directory.CreateSymbolicLink(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha", "linked"), elsewhere);
+            for (var i = 0; i < 3; i++)
+            {
+                b.Watch.Pass();
+                b.Clock.Advance(Settle);
+            }
+            Assert.Equal("keep", File.ReadAllText(Path.Combine(elsewhere, "precious.csv")));
+            Assert.NotNull(b.Ledger.Latest("alpha"));
+        }
+        finally { Directory.Delete(elsewhere, recursive: true); }
+    }
+
+    [Fact]
+    public void A_snapshot_folder_that_is_a_link_fails_the_pass_and_nothing_is_written_or_deleted_through_it()
+    {
+        using var b = new Bench();
+        WriteSeries(b.Folder, 2, seed: 1);
+        var elsewhere = SeriesFixture.TempFolder("elsewhere");
+        try
+        {
+            File.WriteAllText(Path.Combine(elsewhere, "precious.csv"), "keep");
+            Directory.CreateDirectory(Path.Combine(b.Out, SeriesWatch.WorkFolder));
+            Directory.CreateSymbolicLink(Path.Combine(b.Out, SeriesWatch.WorkFolder, "alpha"), elsewhere);
+            Assert.Throws<TraceKin.Reports.OutputPathException>(() =>
+            {
+                for (var i = 0; i < 3; i++)
+                {
+                    b.Watch.Pass();
+                    b.Clock.Advance(Settle);
+                }
+            });
+            Assert.Equal(["precious.csv"], Directory.EnumerateFileSystemEntries(elsewhere).Select(Path.GetFileName));
+            Assert.Equal("keep", File.ReadAllText(Path.Combine(elsewhere, "precious.csv")));
+            Assert.Null(b.Ledger.Latest("alpha"));
+        }
+        finally { Directory.Delete(elsewhere, recursive: true); }
+    }
 }
