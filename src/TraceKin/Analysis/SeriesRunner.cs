@@ -82,6 +82,7 @@ public static class SeriesRunner
         var points = analysed.Where(s => config.Model.UseUnresolved || s.Run!.Rates.IsResolved).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {
             Trace = x.FitTrace ?? SeriesTrace(x.Run),
+            RateSystematicError = x.Run.Rates.Headline.ModelStdError,
         }).ToList();
         SeriesFindings? findings = null;
         try { findings = OrderAnalysis.Analyse(points, config.Model); }

@@ -28,4 +28,8 @@ public sealed record InitialRate(
     internal Func<double[]> FittedBy { init => _fitted = new ModelCurve(value); }
 
     public double RelativeError => StdError / Math.Abs(Value);
+
+    /// <summary>The between-law part of <see cref="StdError"/> for a law-averaged estimate: the Akaike-weighted SD of the
+    /// laws' slopes at t0 (0 for a single law or a local estimate). It comes from the trace's shape, not its noise.</summary>
+    public double ModelStdError { get; init; }
 }

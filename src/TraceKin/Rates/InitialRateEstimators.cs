@@ -121,6 +121,7 @@ public static class InitialRateEstimators
             Dof = parts.Min(p => p.Rate.Dof),
             Slope = mean * nu,
             Method = $"integrated laws at t0, averaged by Akaike weight ({names})",
+            ModelStdError = Math.Sqrt(parts.Sum(p => p.Weight * (p.Rate.Value - mean) * (p.Rate.Value - mean)) / sum),
         };
     }
 

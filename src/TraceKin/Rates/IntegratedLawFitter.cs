@@ -106,11 +106,21 @@ public static class IntegratedLawFitter
         // takes no part in the choice (with "auto"; "on" keeps it and the correlation is reported).
         var entangled = drift == "auto"
             ? all.Where(r => r.Model.Drift && r.Fit.Converged && DriftCorrelation(r.Model, r.Fit) > MaxDriftCorrelation).Select(r => r.Fit).ToHashSet()
-            : [];
+            : new HashSet<FitResult>();
         if (entangled.Count > 0 && driftExcluded is null)
             driftExcluded = string.Format(System.Globalization.CultureInfo.InvariantCulture,
                 "a drift term correlates with the initial slope (|r| up to {0:F3}, more than {1}), so it cannot be told apart from the reaction",
                 entangled.Max(f => DriftCorrelation(all.First(r => ReferenceEquals(r.Fit, f)).Model, f)), MaxDriftCorrelation);
+        // With the partner's [B]0 in the plan, the mixed second-order law follows B's depletion; first order (and
+        // pseudo-first order) assume [B] constant, so their slope at t0 is biased by about the depletion over the
+        // trace whenever the two cannot be told apart. They are kept as fits, but the choice and the average go to
+        // the law that uses what the experimenter gave, as long as it converged without lack of fit.
+        string? neglectsPartner = null;
+        if (partner is > 0 && all.Any(r => r.Model.Law is MixedSecondOrderLaw && !r.Model.Drift && r.Fit.Converged && !LacksFit(r.Fit, weights, noise)))
+        {
+            neglectsPartner = "the plan gives [B]0, and the mixed second-order law, which follows B's depletion, describes the trace; first order assumes [B] constant";
+            foreach (var r in all.Where(r => r.Model.Law is FirstOrderLaw or PseudoFirstOrderLaw && r.Fit.Converged)) entangled.Add(r.Fit);
+        }
         var converged = all.Where(r => r.Fit.Converged && !entangled.Contains(r.Fit)).ToList();
         var minAll = converged.Select(r => r.Fit.AicC).DefaultIfEmpty(double.PositiveInfinity).Min();
         var sumW = converged.Sum(r => Math.Exp(-(r.Fit.AicC - minAll) / 2));
@@ -139,7 +149,8 @@ public static class IntegratedLawFitter
             {
                 var other = Describe(m, f, false, minAll, sumW, weights, noise);
                 if (entangled.Contains(f))
-                    other = other with { DeltaAicc = double.NaN, AkaikeWeight = double.NaN, ExcludedBecause = driftExcluded };
+                    other = other with { DeltaAicc = double.NaN, AkaikeWeight = double.NaN,
+                        ExcludedBecause = m.Law is FirstOrderLaw or PseudoFirstOrderLaw && neglectsPartner is not null ? neglectsPartner : driftExcluded };
                 // Pseudo-first order is the first-order curve re-expressed: one curve, counted once in the average.
                 else if (f.Converged && m.Law is not PseudoFirstOrderLaw) participants.Add((m, other));
                 fits.Add(other);
@@ -564,6 +575,15 @@ public static class IntegratedLawFitter
         for (var i = 0; i < start.Length; i++)
             if (!(start[i] >= lower[i] && start[i] <= upper[i])) return null;
         return start;
+    }
+
+    /// <summary>The lack-of-fit rule of <see cref="Describe"/> on a bare fit.</summary>
+    private static bool LacksFit(FitResult f, double[] w, double noise)
+    {
+        var runs = f.Residuals.Length == w.Length ? RunsTest.Of(f.Residuals, w) : null;
+        var y0 = f.Parameters[LawModel.Y0].Value; var yEnd = f.Parameters[LawModel.YEnd].Value;
+        var rounding = f.ResidualStdDev <= 1e-10 * Math.Abs(y0 - yEnd);
+        return !rounding && (runs is { PValue: < 1e-3 } || (noise > 0 && f.ReducedChiSquare > 4 * noise * noise));
     }
 
     private static LawFit Describe(LawModel m, FitResult f, bool chosen, double minAicc, double sumW, double[] w, double noise)

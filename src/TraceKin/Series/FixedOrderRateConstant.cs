@@ -37,7 +37,12 @@ public static class FixedOrderRateConstant
         }
         var k = fit.Parameters[0];
         var h = fit.T95 * k.StdError;
-        return new RateConstant(k.Value, k.StdError, unit, fit.DegreesOfFreedom, k.Value - h, k.Value + h,
+        var result = new RateConstant(k.Value, k.StdError, unit, fit.DegreesOfFreedom, k.Value - h, k.Value + h,
             $"{(w is null ? "" : "weighted ")}least squares at {kind} orders ({label})");
+        // The per-run uncertainty of which integrated law holds, carried as a systematic part (LawChoiceUncertainty).
+        var jac = new double[runs.Count];
+        for (var i = 0; i < runs.Count; i++) jac[i] = design[i, 0];
+        var sys = LawChoiceUncertainty.Propagate(jac, runs.Count, 1, w, runs.Select(r => r.RateSystematicError).ToArray());
+        return sys is null ? result : OrderAnalysis.Widen(result, sys[0], fit.T95);
     }
 }

@@ -98,8 +98,18 @@ public static class OrderAnalysis
             .Concat(logLogOrders.Select(o => o.Value)).ToArray();
         var power = NonlinearLeastSquares.Fit(model, rates, start, new FitOptions { Weights = weights });
         IReadOnlyList<Order> orders;
+        double[]? lawChoice = null;
         if (power.Converged && power.Parameters.All(q => double.IsFinite(q.StdError)))
+        {
             orders = OrdersFrom(power, varied, groups.Count, weights is null ? "nonlinear least squares on v0" : "weighted nonlinear least squares on v0 (weights 1/se²)");
+            // The per-run uncertainty of which integrated law holds is systematic: carried into the intervals apart.
+            var np = power.Parameters.Count;
+            var jac = new double[usable.Count * np];
+            if (model.TryJacobian(power.Parameters.Select(q => q.Value).ToArray(), jac))
+                lawChoice = LawChoiceUncertainty.Propagate(jac, usable.Count, np, weights, usable.Select(r => r.RateSystematicError).ToArray());
+            if (lawChoice is not null)
+                orders = orders.Select((o, j) => Widen(o, lawChoice[groups.Count + j], power.T95)).ToArray();
+        }
         else
         {
             warnings.Add(new Warning("power-law-fit-failed", "series", $"the nonlinear fit of v0 = k·Π[X]0^n did not converge ({power.Exit}: {power.ExitDetail}); orders are from the log-log line"));
@@ -124,6 +134,7 @@ public static class OrderAnalysis
             free = power.Converged && orders != logLogOrders
                 ? FromParameter(power, 0, RateConstantUnit(orders.Sum(o => o.Value)), "weighted nonlinear least squares (fitted orders)")
                 : FromLnK(logLog, 0, RateConstantUnit(orders.Sum(o => o.Value)));
+            if (lawChoice is not null && power.Converged && orders != logLogOrders) free = Widen(free, lawChoice[0], power.T95);
             headline = useRounded ? FixedOrderRateConstant.Fit(usable, rounded, warnings) ?? free : free;
         }
 
@@ -200,6 +211,22 @@ public static class OrderAnalysis
             var prm = fit.Parameters[offset + j];
             return new Order(sp, prm.Value, prm.StdError, fit.DegreesOfFreedom, prm.Value - t * prm.StdError, prm.Value + t * prm.StdError, method);
         }).ToArray();
+    }
+
+    /// <summary>The interval widened by a systematic standard uncertainty, combined in quadrature (JCGM 100:2008 §5.1).</summary>
+    internal static Order Widen(Order o, double sys, double t)
+    {
+        if (!(sys > 0)) return o;
+        var h = t * LawChoiceUncertainty.Combined(o.StdError, sys);
+        return o with { Ci95Low = o.Value - h, Ci95High = o.Value + h, SystematicStdError = sys };
+    }
+
+    /// <summary>As for an order; a rate constant's interval is symmetric here.</summary>
+    internal static RateConstant Widen(RateConstant k, double sys, double t)
+    {
+        if (!(sys > 0)) return k;
+        var h = t * LawChoiceUncertainty.Combined(k.StdError, sys);
+        return k with { Ci95Low = k.Value - h, Ci95High = k.Value + h, SystematicStdError = sys };
     }
 
     private static RateConstant FromParameter(FitResult fit, int index, string unit, string method)

@@ -39,13 +39,15 @@ public static class OrderEquivalence
     {
         var ci = CultureInfo.InvariantCulture;
         var dof = Math.Max(o.Dof, 1);
+        // The statistical and the systematic (law-choice) standard uncertainties together.
+        var se = LawChoiceUncertainty.Combined(o.StdError, o.SystematicStdError);
         var t90 = StudentT.InvCDF(0, 1, dof, 0.95);
-        var lo90 = o.Value - t90 * o.StdError;
-        var hi90 = o.Value + t90 * o.StdError;
+        var lo90 = o.Value - t90 * se;
+        var hi90 = o.Value + t90 * se;
         var nearest = OrderAnalysis.SimpleOrders.MinBy(s => Math.Abs(s - o.Value));
-        double POneSided(double t) => o.StdError > 0 ? 1 - StudentT.CDF(0, 1, dof, t) : t > 0 ? 0 : 1;
-        var pLower = POneSided((o.Value - (nearest - margin)) / o.StdError);
-        var pUpper = POneSided((nearest + margin - o.Value) / o.StdError);
+        double POneSided(double t) => se > 0 ? 1 - StudentT.CDF(0, 1, dof, t) : t > 0 ? 0 : 1;
+        var pLower = POneSided((o.Value - (nearest - margin)) / se);
+        var pUpper = POneSided((nearest + margin - o.Value) / se);
         var m = margin.ToString("0.###", ci);
         if (pLower < 0.05 && pUpper < 0.05)
             return new OrderVerdict(o.Species, o.Value, nearest, OrderVerdictKind.Equivalent, margin, lo90, hi90, pLower, pUpper,

@@ -15,6 +15,9 @@ public sealed record RunPoint(
     double? TemperatureK)
 {
     public RunTrace? Trace { get; init; }
+    /// <summary>The between-law part of the rate's error (absolute; 0 when one law or a local estimate gave the rate):
+    /// systematic, so the series carries it separately (LawChoiceUncertainty).</summary>
+    public double RateSystematicError { get; init; }
 }
 
 /// <summary>The followed species' concentration (mol/L) at times (s) after mixing, and its stoichiometric coefficient ν.</summary>
@@ -27,10 +30,19 @@ public sealed record RunTrace(string Species, double Coefficient, double[] Times
 public sealed record GlobalFitFindings(IReadOnlyList<Order> Orders, IReadOnlyList<KeyValuePair<string, RateConstant>> RateConstants, FitResult Fit, int Runs);
 
 /// <summary>A reaction order with its standard error, dof and 95 % Student-t interval.</summary>
-public sealed record Order(string Species, double Value, double StdError, int Dof, double Ci95Low, double Ci95High, string Method);
+public sealed record Order(string Species, double Value, double StdError, int Dof, double Ci95Low, double Ci95High, string Method)
+{
+    /// <summary>Systematic standard uncertainty from the per-run choice of integrated law, included in the 95 % interval
+    /// (<see cref="StdError"/> is the statistical part only).</summary>
+    public double SystematicStdError { get; init; }
+}
 
 /// <summary>A rate constant in <see cref="Unit"/> with its standard error and 95 % interval (which may be asymmetric).</summary>
-public sealed record RateConstant(double Value, double StdError, string Unit, int Dof, double Ci95Low, double Ci95High, string Method);
+public sealed record RateConstant(double Value, double StdError, string Unit, int Dof, double Ci95Low, double Ci95High, string Method)
+{
+    /// <summary>Systematic standard uncertainty from the per-run choice of integrated law, included in the 95 % interval.</summary>
+    public double SystematicStdError { get; init; }
+}
 
 /// <summary>k for one run at the fitted orders: rate / Π[X]0^n.</summary>
 public sealed record RunRateConstant(string RunId, double Value, double StdError);
