@@ -76,9 +76,13 @@ public static class SeriesRunner
         // A run whose initial rate is unresolved is reported but kept out of the series fits unless the user asks.
         var unresolved = analysed.Where(s => !s.Run!.Rates.IsResolved).Select(s => s.Run!.Id).ToList();
         if (unresolved.Count > 0)
+        {
+            // The ids are listed up to a point; every run says so itself in summary.json (rateResolved).
+            var listed = string.Join(", ", unresolved.Take(20)) + (unresolved.Count > 20 ? $" and {unresolved.Count - 20} more" : "");
             warnings.Add(new Warning("unresolved-runs", "series", config.Model.UseUnresolved
-                ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {string.Join(", ", unresolved)}"
-                : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {string.Join(", ", unresolved)}"));
+                ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {listed}"
+                : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {listed}"));
+        }
         var points = analysed.Where(s => config.Model.UseUnresolved || s.Run!.Rates.IsResolved).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {
             Trace = x.FitTrace ?? SeriesTrace(x.Run),
