@@ -169,10 +169,17 @@ public static class RateAnalysis
     /// <summary>A headline whose 95 % interval is wider than ± this fraction of its value is flagged imprecise.</summary>
     public const double ImpreciseFraction = 0.10;
 
-    /// <summary>Two estimates are irreconcilable when they differ by more than three times their combined standard
-    /// error (by chance about 0.3 % of the time for honest errors; the 2·SE disagreement is only a note).</summary>
-    internal static bool Conflict(InitialRate a, InitialRate b) =>
-        Math.Abs(a.Value - b.Value) > 3 * Math.Sqrt(a.StdError * a.StdError + b.StdError * b.StdError);
+    /// <summary>Two estimates are irreconcilable when they differ by more than about three times their combined
+    /// standard error (by chance 0.27 % of the time for honest errors; the 2·SE disagreement is only a note).</summary>
+    internal static bool Conflict(InitialRate a, InitialRate b)
+    {
+        // "Three standard errors" at the confidence it has for normal errors (two-sided 0.27 %), taken from Student's t
+        // with the fewer degrees of freedom of the two: a polynomial over a dozen readings knows its own error only
+        // roughly, and |t₈| > 3 happens 1.7 % of the time.
+        var dof = Math.Max(1, Math.Min(a.Dof, b.Dof));
+        var limit = MathNet.Numerics.Distributions.StudentT.InvCDF(0, 1, dof, 1 - 0.00135);
+        return Math.Abs(a.Value - b.Value) > limit * Math.Sqrt(a.StdError * a.StdError + b.StdError * b.StdError);
+    }
 
     /// <summary>
     /// The "auto" headline: the integrated-law estimate when it is usable (converged, no lack of fit) and does not

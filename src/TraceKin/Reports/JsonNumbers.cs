@@ -50,6 +50,7 @@ internal static class JsonNumbers
             Num(w, "stdError", o.StdError);
             w.WriteNumber("dof", o.Dof);
             Pair(w, "ci95", o.Ci95Low, o.Ci95High);
+            Num(w, "lawChoiceStdError", o.LawChoiceStdError);
             w.WriteString("method", o.Method);
             w.WriteEndObject();
         }

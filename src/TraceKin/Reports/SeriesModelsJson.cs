@@ -188,6 +188,7 @@ public static class SeriesModelsJson
         if (k is null) { w.WriteNull(name); return; }
         w.WriteStartObject(name);
         EstimateFields(w, k.Value, k.StdError, k.Unit, k.Dof, k.Ci95Low, k.Ci95High, k.Method);
+        Num(w, "lawChoiceStdError", k.LawChoiceStdError);
         w.WriteEndObject();
     }
 

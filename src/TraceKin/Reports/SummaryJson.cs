@@ -70,6 +70,8 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
                 Num(w, "halfLifeStdError", f.HalfLifeStdError);
                 Num(w, "runsTestP", f.Runs?.PValue);
                 w.WriteBoolean("lackOfFit", f.LackOfFit);
+                if (f.ExcludedBecause is { } excluded) w.WriteString("excludedBecause", excluded);
+                else w.WriteNull("excludedBecause");
                 w.WriteEndObject();
             }
             w.WriteEndArray();
@@ -100,6 +102,7 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
         {
             w.WriteStartObject("rateConstant");
             EstimateFields(w, k.Value, k.StdError, k.Unit, k.Dof, k.Ci95Low, k.Ci95High, k.Method);
+            Num(w, "lawChoiceStdError", k.LawChoiceStdError);
             // k = v0/Π[X]0^n scales with the followed species' concentration scale; the runs share its constants,
             // so the relative systematic uncertainty carries over whole (common practice, no source).
             Num(w, "systematicRelativeUncertainty", r.Runs.Count == 0 ? null : r.Runs.Max(x => x.Converted.RelativeSystematicUncertainty));
@@ -174,6 +177,7 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
         Num(w, "windowEnd", h.WindowEnd);
         w.WriteNumber("points", h.PointsUsed);
         Num(w, "systematicStdError", Math.Abs(h.Value) * relativeSystematic);
+        Num(w, "modelStdError", h.ModelStdError);
         w.WriteEndObject();
     }
 

@@ -218,7 +218,7 @@ public static class OrderAnalysis
     {
         if (!(sys > 0)) return o;
         var h = t * LawChoiceUncertainty.Combined(o.StdError, sys);
-        return o with { Ci95Low = o.Value - h, Ci95High = o.Value + h, SystematicStdError = sys };
+        return o with { Ci95Low = o.Value - h, Ci95High = o.Value + h, LawChoiceStdError = sys };
     }
 
     /// <summary>As for an order; a rate constant's interval is symmetric here.</summary>
@@ -226,7 +226,7 @@ public static class OrderAnalysis
     {
         if (!(sys > 0)) return k;
         var h = t * LawChoiceUncertainty.Combined(k.StdError, sys);
-        return k with { Ci95Low = k.Value - h, Ci95High = k.Value + h, SystematicStdError = sys };
+        return k with { Ci95Low = k.Value - h, Ci95High = k.Value + h, LawChoiceStdError = sys };
     }
 
     private static RateConstant FromParameter(FitResult fit, int index, string unit, string method)

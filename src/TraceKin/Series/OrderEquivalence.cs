@@ -40,7 +40,7 @@ public static class OrderEquivalence
         var ci = CultureInfo.InvariantCulture;
         var dof = Math.Max(o.Dof, 1);
         // The statistical and the systematic (law-choice) standard uncertainties together.
-        var se = LawChoiceUncertainty.Combined(o.StdError, o.SystematicStdError);
+        var se = LawChoiceUncertainty.Combined(o.StdError, o.LawChoiceStdError);
         var t90 = StudentT.InvCDF(0, 1, dof, 0.95);
         var lo90 = o.Value - t90 * se;
         var hi90 = o.Value + t90 * se;

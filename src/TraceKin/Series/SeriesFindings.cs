@@ -34,14 +34,14 @@ public sealed record Order(string Species, double Value, double StdError, int Do
 {
     /// <summary>Systematic standard uncertainty from the per-run choice of integrated law, included in the 95 % interval
     /// (<see cref="StdError"/> is the statistical part only).</summary>
-    public double SystematicStdError { get; init; }
+    public double LawChoiceStdError { get; init; }
 }
 
 /// <summary>A rate constant in <see cref="Unit"/> with its standard error and 95 % interval (which may be asymmetric).</summary>
 public sealed record RateConstant(double Value, double StdError, string Unit, int Dof, double Ci95Low, double Ci95High, string Method)
 {
     /// <summary>Systematic standard uncertainty from the per-run choice of integrated law, included in the 95 % interval.</summary>
-    public double SystematicStdError { get; init; }
+    public double LawChoiceStdError { get; init; }
 }
 
 /// <summary>k for one run at the fitted orders: rate / Π[X]0^n.</summary>
