@@ -42,6 +42,13 @@ public static class SeriesRunner
         catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
         if (config is null || plan is null)
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+        // Names series.toml gives (species, per-run parameter columns) must exist before any run is read.
+        try { SeriesCheck.Check(config, plan); }
+        catch (InputException ex)
+        {
+            rejected.Add(config.Locate(ex.Problem));
+            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+        }
 
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>

@@ -194,10 +194,7 @@ public sealed record SignalSettings
             case "gas_volume" or "pressure" when Calibration is not null:
                 throw Fail.Setting(s.File, s.KeyName("calibration"), $"a calibration table with kind = \"{Kind}\"", "no calibration: this kind is converted from physical laws",
                     "use kind = \"calibrated\" to read the signal through standards instead");
-            case "gas_volume":
-                if (BarometricPressure is null) throw Missing("barometric_pressure", "the barometric pressure (unit: pressure_unit, default Pa)", "e.g. barometric_pressure = 101.2 with pressure_unit = \"kPa\"");
-                if (SolutionVolume is null) throw Missing("solution_volume", "the volume of the reacting solution (unit: volume_unit, default mL)");
-                break;
+            // gas_volume's barometric pressure and solution volume may come per run from plan.csv: SeriesCheck asks for them.
             case "pressure":
                 if (GasMoleChange is null) throw Missing("gas_mole_change", "the change in moles of gas per unit extent of reaction, e.g. 1 for A(g) → 2 B(g)");
                 if (GasMoleChange == 0)
