@@ -18,6 +18,34 @@ public sealed class SummaryJson : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir) =>
         AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s));
 
+    /// <summary>
+    /// How rates and k are defined: rate = (1/ν)·d[X]/dt for the followed species X with coefficient ν, the rate of
+    /// reaction (IUPAC Gold Book, "rate of reaction", doi:10.1351/goldbook.R05156). When |ν| ≠ 1 the headline k is also
+    /// given for the convention that uses X's own rate of change, |d[X]/dt| = |ν|·k·Π[X]^n, labelled with it.
+    /// </summary>
+    private static void RateConvention(Utf8JsonWriter w, SeriesResult r)
+    {
+        if (r.Config?.Signal is not { } s) { w.WriteNull("rateConvention"); return; }
+        w.WriteStartObject("rateConvention");
+        w.WriteString("species", s.Species);
+        Num(w, "coefficient", s.Coefficient);
+        w.WriteString("rate", $"(1/ν)·d[{s.Species}]/dt");
+        var nu = Math.Abs(s.Coefficient);
+        if (nu != 1 && r.Findings?.RateConstant is { } k)
+        {
+            w.WriteStartObject("rateConstantForSpeciesRate");
+            w.WriteString("convention", s.Coefficient < 0 ? $"rate = −d[{s.Species}]/dt" : $"rate = d[{s.Species}]/dt");
+            Num(w, "factor", nu);
+            Num(w, "value", nu * k.Value);
+            Num(w, "stdError", nu * k.StdError);
+            w.WriteString("unit", k.Unit);
+            Pair(w, "ci95", nu * k.Ci95Low, nu * k.Ci95High);
+            w.WriteEndObject();
+        }
+        else w.WriteNull("rateConstantForSpeciesRate");
+        w.WriteEndObject();
+    }
+
     public static void WriteTo(SeriesResult r, Stream stream)
     {
         // The structure is fixed by this code (and checked against the schema by the tests), so the writer's own
@@ -112,6 +140,7 @@ public sealed class SummaryJson : ISeriesReportWriter
             w.WriteEndObject();
         }
         w.WriteEndArray();
+        RateConvention(w, r);
         w.WriteStartArray("pairRatios");
         foreach (var p in f0?.PairRatios ?? [])
         {
