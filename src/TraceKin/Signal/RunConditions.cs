@@ -12,6 +12,7 @@ public static class RunConditions
     public static IReadOnlyList<string> UsedBy(SignalSettings s) => s.Kind switch
     {
         "absorbance" when s.Calibration is null => ["blank", "path_length"],
+        "gas_volume" when s.ZeroedAfterMixing => ["barometric_pressure", "solution_volume", "gas_temperature"],
         "gas_volume" => ["barometric_pressure", "solution_volume", "zero_offset", "gas_temperature"],
         "pressure" => ["gas_temperature"],
         _ => [],

@@ -148,7 +148,18 @@ public sealed record SignalModel
                         throw Fail.Setting(s.Source, "signal.barometric_pressure", $"{G(pb)} Pa ({From("barometric_pressure", "signal.barometric_pressure")})",
                             $"a pressure above the water vapour pressure at {G(t)} K ({pw.ToString("F1", Inv)} Pa, IAPWS-IF97)", "check pressure_unit (default Pa)");
                 }
-                var gas = new GasOverWater(pb, t, s.SolutionVolume ?? throw Missing(s, "solution_volume", "the volume of the reacting solution, or a plan.csv column \"solution_volume (mL)\""), s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, s.ZeroOffset)
+                // A collector zeroed after mixing: the reading at mixing is extrapolated from the early samples (negative:
+                // the gas lost before the zero) and used as the zero offset. Without an export (simulation) the writer
+                // zeroes the trace at its first sample instead.
+                var zero = s.ZeroOffset;
+                var zeroSource = From("zero_offset", "signal.zero_offset");
+                if (s.ZeroedAfterMixing && export is not null)
+                {
+                    var (z, zse, points) = GasZeroExtrapolation.AtMixing(export, s.Channel, s.Source);
+                    zero = z;
+                    zeroSource = $"extrapolated to mixing (t = 0) by a quadratic over the first {points} samples, standard error {G(zse)} L; signal.zeroed_after_mixing";
+                }
+                var gas = new GasOverWater(pb, t, s.SolutionVolume ?? throw Missing(s, "solution_volume", "the volume of the reacting solution, or a plan.csv column \"solution_volume (mL)\""), s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, zero)
                 {
                     BarometricPressureU = s.BarometricPressureU, TemperatureU = s.TemperatureU, SolutionVolumeU = s.SolutionVolumeU,
                 };
@@ -162,8 +173,8 @@ public sealed record SignalModel
                     new("V_solution", $"{G(gas.SolutionVolume)} L ({From("solution_volume", "signal.solution_volume")})"),
                     new("ν_gas", $"{G(s.GasCoefficient)} (signal.gas_coefficient)"),
                 };
-                if (s.ZeroOffset != 0 || row.Conditions.ContainsKey("zero_offset"))
-                    constants.Add(new("V_zero", $"{G(s.ZeroOffset)} L ({From("zero_offset", "signal.zero_offset")})"));
+                if (zero != 0 || row.Conditions.ContainsKey("zero_offset") || s.ZeroedAfterMixing)
+                    constants.Add(new("V_zero", $"{G(zero)} L ({zeroSource})"));
                 return new SignalModel
                 {
                     SignalQuantity = Quantity.GasVolume, SignalUnit = Units.Litre,

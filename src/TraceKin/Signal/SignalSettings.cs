@@ -71,6 +71,8 @@ public sealed record SignalSettings
     public double SolutionVolumeU { get; init; }
     /// <summary>Gas volume read before any gas formed, L.</summary>
     public double ZeroOffset { get; init; }
+    /// <summary>True when the collector was zeroed after mixing: the gas lost before its zero is extrapolated (<see cref="GasZeroExtrapolation"/>).</summary>
+    public bool ZeroedAfterMixing { get; init; }
     /// <summary>Change in moles of gas per unit extent (pressure kind).</summary>
     public double? GasMoleChange { get; init; }
     /// <summary>Total pressure at mixing, Pa; null = the first sample.</summary>
@@ -155,6 +157,7 @@ public sealed record SignalSettings
             SolutionVolume = s.Positive("solution_volume") is { } sv ? volumeUnit.ToInternal(sv) : null,
             SolutionVolumeU = (NonNegative(s, "solution_volume_u") ?? 0) * volumeUnit.Factor,
             ZeroOffset = volumeUnit.ToInternal(s.Double("zero_offset", 0)),
+            ZeroedAfterMixing = s.Bool("zeroed_after_mixing") ?? false,
             GasMoleChange = s.Double("gas_mole_change"),
             InitialPressure = s.Positive("initial_pressure") is { } p0 ? pressureUnit.ToInternal(p0) : null,
             InitialMoleFraction = NonNegative(s, "initial_mole_fraction"),
@@ -177,6 +180,9 @@ public sealed record SignalSettings
         Exception Missing(string key, string expected, string hint = "") => Fail.Setting(s.File, s.KeyName(key), "nothing", expected, hint);
         if (InitialMoleFraction is > 1)
             throw Fail.Setting(s.File, s.KeyName("initial_mole_fraction"), InitialMoleFraction.Value.ToString(CultureInfo.InvariantCulture), "a mole fraction between 0 and 1");
+        if (ZeroedAfterMixing && Kind != "gas_volume")
+            throw Fail.Setting(s.File, s.KeyName("zeroed_after_mixing"), $"zeroed_after_mixing with kind = \"{Kind}\"", "kind = \"gas_volume\"",
+                "only a gas collector is zeroed; leave the key out for other kinds");
         switch (Kind)
         {
             case "absorbance":
@@ -194,6 +200,9 @@ public sealed record SignalSettings
             case "gas_volume" or "pressure" when Calibration is not null:
                 throw Fail.Setting(s.File, s.KeyName("calibration"), $"a calibration table with kind = \"{Kind}\"", "no calibration: this kind is converted from physical laws",
                     "use kind = \"calibrated\" to read the signal through standards instead");
+            case "gas_volume" when ZeroedAfterMixing && s.Double("zero_offset") is not null:
+                throw Fail.Setting(s.File, s.KeyName("zero_offset"), "a zero offset with zeroed_after_mixing = true", "one of them",
+                    "a collector zeroed after mixing has its offset extrapolated from the trace");
             // gas_volume's barometric pressure and solution volume may come per run from plan.csv: SeriesCheck asks for them.
             case "pressure":
                 if (GasMoleChange is null) throw Missing("gas_mole_change", "the change in moles of gas per unit extent of reaction, e.g. 1 for A(g) → 2 B(g)");
