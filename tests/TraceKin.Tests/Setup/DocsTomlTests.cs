@@ -73,7 +73,7 @@ public sealed class DocsTomlTests
     {
         var fences = Fences(File.ReadAllText(Path.Combine(RepoPaths.Root, "docs/formats.md")));
         var plan = Plan.FromText(fences.Single(f => f.Lang == "csv" && f.Text.Contains("barometric_pressure")).Text, "plan.csv");
-        var config = SeriesConfig.FromText(fences.Single(f => f.Lang == "toml" && f.Text.Contains("gas_volume")).Text, "series.toml");
+        var config = SeriesConfig.FromText(fences.Single(f => f.Lang == "toml" && f.Text.Contains("gas_volume") && f.Text.Contains("barometric_pressure")).Text, "series.toml");
         SeriesCheck.Check(config, plan);
         // The plan's per-run pressure is used (1 kPa = 1000 Pa, SI Brochure), the series value elsewhere.
         Assert.Equal(100420, plan.Rows[0].Conditions["barometric_pressure"].Value, 6);
