@@ -235,7 +235,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
     }
 
     /// <summary>1-based character position where cell <paramref name="index"/> starts (quotes ignored: plan cells rarely hold delimiters).</summary>
-    private static int Col(string line, char delimiter, int index)
+    internal static int Col(string line, char delimiter, int index)
     {
         var pos = 0;
         for (var k = 0; k < index; k++)

@@ -233,7 +233,24 @@ public sealed record SignalSettings
         var path = Path.Combine(seriesDirectory, file);
         if (!System.IO.File.Exists(path))
             throw Fail.Setting(Source, "signal.calibration.file", Fail.Quote(file), "a CSV of standards in the series folder", $"no file {file} was found beside {Source}");
-        var standards = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, cal.OtherSpecies);
+        CalibrationStandards standards;
+        if (cal.OtherFiles.Count == 0)
+            standards = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, cal.OtherSpecies);
+        else
+        {
+            // One species per file: each file read on its own, then joined.
+            var own = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, []);
+            var perOther = new List<(CalibrationStandards, string)>();
+            for (var k = 0; k < cal.OtherFiles.Count; k++)
+            {
+                var otherFile = cal.OtherFiles[k];
+                var otherPath = Path.Combine(seriesDirectory, otherFile);
+                if (!System.IO.File.Exists(otherPath))
+                    throw Fail.Setting(Source, $"signal.calibration.other[{k}].file", Fail.Quote(otherFile), "a CSV of standards in the series folder", $"no file {otherFile} was found beside {Source}");
+                perOther.Add((CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(otherPath), otherFile, cal.OtherSpecies[k].Species, []), otherFile));
+            }
+            standards = CalibrationStandards.Join(own, file, perOther, cal.OtherSpecies);
+        }
         return this with { Calibration = cal with { Standards = standards, Curve = CalibrationCurve.FromStandards(standards, cal.Model, file) } };
     }
 
