@@ -191,7 +191,8 @@ public sealed record SignalModel
                 var p0Source = s.InitialPressure is not null ? "signal.initial_pressure" : planned is not null ? "plan" : first is not null ? "first sample" : "plan [X]0";
                 if (initials.TryGetValue(s.Species, out var c0))
                 {
-                    p0Partial = c0 * 1000 * PhysicalConstants.GasConstant * t;
+                    // A plan that gives [X]0 as a partial pressure gives p_X0 itself; a concentration becomes [X]0·R·T.
+                    p0Partial = row.InitialPressures.TryGetValue(s.Species, out var pPlan) ? pPlan : c0 * 1000 * PhysicalConstants.GasConstant * t;
                     p0 = s.InitialPressure ?? planned ?? first ?? p0Partial / (s.InitialMoleFraction is > 0 ? s.InitialMoleFraction.Value : 1);
                 }
                 else
@@ -207,7 +208,7 @@ public sealed record SignalModel
                     new("R", $"{G(PhysicalConstants.GasConstant)} J/(mol·K) (CODATA 2018)"),
                     new("T", $"{G(t)} K ({TemperatureSource(settings, row)})"),
                     new("p0", $"{G(p0)} Pa ({p0Source})"),
-                    new($"p({s.Species})0", $"{G(p0Partial)} Pa"),
+                    new($"p({s.Species})0", $"{G(p0Partial)} Pa{(row.InitialPressures.ContainsKey(s.Species) ? " (plan, as a partial pressure)" : "")}"),
                     new("Δν_gas", $"{G(pc.GasMoleChange)} (signal.gas_mole_change)"),
                 };
                 return new SignalModel

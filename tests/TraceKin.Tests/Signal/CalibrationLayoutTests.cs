@@ -103,6 +103,17 @@ public sealed class CalibrationLayoutTests
     }
 
     [Fact]
+    public void A_missing_file_of_another_species_is_located_at_its_key()
+    {
+        using var dir = new RepoPaths.TempDir();
+        var toml = Toml.Replace("coefficient = 1\n", "coefficient = 1\nfile = \"std-y.csv\"\n");
+        var x = "signal (mS/cm),[X] (mmol/L)\n0.05,0\n0.85,1\n1.65,2\n2.45,3\n";
+        var p = Analyse(dir.Path, toml, ("standards.csv", x)).Rejected.Single();
+        Assert.Equal(("series.toml", "signal.calibration.other[0].file"), (p.File, p.Key));
+        Assert.Equal(11, p.Line);
+    }
+
+    [Fact]
     public void A_file_for_one_other_species_but_not_the_followed_one_is_an_error_at_the_key()
     {
         var toml = "[signal]\nkind = \"calibrated\"\nspecies = \"X\"\n[signal.calibration]\nsignal = [0.05, 0.85, 1.65, 2.45]\nconcentration = [0, 1, 2, 3]\n" +

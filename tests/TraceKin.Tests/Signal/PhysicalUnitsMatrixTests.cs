@@ -129,6 +129,18 @@ public sealed class PhysicalUnitsMatrixTests
         }
     }
 
+    [Fact]
+    public void A_partial_pressure_in_the_plan_is_the_starting_partial_pressure_even_when_the_vessel_temperature_is_set_apart()
+    {
+        // signal.temperature = 360 K for the vessel; the plan row says 350 K. p_A0 = 40 kPa is taken as written, and every
+        // concentration is p_A/(R·360 K) (Dalton's law, perfect-gas equation); [A]0 = 40 kPa/(R·350 K) only names the run.
+        var totalPa = new[] { 40000.0, 45000, 52000, 58000, 63000 };
+        var conc = Convert("kind = \"pressure\"\nspecies = \"A\"\ncoefficient = -1\ngas_mole_change = 1\ntemperature = 360\n",
+            "run,file,temperature (K),[A]0 (kPa)\nR1,r1.csv,350,40\n", "p (kPa)", totalPa.Select(p => p / 1000).ToArray());
+        for (var i = 0; i < totalPa.Length; i++)
+            Assert.Equal((40000 - (totalPa[i] - 40000)) / (R * 360) / 1000, conc[i], 1e-12);
+    }
+
     public static TheoryData<string, string> ConductivityCases()
     {
         var d = new TheoryData<string, string>();
