@@ -54,6 +54,11 @@ public class RunConditionsTests
             var source = r.Converted.ConstantsUsed.Single(kv => kv.Key == "p_bar").Value;
             Assert.Contains(run == "G1" ? "plan.csv line 2" : "signal.barometric_pressure", source);
         }
+        // The report lists the constants per group of runs, each value with its source.
+        var html = TraceKin.Reports.ReportHtml.Render(result, null);
+        Assert.Contains("Used for run(s) G1:", html);
+        Assert.Contains("99100 Pa (plan.csv line 2, column &quot;barometric_pressure (kPa)&quot;)", html);
+        Assert.Contains("101800 Pa (signal.barometric_pressure)", html);
     }
 
     [Fact]
