@@ -33,6 +33,24 @@ public class PlanConditionsTests
         Assert.Equal(41, plan.ConditionColumns["barometric_pressure"].Column);
     }
 
+    [Theory]
+    [InlineData("de-DE")]
+    [InlineData("fr-FR")]
+    [InlineData("")]
+    public void Parameter_and_partial_pressure_cells_with_decimal_commas_read_the_same_under_every_culture(string culture)
+    {
+        var saved = System.Globalization.CultureInfo.CurrentCulture;
+        System.Globalization.CultureInfo.CurrentCulture = System.Globalization.CultureInfo.GetCultureInfo(culture);
+        try
+        {
+            var plan = Plan.FromText("run;file;temperature (°C);[A]0 (kPa);barometric_pressure (hPa)\nR1;a.csv;25,0;12,5;1012,4\n", "plan.csv");
+            // 1 hPa = 100 Pa (SI prefixes); [A]0 = 12500 Pa/(R·298.15 K)/1000.
+            Assert.Equal(101240, plan.Rows[0].Conditions["barometric_pressure"].Value, 6);
+            Assert.Equal(12500 / (R * 298.15) / 1000, plan.Rows[0].InitialConcentrations["A"], 1e-12);
+        }
+        finally { System.Globalization.CultureInfo.CurrentCulture = saved; }
+    }
+
     [Fact]
     public void A_parameter_column_without_a_unit_is_located_at_its_header()
     {
