@@ -42,6 +42,13 @@ public static class SeriesRunner
         catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
         if (config is null || plan is null)
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+        // Names series.toml gives (species, per-run parameter columns) must exist before any run is read.
+        try { SeriesCheck.Check(config, plan); }
+        catch (InputException ex)
+        {
+            rejected.Add(config.Locate(ex.Problem));
+            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+        }
 
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         options.RunSink?.Begin(plan);
@@ -201,10 +208,14 @@ public static class SeriesRunner
     /// <summary>Files that series.toml names (the calibration standards) follow the rule for exports, located at the key's value.</summary>
     private static void CheckNamedFiles(string folder, SeriesConfig config, string configText, AnalysisOptions options)
     {
-        if (config.Signal.Calibration?.File is not { } file) return;
-        if (SeriesInputs.Check(folder, file, options.AllowOutsideFiles, ExportReader.MaxBytes, out _) is not { } refusal) return;
-        var (line, column) = TomlValueAt(configText, file);
-        throw new InputException(new Problem(ConfigFile, line, column, refusal.Found, refusal.Expected, refusal.Hint, "signal.calibration.file"));
+        if (config.Signal.Calibration is not { File: { } file } cal) return;
+        // The followed species' file, then each other species' own file when the standards are kept one species per file.
+        foreach (var (named, key) in cal.OtherFiles.Select((f, k) => (f, $"signal.calibration.other[{k}].file")).Prepend((file, "signal.calibration.file")))
+        {
+            if (SeriesInputs.Check(folder, named, options.AllowOutsideFiles, ExportReader.MaxBytes, out _) is not { } refusal) continue;
+            var (line, column) = TomlValueAt(configText, named);
+            throw new InputException(new Problem(ConfigFile, line, column, refusal.Found, refusal.Expected, refusal.Hint, key));
+        }
     }
 
     /// <summary>1-based line and column of the first quoted occurrence of <paramref name="value"/> in TOML text (1, 1 when absent).</summary>

@@ -14,7 +14,8 @@ public static class ReportNotes
             "Other signal kinds state their conversion in the constants table above."),
         ("Initial rate",
             "v0 = (1/ν)·d[X]/dt at the moment of mixing, from a local quadratic or a straight line fitted by least squares over the early window " +
-            "(method of initial rates; IUPAC Gold Book, \"rate of reaction\", doi:10.1351/goldbook.R05156). The window and method are listed per run."),
+            "(method of initial rates; IUPAC Gold Book, \"rate of reaction\", doi:10.1351/goldbook.R05156). The window and method are listed per run. " +
+            "Every rate and k here use that rate of reaction, with ν the followed species' signal.coefficient; when |ν| ≠ 1, k for the convention rate = −d[X]/dt is |ν|·k (summary.json, rateConvention)."),
         ("Orders and rate constant",
             "ln v0 = ln k + Σ n·ln[X]0 is fitted by linear least squares over all runs (IUPAC Gold Book, \"order of reaction\", doi:10.1351/goldbook.O04322). " +
             "95 % intervals use Student's t with the stated degrees of freedom (NIST/SEMATECH e-Handbook of Statistical Methods, 7.2.2)."),

@@ -19,6 +19,34 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
     public void Write(SeriesResult result, string outDir) =>
         AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s, plots), root: outDir);
 
+    /// <summary>
+    /// How rates and k are defined: rate = (1/ν)·d[X]/dt for the followed species X with coefficient ν, the rate of
+    /// reaction (IUPAC Gold Book, "rate of reaction", doi:10.1351/goldbook.R05156). When |ν| ≠ 1 the headline k is also
+    /// given for the convention that uses X's own rate of change, |d[X]/dt| = |ν|·k·Π[X]^n, labelled with it.
+    /// </summary>
+    private static void RateConvention(Utf8JsonWriter w, SeriesResult r)
+    {
+        if (r.Config?.Signal is not { } s) { w.WriteNull("rateConvention"); return; }
+        w.WriteStartObject("rateConvention");
+        w.WriteString("species", s.Species);
+        Num(w, "coefficient", s.Coefficient);
+        w.WriteString("rate", $"(1/ν)·d[{s.Species}]/dt");
+        var nu = Math.Abs(s.Coefficient);
+        if (nu != 1 && r.Findings?.RateConstant is { } k)
+        {
+            w.WriteStartObject("rateConstantForSpeciesRate");
+            w.WriteString("convention", s.Coefficient < 0 ? $"rate = −d[{s.Species}]/dt" : $"rate = d[{s.Species}]/dt");
+            Num(w, "factor", nu);
+            Num(w, "value", nu * k.Value);
+            Num(w, "stdError", nu * k.StdError);
+            w.WriteString("unit", k.Unit);
+            Pair(w, "ci95", nu * k.Ci95Low, nu * k.Ci95High);
+            w.WriteEndObject();
+        }
+        else w.WriteNull("rateConstantForSpeciesRate");
+        w.WriteEndObject();
+    }
+
     public static void WriteTo(SeriesResult r, Stream stream, bool plots = true)
     {
         var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
@@ -119,6 +147,7 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
             w.WriteEndObject();
         }
         w.WriteEndArray();
+        RateConvention(w, r);
         w.WriteStartArray("pairRatios");
         foreach (var p in f0?.PairRatios ?? [])
         {

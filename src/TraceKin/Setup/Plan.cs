@@ -15,7 +15,29 @@ public sealed record PlanRow(
 {
     /// <summary>1-based column number where the row's file cell starts (for messages about the file it names).</summary>
     public int FileColumn { get; init; } = 1;
+
+    /// <summary>
+    /// The run's own conversion parameters from plan.csv columns (see <see cref="Plan.ConditionNames"/>), keyed by the
+    /// series.toml key they override, in internal units (Pa, AU, cm, L, K).
+    /// </summary>
+    public IReadOnlyDictionary<string, PlanCondition> Conditions { get; init; } = new Dictionary<string, PlanCondition>();
+
+    /// <summary>Initial amounts given as partial pressures: species → pressure, Pa (their concentrations are p/(R·T)).</summary>
+    public IReadOnlyDictionary<string, double> InitialPressures { get; init; } = new Dictionary<string, double>();
+
+    /// <summary>1-based column number of each parameter column's cell on this row (filled or not), to locate an empty one.</summary>
+    public IReadOnlyDictionary<string, int> ConditionCells { get; init; } = new Dictionary<string, int>();
 }
+
+/// <summary>One run's value of a conversion parameter read from plan.csv, in internal units, with its cell.</summary>
+public sealed record PlanCondition(double Value, string Header, int Line, int Column)
+{
+    /// <summary>Where the value came from, as the report prints it.</summary>
+    public string Source => $"plan.csv line {Line}, column \"{Header}\"";
+}
+
+/// <summary>A column of plan.csv as read: its header text and 1-based column number.</summary>
+public sealed record PlanColumn(string Header, int Column);
 
 /// <summary>
 /// plan.csv: the series' run table. Columns `run`, `file`, `temperature (unit)` and one `[X]0 (unit)` per species;
@@ -23,6 +45,27 @@ public sealed record PlanRow(
 /// </summary>
 public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IReadOnlyList<string> Species)
 {
+    /// <summary>
+    /// Conversion parameters a plan.csv column may give per run, overriding the series.toml key of the same name
+    /// (gas_temperature overrides signal.temperature), and the quantity of the unit its header must carry.
+    /// </summary>
+    public static IReadOnlyDictionary<string, Quantity> ConditionNames { get; } = new Dictionary<string, Quantity>(StringComparer.Ordinal)
+    {
+        ["barometric_pressure"] = Quantity.Pressure,
+        ["blank"] = Quantity.Absorbance,
+        ["path_length"] = Quantity.Other,
+        ["solution_volume"] = Quantity.GasVolume,
+        ["zero_offset"] = Quantity.GasVolume,
+        ["gas_temperature"] = Quantity.Temperature,
+    };
+
+    /// <summary>1-based line number of the header.</summary>
+    public int HeaderLine { get; init; } = 1;
+    /// <summary>The [X]0 column of each species.</summary>
+    public IReadOnlyDictionary<string, PlanColumn> SpeciesColumns { get; init; } = new Dictionary<string, PlanColumn>();
+    /// <summary>The conversion-parameter columns present, keyed as <see cref="ConditionNames"/>.</summary>
+    public IReadOnlyDictionary<string, PlanColumn> ConditionColumns { get; init; } = new Dictionary<string, PlanColumn>();
+
     [GeneratedRegex(@"^\[(?<sp>[^\]]+)\]\s*0\s*(?:[\(\[](?<unit>[^\)\]]*)[\)\]])?$")]
     private static partial Regex SpeciesHeader();
 
@@ -45,6 +88,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         int runCol = -1, fileCol = -1, tempCol = -1;
         UnitInfo? tempUnit = null;
         var species = new List<(string Name, int Col, UnitInfo Unit)>();
+        var conditions = new List<(string Name, string Header, int Col, UnitInfo Unit)>();
         var extra = new List<(string Name, int Col)>();
         for (var c = 0; c < header.Length; c++)
         {
@@ -53,13 +97,32 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             if (sm.Success)
             {
                 var unitText = sm.Groups["unit"].Success ? sm.Groups["unit"].Value : "";
+                var at = Col(headerLine, delimiter, c);
                 if (unitText.Length == 0)
-                    throw Fail.At(file, headerIndex + 1, Col(headerLine, delimiter, c), Fail.Quote(h), "a concentration unit in the header, e.g. \"[A]0 (mmol/L)\"");
-                species.Add((sm.Groups["sp"].Value.Trim(), c, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, Col(headerLine, delimiter, c))));
+                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), "a concentration or pressure unit in the header, e.g. \"[A]0 (mmol/L)\" or \"[A]0 (kPa)\"");
+                // A gas-phase series may be planned in partial pressures: [X]0 = p/(R·T) with the run's temperature.
+                var su = Units.Find(unitText);
+                if (su is not { Quantity: Quantity.Concentration or Quantity.Pressure })
+                    throw Fail.At(file, headerIndex + 1, at, $"unit {Fail.Quote(unitText)}",
+                        $"a concentration unit ({string.Join(", ", Units.Examples(Quantity.Concentration))}) or a partial pressure unit ({string.Join(", ", Units.Examples(Quantity.Pressure))})",
+                        "e.g. \"[A]0 (mmol/L)\", or \"[A]0 (kPa)\" for a gas converted with the run's temperature");
+                species.Add((sm.Groups["sp"].Value.Trim(), c, su));
                 continue;
             }
             var um = UnitHeader().Match(h);
             var name = um.Success ? um.Groups["name"].Value.Trim().ToLowerInvariant() : h.ToLowerInvariant();
+            var conditionName = name.Replace(' ', '_');
+            if (ConditionNames.TryGetValue(conditionName, out var cq))
+            {
+                var u = um.Groups["unit"].Success ? um.Groups["unit"].Value.Trim() : "";
+                var at = Col(headerLine, delimiter, c);
+                if (conditions.Any(x => x.Name == conditionName))
+                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), $"one column \"{conditionName}\" only");
+                if (u.Length == 0 && cq != Quantity.Absorbance)
+                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), $"a {Units.Describe(cq)} unit in the header, e.g. \"{conditionName} ({Units.Examples(cq).First()})\"");
+                conditions.Add((conditionName, h, c, Units.Require(u, cq, file, headerIndex + 1, at)));
+                continue;
+            }
             switch (name)
             {
                 case "run": runCol = c; break;
@@ -103,20 +166,60 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                     throw Fail.At(file, i + 1, Col(line, delimiter, tempCol), Fail.Quote(cells[tempCol]), "a temperature between 0 K and 1000 K");
                 temp = t;
             }
+            var cond = new Dictionary<string, PlanCondition>(StringComparer.Ordinal);
+            var condCells = new Dictionary<string, int>(StringComparer.Ordinal);
+            foreach (var (cn, ch, col, unit) in conditions)
+            {
+                var at = Col(line, delimiter, col);
+                condCells[cn] = at;
+                if (cells[col].Trim().Length == 0) continue;
+                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, at));
+                var ok = cn switch
+                {
+                    "blank" => true,
+                    "zero_offset" => v >= 0,
+                    "gas_temperature" => v > 0 && v < 1000,
+                    _ => v > 0,
+                };
+                if (!ok)
+                    throw Fail.At(file, i + 1, at, Fail.Quote(cells[col].Trim()), cn switch
+                    {
+                        "zero_offset" => "a volume ≥ 0",
+                        "gas_temperature" => "a temperature between 0 K and 1000 K",
+                        _ => $"a positive {Units.Describe(ConditionNames[cn])}",
+                    });
+                cond[cn] = new PlanCondition(v, ch, i + 1, at);
+            }
             var conc = new Dictionary<string, double>(StringComparer.Ordinal);
+            var pressures = new Dictionary<string, double>(StringComparer.Ordinal);
             foreach (var (sp, col, unit) in species)
             {
                 if (cells[col].Trim().Length == 0) continue;
-                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, Col(line, delimiter, col)));
-                if (v < 0) throw Fail.At(file, i + 1, Col(line, delimiter, col), Fail.Quote(cells[col]), "a concentration ≥ 0");
+                var at = Col(line, delimiter, col);
+                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, at));
+                if (v < 0) throw Fail.At(file, i + 1, at, Fail.Quote(cells[col]), unit.Quantity == Quantity.Pressure ? "a partial pressure ≥ 0" : "a concentration ≥ 0");
+                if (unit.Quantity == Quantity.Pressure)
+                {
+                    // Perfect-gas equation c = n/V = p/(R·T) (IUPAC Green Book, 3rd ed., §2.11, from memory); /1000 for mol/L.
+                    var tGas = cond.TryGetValue("gas_temperature", out var gt) ? gt.Value : temp
+                        ?? throw Fail.At(file, i + 1, at, Fail.Quote(cells[col].Trim()) + " (a partial pressure)",
+                            "a temperature for this run to turn the pressure into a concentration", "fill the row's \"temperature (°C)\" or \"gas_temperature (°C)\" cell");
+                    pressures[sp] = v;
+                    v = v / (PhysicalConstants.GasConstant * tGas) / 1000;
+                }
                 conc[sp] = v;
             }
             var ex = extra.ToDictionary(e => e.Name, e => cells[e.Col].Trim(), StringComparer.Ordinal);
-            rows.Add(new PlanRow(run, fileName, temp, conc, ex, i + 1) { FileColumn = Col(line, delimiter, fileCol) });
+            rows.Add(new PlanRow(run, fileName, temp, conc, ex, i + 1) { FileColumn = Col(line, delimiter, fileCol), Conditions = cond, InitialPressures = pressures, ConditionCells = condCells });
         }
         if (rows.Count == 0)
             throw Fail.At(file, headerIndex + 2, 1, "no run rows", "one row per run under the header");
-        return new Plan(file, rows, species.Select(s => s.Name).ToArray());
+        return new Plan(file, rows, species.Select(s => s.Name).ToArray())
+        {
+            HeaderLine = headerIndex + 1,
+            SpeciesColumns = species.ToDictionary(s => s.Name, s => new PlanColumn(header[s.Col].Trim(), Col(headerLine, delimiter, s.Col)), StringComparer.Ordinal),
+            ConditionColumns = conditions.ToDictionary(c => c.Name, c => new PlanColumn(c.Header, Col(headerLine, delimiter, c.Col)), StringComparer.Ordinal),
+        };
     }
 
     private static bool LooksDecimalComma(string[] lines, int from, char delimiter)
@@ -132,7 +235,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
     }
 
     /// <summary>1-based character position where cell <paramref name="index"/> starts (quotes ignored: plan cells rarely hold delimiters).</summary>
-    private static int Col(string line, char delimiter, int index)
+    internal static int Col(string line, char delimiter, int index)
     {
         var pos = 0;
         for (var k = 0; k < index; k++)

@@ -15,6 +15,8 @@ public sealed record CalibrationSettings
     public string? File { get; init; }
     /// <summary>Other contributing species: name and stoichiometric coefficient (their concentrations are in the standards).</summary>
     public IReadOnlyList<(string Species, double Coefficient)> OtherSpecies { get; init; } = [];
+    /// <summary>One CSV of standards per other species (same order as <see cref="OtherSpecies"/>), when the standards are kept one species per file; else empty.</summary>
+    public IReadOnlyList<string> OtherFiles { get; init; } = [];
     /// <summary>The standards, once read (inline at once; from <see cref="File"/> by <see cref="SignalSettings.WithFilesFrom"/>).</summary>
     public CalibrationStandards? Standards { get; init; }
     /// <summary>The fitted curve, once the standards are known.</summary>
@@ -34,8 +36,10 @@ public sealed record CalibrationSettings
         var conc = s.Doubles("concentration");
         var others = new List<(string, double)>();
         var otherConc = new List<double[]?>();
+        var otherFiles = new List<string?>();
         foreach (var o in s.Sections("other"))
         {
+            otherFiles.Add(o.String("file"));
             var sp = o.String("species") ?? throw Fail.Setting(s.File, o.KeyName("species"), "nothing", "the name of the other species, as in plan.csv");
             var nu = o.Double("coefficient") ?? throw Fail.Setting(s.File, o.KeyName("coefficient"), "nothing", $"the stoichiometric coefficient of {sp}");
             others.Add((sp, nu));
@@ -44,7 +48,20 @@ public sealed record CalibrationSettings
         }
         SignalSettings.RejectUnknown(s);
 
-        var result = new CalibrationSettings { Model = model, File = file, OtherSpecies = others };
+        if (otherFiles.Any(f => f is not null))
+        {
+            for (var k = 0; k < others.Count; k++)
+            {
+                var key = $"{s.KeyName("other")}[{k}]";
+                if (otherFiles[k] is null)
+                    throw Fail.Setting(s.File, $"{key}.file", "nothing", $"a file of {others[k].Item1}'s standards, as the other species have one each");
+                if (otherConc[k] is not null)
+                    throw Fail.Setting(s.File, $"{key}.concentration", "both a file and inline concentrations", "one of them");
+            }
+            if (file is null)
+                throw Fail.Setting(s.File, s.KeyName("file"), "nothing", $"a file of {species}'s own standards, since each other species has its own file");
+        }
+        var result = new CalibrationSettings { Model = model, File = file, OtherSpecies = others, OtherFiles = otherFiles.All(f => f is not null) && otherFiles.Count > 0 ? otherFiles.Select(f => f!).ToArray() : [] };
         if (file is not null)
         {
             if (signalUnit is not null)

@@ -33,9 +33,16 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
         var headerLine = lines[headerIndex].TrimStart('\uFEFF');
         var delimiter = headerLine.Contains(';') ? ';' : headerLine.Contains('\t') ? '\t' : ',';
         var header = Setup.Plan.Split(headerLine, delimiter).Select(h => h.Trim()).ToArray();
+        // 1-based character position where header cell c starts.
+        int HeaderAt(int c) => Setup.Plan.Col(headerLine, delimiter, c);
         var signalCol = Array.FindIndex(header, h => h.StartsWith("signal", StringComparison.OrdinalIgnoreCase));
+        var concentrationCol = Array.FindIndex(header, h => h.StartsWith("concentration", StringComparison.OrdinalIgnoreCase));
+        if (signalCol < 0 && concentrationCol >= 0)
+            return FromWideCsv(lines, headerIndex, headerLine, delimiter, header, concentrationCol, file, species, others);
         if (signalCol < 0)
-            throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine), "a column whose header starts with \"signal\"");
+            throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine),
+                "a column whose header starts with \"signal\" (one signal per standard), or one \"concentration (unit)\" column with a signal column per species",
+                $"e.g. \"signal (mS/cm),[{species}] (mmol/L)\" or \"concentration (mmol/L),{string.Join(",", others.Select(o => o.Species).Prepend(species).Select(sp => sp + " (mS/cm)"))}\"");
 
         (int Col, UnitInfo Unit) Column(string sp)
         {
@@ -47,8 +54,17 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
                 if (rest.StartsWith('0')) rest = rest[1..].Trim();
                 var unitText = rest.Trim('(', ')', '[', ']', ' ');
                 if (unitText.Length == 0)
-                    throw Fail.At(file, headerIndex + 1, c + 1, Fail.Quote(h), $"a concentration unit in the header, e.g. \"[{sp}] (mmol/L)\"");
-                return (c, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, c + 1));
+                    throw Fail.At(file, headerIndex + 1, HeaderAt(c), Fail.Quote(h), $"a concentration unit in the header, e.g. \"[{sp}] (mmol/L)\"");
+                return (c, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, HeaderAt(c)));
+            }
+            // A file of one species' standards may head its concentrations plainly: "signal (mS/cm),concentration (mmol/L)".
+            if (others.Count == 0 && concentrationCol >= 0)
+            {
+                var h = header[concentrationCol];
+                var unitText = h["concentration".Length..].Trim().Trim('(', ')', '[', ']', ' ');
+                if (unitText.Length == 0)
+                    throw Fail.At(file, headerIndex + 1, HeaderAt(concentrationCol), Fail.Quote(h), "a concentration unit in the header, e.g. \"concentration (mmol/L)\"");
+                return (concentrationCol, Units.Require(unitText, Quantity.Concentration, file, headerIndex + 1, HeaderAt(concentrationCol)));
             }
             throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine), $"a column \"[{sp}] (unit)\" with the concentration of {sp} in each standard");
         }
@@ -58,7 +74,7 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
         var signalUnitText = signalHeader[6..].Trim().TrimStart('/').Trim().Trim('(', ')', '[', ']', ' ');
         UnitInfo? signalUnit = null;
         if (signalUnitText.Length > 0)
-            signalUnit = Units.Find(signalUnitText) ?? throw Fail.At(file, headerIndex + 1, signalCol + 1, Fail.Quote(signalHeader),
+            signalUnit = Units.Find(signalUnitText) ?? throw Fail.At(file, headerIndex + 1, HeaderAt(signalCol), Fail.Quote(signalHeader),
                 "a known signal unit in the header, e.g. \"signal (mS/cm)\", \"signal (AU)\" or \"signal (kPa)\", or plain \"signal\" for the unit of the export's channel");
         var main = Column(species);
         var otherCols = others.Select(o => Column(o.Species)).ToArray();
@@ -71,14 +87,121 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
             if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
             var cells = Setup.Plan.Split(lines[i], delimiter);
             if (cells.Length != header.Length)
-                throw Fail.At(file, i + 1, Math.Min(cells.Length, header.Length) + 1, $"{cells.Length} cells", $"{header.Length} cells, as in the header");
-            signals.Add(Number(cells[signalCol], culture, file, i + 1, signalCol + 1));
-            conc.Add(main.Unit.ToInternal(Number(cells[main.Col], culture, file, i + 1, main.Col + 1)));
+                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header");
+            signals.Add(Number(cells[signalCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, signalCol)));
+            conc.Add(main.Unit.ToInternal(Number(cells[main.Col], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, main.Col))));
             for (var k = 0; k < otherCols.Length; k++)
-                otherConc[k].Add(otherCols[k].Unit.ToInternal(Number(cells[otherCols[k].Col], culture, file, i + 1, otherCols[k].Col + 1)));
+                otherConc[k].Add(otherCols[k].Unit.ToInternal(Number(cells[otherCols[k].Col], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, otherCols[k].Col))));
         }
         return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
             others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = signalUnit };
+    }
+
+    /// <summary>
+    /// The layout with one <c>concentration (unit)</c> column and one signal column per standard species, headed by the
+    /// species' name and the signal unit (<c>NaOH (mS/cm)</c>): each row holds, for every species, the signal of a
+    /// standard of that species alone at that concentration. Read as one standard per species and row, the others at
+    /// zero, so the multi-species calibration learns each species' response from its own standards.
+    /// </summary>
+    private static CalibrationStandards FromWideCsv(string[] lines, int headerIndex, string headerLine, char delimiter, string[] header, int concentrationCol,
+        string file, string species, IReadOnlyList<(string Species, double Coefficient)> others)
+    {
+        int HeaderAt(int c) => Setup.Plan.Col(headerLine, delimiter, c);
+        var line = headerIndex + 1;
+        var concHeader = header[concentrationCol];
+        var concUnitText = concHeader["concentration".Length..].Trim().Trim('(', ')', '[', ']', ' ');
+        if (concUnitText.Length == 0)
+            throw Fail.At(file, line, HeaderAt(concentrationCol), Fail.Quote(concHeader), "a concentration unit in the header, e.g. \"concentration (mmol/L)\"");
+        var concUnit = Units.Require(concUnitText, Quantity.Concentration, file, line, HeaderAt(concentrationCol));
+        var names = others.Select(o => o.Species).Prepend(species).ToArray();
+        var cols = new int[names.Length];
+        var units = new UnitInfo?[names.Length];
+        Array.Fill(cols, -1);
+        for (var c = 0; c < header.Length; c++)
+        {
+            if (c == concentrationCol) continue;
+            var h = header[c];
+            var open = h.IndexOfAny(['(', '[']);
+            var name = (open >= 0 ? h[..open] : h).Trim();
+            var k = Array.IndexOf(names, name);
+            if (k < 0)
+                throw Fail.At(file, line, HeaderAt(c), Fail.Quote(h), $"a signal column named by a species of the calibration: {string.Join(", ", names)}",
+                    "the followed species is signal.species; others are [[signal.calibration.other]] species");
+            if (cols[k] >= 0)
+                throw Fail.At(file, line, HeaderAt(c), Fail.Quote(h), $"one signal column for {name} (the first is at column {HeaderAt(cols[k])})");
+            cols[k] = c;
+            var unitText = open >= 0 ? h[open..].Trim('(', ')', '[', ']', ' ') : "";
+            if (unitText.Length > 0)
+                units[k] = Units.Find(unitText) ?? throw Fail.At(file, line, HeaderAt(c), Fail.Quote(h),
+                    "a known signal unit in the header, e.g. \"" + name + " (mS/cm)\", or none for the unit of the export's channel");
+        }
+        for (var k = 0; k < names.Length; k++)
+            if (cols[k] < 0)
+                throw Fail.At(file, line, 1, Fail.Quote(string.Join(",", header)), $"a signal column for {names[k]}, e.g. \"{names[k]} (mS/cm)\"");
+        // One unit for all signals: the first column's; the others are converted to it, and must measure the same quantity.
+        var unit = units[0];
+        for (var k = 1; k < names.Length; k++)
+        {
+            if ((units[k] is null) != (unit is null))
+                throw Fail.At(file, line, HeaderAt(cols[k]), Fail.Quote(header[cols[k]]),
+                    $"a signal unit in every species' header or in none (column {HeaderAt(cols[0])} is {Fail.Quote(header[cols[0]])})");
+            if (units[k] is { } u && u.Quantity != unit!.Quantity)
+                throw Fail.At(file, line, HeaderAt(cols[k]), $"signals in {u.Symbol} ({Units.Describe(u.Quantity)})",
+                    $"the quantity of column {HeaderAt(cols[0])}, in {unit.Symbol} ({Units.Describe(unit.Quantity)})");
+        }
+        var culture = delimiter == ';' && lines.Skip(headerIndex + 1).Any(l => l.Contains(',')) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
+        var signals = new List<double>();
+        var conc = new List<double>();
+        var otherConc = others.Select(_ => new List<double>()).ToArray();
+        for (var i = headerIndex + 1; i < lines.Length; i++)
+        {
+            if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
+            var cells = Setup.Plan.Split(lines[i], delimiter);
+            if (cells.Length != header.Length)
+                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header");
+            var c = concUnit.ToInternal(Number(cells[concentrationCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, concentrationCol)));
+            for (var k = 0; k < names.Length; k++)
+            {
+                var v = Number(cells[cols[k]], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, cols[k]));
+                signals.Add(units[k] is { } uk ? unit!.FromInternal(uk.ToInternal(v)) : v);
+                conc.Add(k == 0 ? c : 0);
+                for (var o = 0; o < others.Count; o++) otherConc[o].Add(k == o + 1 ? c : 0);
+            }
+        }
+        return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
+            others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = unit };
+    }
+
+    /// <summary>
+    /// Standards kept one species per file: the followed species' file and one per other species, each read on its own
+    /// (every standard holds that species alone) and joined, the other species at zero in each file's standards. The
+    /// signals are brought into the first file's unit; files in units of different quantities, or a unit in some
+    /// headers and not in others, are errors naming both files.
+    /// </summary>
+    public static CalibrationStandards Join(CalibrationStandards followed, string followedFile, IReadOnlyList<(CalibrationStandards Standards, string File)> perOther,
+        IReadOnlyList<(string Species, double Coefficient)> others)
+    {
+        var unit = followed.SignalUnit;
+        var signals = new List<double>(followed.Signals);
+        var conc = new List<double>(followed.Concentrations);
+        var otherConc = others.Select(_ => Enumerable.Repeat(0.0, followed.Signals.Length).ToList()).ToArray();
+        for (var k = 0; k < perOther.Count; k++)
+        {
+            var (st, f) = perOther[k];
+            if ((st.SignalUnit is null) != (unit is null))
+                throw Fail.At(f, 1, 1, st.SignalUnit is null ? "a signal header without a unit" : $"signals in {st.SignalUnit.Symbol}",
+                    unit is null ? $"no unit, as in {followedFile}" : $"a unit in the signal header, as {followedFile} has ({unit.Symbol})");
+            if (st.SignalUnit is { } u && u.Quantity != unit!.Quantity)
+                throw Fail.At(f, 1, 1, $"signals in {u.Symbol} ({Units.Describe(u.Quantity)})", $"the quantity of {followedFile}, in {unit.Symbol} ({Units.Describe(unit.Quantity)})");
+            foreach (var v in st.Signals) signals.Add(st.SignalUnit is { } su ? unit!.FromInternal(su.ToInternal(v)) : v);
+            for (var i = 0; i < st.Signals.Length; i++)
+            {
+                conc.Add(0);
+                for (var o = 0; o < others.Count; o++) otherConc[o].Add(o == k ? st.Concentrations[i] : 0);
+            }
+        }
+        return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
+            others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = unit };
     }
 
     private static double Number(string cell, CultureInfo culture, string file, int line, int col)

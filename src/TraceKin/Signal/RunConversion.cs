@@ -32,7 +32,7 @@ public static class RunConversion
         var signal = raw;
         if (s.ReferenceChannel is { } refName)
         {
-            var reference = export.Channel(refName);
+            var reference = export.Channel(refName, "signal.reference_channel");
             if (reference.Count != channel.Count)
                 throw Fail.Setting(s.Source, "signal.reference_channel", $"{reference.Count} points in {Fail.Quote(reference.Name)}", $"{channel.Count} points, as in the signal channel");
             signal = new double[raw.Length];
@@ -156,7 +156,7 @@ public static class RunConversion
     /// </summary>
     private static void CheckSecondWavelength(RunExport export, SignalSettings s, double[] conc, int n, string checkName, List<Warning> warnings, string where)
     {
-        var check = export.Channel(checkName);
+        var check = export.Channel(checkName, "signal.check_channel");
         if (check.Count != n)
             throw Fail.Setting(s.Source, "signal.check_channel", $"{check.Count} points in {Fail.Quote(check.Name)}", $"{n} points, as in the signal channel");
         var bl = new BeerLambert(s.CheckMolarAbsorptivity!.Value, s.PathLength, s.CheckBlank).Response;

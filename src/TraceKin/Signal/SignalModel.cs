@@ -45,8 +45,11 @@ public sealed record SignalModel
     private static string G(double v) => v.ToString("G10", Inv);
 
     /// <summary>The conversion for one run. <paramref name="export"/> may be null (simulation): then no default comes from its first sample.</summary>
-    public static SignalModel For(SignalSettings s, PlanRow row, RunExport? export = null)
+    public static SignalModel For(SignalSettings settings, PlanRow row, RunExport? export = null)
     {
+        // plan.csv columns such as "barometric_pressure (kPa)" give this run its own parameters.
+        var s = RunConditions.Apply(settings, row);
+        string From(string name, string key) => RunConditions.Source(row, name, key);
         var initials = row.InitialConcentrations;
         double InitialOrZero(string sp) => initials.TryGetValue(sp, out var c) ? c : 0;
         double RequiredInitial()
@@ -75,8 +78,8 @@ public sealed record SignalModel
                 var constants = new List<KeyValuePair<string, string>>
                 {
                     new("ε", $"{G(eps)} L/(mol·cm) (signal.molar_absorptivity)"),
-                    new("l", $"{G(s.PathLength)} cm (signal.path_length)"),
-                    new("blank", $"{G(s.Blank)} AU (signal.blank)"),
+                    new("l", $"{G(s.PathLength)} cm ({From("path_length", "signal.path_length")})"),
+                    new("blank", $"{G(s.Blank)} AU ({From("blank", "signal.blank")})"),
                 };
                 constants.AddRange(s.Absorbers.Select(a => new KeyValuePair<string, string>($"ε({a.Species})", $"{G(a.MolarAbsorptivity)} L/(mol·cm), ν = {G(a.Coefficient)} (signal.absorber)")));
                 // BeerLambert.Response builds the linear response afresh on every call; build it once per run.
@@ -134,7 +137,7 @@ public sealed record SignalModel
             case "gas_volume":
             {
                 var t = RunTemperature(s, row);
-                var pb = s.BarometricPressure ?? throw Missing(s, "barometric_pressure", "the barometric pressure");
+                var pb = s.BarometricPressure ?? throw Missing(s, "barometric_pressure", "the barometric pressure, or a plan.csv column \"barometric_pressure (kPa)\"");
                 if (!s.DryGas)
                 {
                     if (!(t >= WaterVapour.MinimumTemperature && t <= 373.15))
@@ -142,10 +145,21 @@ public sealed record SignalModel
                             TemperatureHint(s, row));
                     var pw = WaterVapour.SaturationPressure(t);
                     if (pb <= pw)
-                        throw Fail.Setting(s.Source, "signal.barometric_pressure", $"{G(pb)} Pa",
+                        throw Fail.Setting(s.Source, "signal.barometric_pressure", $"{G(pb)} Pa ({From("barometric_pressure", "signal.barometric_pressure")})",
                             $"a pressure above the water vapour pressure at {G(t)} K ({pw.ToString("F1", Inv)} Pa, IAPWS-IF97)", "check pressure_unit (default Pa)");
                 }
-                var gas = new GasOverWater(pb, t, s.SolutionVolume ?? throw Missing(s, "solution_volume", "the volume of the reacting solution"), s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, s.ZeroOffset)
+                // A collector zeroed after mixing: the reading at mixing is extrapolated from the early samples (negative:
+                // the gas lost before the zero) and used as the zero offset. Without an export (simulation) the writer
+                // zeroes the trace at its first sample instead.
+                var zero = s.ZeroOffset;
+                var zeroSource = From("zero_offset", "signal.zero_offset");
+                if (s.ZeroedAfterMixing && export is not null)
+                {
+                    var (z, zse, points) = GasZeroExtrapolation.AtMixing(export, s.Channel, s.Source);
+                    zero = z;
+                    zeroSource = $"extrapolated to mixing (t = 0) by a quadratic over the first {points} samples, standard error {G(zse)} L; signal.zeroed_after_mixing";
+                }
+                var gas = new GasOverWater(pb, t, s.SolutionVolume ?? throw Missing(s, "solution_volume", "the volume of the reacting solution, or a plan.csv column \"solution_volume (mL)\""), s.GasCoefficient, s.Coefficient, RequiredInitial(), s.DryGas, zero)
                 {
                     BarometricPressureU = s.BarometricPressureU, TemperatureU = s.TemperatureU, SolutionVolumeU = s.SolutionVolumeU,
                 };
@@ -153,12 +167,14 @@ public sealed record SignalModel
                 var constants = new List<KeyValuePair<string, string>>
                 {
                     new("R", $"{G(PhysicalConstants.GasConstant)} J/(mol·K) (CODATA 2018)"),
-                    new("p_bar", $"{G(pb)} Pa (signal.barometric_pressure)"),
-                    new("T", $"{G(t)} K ({(s.Temperature is null ? "plan" : "signal.temperature")})"),
+                    new("p_bar", $"{G(pb)} Pa ({From("barometric_pressure", "signal.barometric_pressure")})"),
+                    new("T", $"{G(t)} K ({TemperatureSource(settings, row)})"),
                     new("p_H2O", s.DryGas ? "0 Pa (signal.dry_gas)" : $"{G(gas.WaterVapourPressure)} Pa (IAPWS-IF97 Eq. 30)"),
-                    new("V_solution", $"{G(gas.SolutionVolume)} L (signal.solution_volume)"),
+                    new("V_solution", $"{G(gas.SolutionVolume)} L ({From("solution_volume", "signal.solution_volume")})"),
                     new("ν_gas", $"{G(s.GasCoefficient)} (signal.gas_coefficient)"),
                 };
+                if (zero != 0 || row.Conditions.ContainsKey("zero_offset") || s.ZeroedAfterMixing)
+                    constants.Add(new("V_zero", $"{G(zero)} L ({zeroSource})"));
                 return new SignalModel
                 {
                     SignalQuantity = Quantity.GasVolume, SignalUnit = Units.Litre,
@@ -175,7 +191,8 @@ public sealed record SignalModel
                 var p0Source = s.InitialPressure is not null ? "signal.initial_pressure" : planned is not null ? "plan" : first is not null ? "first sample" : "plan [X]0";
                 if (initials.TryGetValue(s.Species, out var c0))
                 {
-                    p0Partial = c0 * 1000 * PhysicalConstants.GasConstant * t;
+                    // A plan that gives [X]0 as a partial pressure gives p_X0 itself; a concentration becomes [X]0·R·T.
+                    p0Partial = row.InitialPressures.TryGetValue(s.Species, out var pPlan) ? pPlan : c0 * 1000 * PhysicalConstants.GasConstant * t;
                     p0 = s.InitialPressure ?? planned ?? first ?? p0Partial / (s.InitialMoleFraction is > 0 ? s.InitialMoleFraction.Value : 1);
                 }
                 else
@@ -189,9 +206,9 @@ public sealed record SignalModel
                 var constants = new List<KeyValuePair<string, string>>
                 {
                     new("R", $"{G(PhysicalConstants.GasConstant)} J/(mol·K) (CODATA 2018)"),
-                    new("T", $"{G(t)} K ({(s.Temperature is null ? "plan" : "signal.temperature")})"),
+                    new("T", $"{G(t)} K ({TemperatureSource(settings, row)})"),
                     new("p0", $"{G(p0)} Pa ({p0Source})"),
-                    new($"p({s.Species})0", $"{G(p0Partial)} Pa"),
+                    new($"p({s.Species})0", $"{G(p0Partial)} Pa{(row.InitialPressures.ContainsKey(s.Species) ? " (plan, as a partial pressure)" : "")}"),
                     new("Δν_gas", $"{G(pc.GasMoleChange)} (signal.gas_mole_change)"),
                 };
                 return new SignalModel
@@ -250,6 +267,10 @@ public sealed record SignalModel
             throw Fail.Setting(s.Source, "signal.temperature", $"{G(t)} K", "a temperature between 0 K and 1000 K", TemperatureHint(s, row));
         return t;
     }
+
+    /// <summary>Where a gas or cell temperature came from: the plan's gas_temperature cell, signal.temperature, or the run's temperature.</summary>
+    private static string TemperatureSource(SignalSettings series, PlanRow row) =>
+        row.Conditions.TryGetValue("gas_temperature", out var c) ? c.Source : series.Temperature is not null ? "signal.temperature" : "plan";
 
     private static string TemperatureHint(SignalSettings s, PlanRow row) =>
         s.Temperature is null ? $"the temperature comes from plan.csv line {row.Line}" : "check signal.temperature and temperature_unit";

@@ -71,6 +71,8 @@ public sealed record SignalSettings
     public double SolutionVolumeU { get; init; }
     /// <summary>Gas volume read before any gas formed, L.</summary>
     public double ZeroOffset { get; init; }
+    /// <summary>True when the collector was zeroed after mixing: the gas lost before its zero is extrapolated (<see cref="GasZeroExtrapolation"/>).</summary>
+    public bool ZeroedAfterMixing { get; init; }
     /// <summary>Change in moles of gas per unit extent (pressure kind).</summary>
     public double? GasMoleChange { get; init; }
     /// <summary>Total pressure at mixing, Pa; null = the first sample.</summary>
@@ -155,6 +157,7 @@ public sealed record SignalSettings
             SolutionVolume = s.Positive("solution_volume") is { } sv ? volumeUnit.ToInternal(sv) : null,
             SolutionVolumeU = (NonNegative(s, "solution_volume_u") ?? 0) * volumeUnit.Factor,
             ZeroOffset = volumeUnit.ToInternal(s.Double("zero_offset", 0)),
+            ZeroedAfterMixing = s.Bool("zeroed_after_mixing") ?? false,
             GasMoleChange = s.Double("gas_mole_change"),
             InitialPressure = s.Positive("initial_pressure") is { } p0 ? pressureUnit.ToInternal(p0) : null,
             InitialMoleFraction = NonNegative(s, "initial_mole_fraction"),
@@ -177,6 +180,9 @@ public sealed record SignalSettings
         Exception Missing(string key, string expected, string hint = "") => Fail.Setting(s.File, s.KeyName(key), "nothing", expected, hint);
         if (InitialMoleFraction is > 1)
             throw Fail.Setting(s.File, s.KeyName("initial_mole_fraction"), InitialMoleFraction.Value.ToString(CultureInfo.InvariantCulture), "a mole fraction between 0 and 1");
+        if (ZeroedAfterMixing && Kind != "gas_volume")
+            throw Fail.Setting(s.File, s.KeyName("zeroed_after_mixing"), $"zeroed_after_mixing with kind = \"{Kind}\"", "kind = \"gas_volume\"",
+                "only a gas collector is zeroed; leave the key out for other kinds");
         switch (Kind)
         {
             case "absorbance":
@@ -194,10 +200,10 @@ public sealed record SignalSettings
             case "gas_volume" or "pressure" when Calibration is not null:
                 throw Fail.Setting(s.File, s.KeyName("calibration"), $"a calibration table with kind = \"{Kind}\"", "no calibration: this kind is converted from physical laws",
                     "use kind = \"calibrated\" to read the signal through standards instead");
-            case "gas_volume":
-                if (BarometricPressure is null) throw Missing("barometric_pressure", "the barometric pressure (unit: pressure_unit, default Pa)", "e.g. barometric_pressure = 101.2 with pressure_unit = \"kPa\"");
-                if (SolutionVolume is null) throw Missing("solution_volume", "the volume of the reacting solution (unit: volume_unit, default mL)");
-                break;
+            case "gas_volume" when ZeroedAfterMixing && s.Double("zero_offset") is not null:
+                throw Fail.Setting(s.File, s.KeyName("zero_offset"), "a zero offset with zeroed_after_mixing = true", "one of them",
+                    "a collector zeroed after mixing has its offset extrapolated from the trace");
+            // gas_volume's barometric pressure and solution volume may come per run from plan.csv: SeriesCheck asks for them.
             case "pressure":
                 if (GasMoleChange is null) throw Missing("gas_mole_change", "the change in moles of gas per unit extent of reaction, e.g. 1 for A(g) → 2 B(g)");
                 if (GasMoleChange == 0)
@@ -227,7 +233,24 @@ public sealed record SignalSettings
         var path = Path.Combine(seriesDirectory, file);
         if (!System.IO.File.Exists(path))
             throw Fail.Setting(Source, "signal.calibration.file", Fail.Quote(file), "a CSV of standards in the series folder", $"no file {file} was found beside {Source}");
-        var standards = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, cal.OtherSpecies);
+        CalibrationStandards standards;
+        if (cal.OtherFiles.Count == 0)
+            standards = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, cal.OtherSpecies);
+        else
+        {
+            // One species per file: each file read on its own, then joined.
+            var own = CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(path), file, Species, []);
+            var perOther = new List<(CalibrationStandards, string)>();
+            for (var k = 0; k < cal.OtherFiles.Count; k++)
+            {
+                var otherFile = cal.OtherFiles[k];
+                var otherPath = Path.Combine(seriesDirectory, otherFile);
+                if (!System.IO.File.Exists(otherPath))
+                    throw Fail.Setting(Source, $"signal.calibration.other[{k}].file", Fail.Quote(otherFile), "a CSV of standards in the series folder", $"no file {otherFile} was found beside {Source}");
+                perOther.Add((CalibrationStandards.FromCsvText(System.IO.File.ReadAllText(otherPath), otherFile, cal.OtherSpecies[k].Species, []), otherFile));
+            }
+            standards = CalibrationStandards.Join(own, file, perOther, cal.OtherSpecies);
+        }
         return this with { Calibration = cal with { Standards = standards, Curve = CalibrationCurve.FromStandards(standards, cal.Model, file) } };
     }
 

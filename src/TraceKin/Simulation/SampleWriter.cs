@@ -29,13 +29,17 @@ public static class SampleWriter
         var sb = new StringBuilder();
         sb.AppendLine(ci, $"# simulated by TraceKin {Analysis.SeriesRunner.ToolVersion}; seed {sampling.Seed}");
         sb.AppendLine(ci, $"run: {row.Run}");
+        // Times are written from mixing; with a dead time the first sample is not at 0, so the moment of mixing is stated.
+        if (sampling.DeadTime > 0) sb.AppendLine("mixed at: 0 s");
         if (row.TemperatureK is { } tk) sb.AppendLine(ci, $"temperature: {tk - 273.15:0.00} °C");
         var (header, unit) = SignalHeader(s);
         sb.AppendLine($"time (s),{header}");
         var signal = Conversion.ToSignal(new Trace($"[{s.Species}]", Quantity.Concentration, Units.MolPerLitre, times, tracked), row, s with { Source = config.File });
+        // A gas collector zeroed after mixing reads the gas formed since its zero, set here at the first sample.
+        var zeroAt = s.Kind == "gas_volume" && s.ZeroedAfterMixing ? signal.Values[0] - s.ZeroOffset : 0;
         for (var i = 0; i < count; i++)
         {
-            var value = unit.FromInternal(signal.Values[i]) + RateLawSimulator.Gaussian(rng, sampling.Noise);
+            var value = unit.FromInternal(signal.Values[i] - zeroAt) + RateLawSimulator.Gaussian(rng, sampling.Noise);
             var text = value.ToString(s.Kind == "absorbance" ? "0.000000" : "G9", ci);
             sb.AppendLine(ci, $"{times[i]:0.###},{text}");
         }

@@ -19,7 +19,10 @@ public sealed record RunExport(
     public (int First, int Last) DataLines { get; init; }
 
     /// <summary>The channel of that name (case-insensitive), or the only channel when name is null.</summary>
-    public Trace Channel(string? name)
+    public Trace Channel(string? name) => Channel(name, "signal.channel");
+
+    /// <summary>The channel of that name (any case), else a problem at <paramref name="key"/> listing the channels the export has.</summary>
+    public Trace Channel(string? name, string key)
     {
         if (name is null)
         {
@@ -29,7 +32,7 @@ public sealed record RunExport(
         }
         foreach (var c in Channels)
             if (string.Equals(c.Name, name, StringComparison.OrdinalIgnoreCase)) return c;
-        throw Fail.Setting(File, "signal.channel", Fail.Quote(name), $"one of: {string.Join(", ", Channels.Select(c => c.Name))}",
+        throw Fail.Setting(File, key, Fail.Quote(name), $"a channel of this export, one of: {string.Join(", ", Channels.Select(c => c.Name))}",
             "check the column header in the export");
     }
 }

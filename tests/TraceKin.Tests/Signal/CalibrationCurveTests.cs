@@ -126,7 +126,8 @@ public class CalibrationCurveTests
     {
         var ex = Assert.Throws<InputException>(() => CalibrationStandards.FromCsvText("signal,[A] (mol/L)\n0.1,0.001\n0.2,abc\n", "standards.csv", "A", []));
         Assert.Equal(3, ex.Problem.Line);
-        Assert.Equal(2, ex.Problem.Column);
+        // The column is the character position where the cell starts ("0.2,abc": "abc" starts at character 5).
+        Assert.Equal(5, ex.Problem.Column);
     }
 }
 

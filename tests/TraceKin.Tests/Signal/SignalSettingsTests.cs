@@ -113,7 +113,9 @@ public class SignalSettingsTests
 
     [Fact]
     public void Gas_volume_without_a_solution_volume_names_the_missing_key() =>
-        Assert.Equal("signal.solution_volume", KeyOf(() => Read("kind = \"gas_volume\"\nbarometric_pressure = 101325")));
+        Assert.Equal("signal.solution_volume", KeyOf(() => SeriesCheck.Check(
+            SeriesConfig.FromText("[signal]\nkind = \"gas_volume\"\nbarometric_pressure = 101325", "series.toml"),
+            Plan.FromText("run,file,temperature (°C),[A]0 (mmol/L)\nR1,r1.csv,25,5\n", "plan.csv"))));
 
     [Fact]
     public void Pressure_kind_with_no_change_in_gas_moles_names_its_key() =>
