@@ -18,7 +18,8 @@ public static class SimulateCommand
         var series = new Argument<DirectoryInfo>("series") { Description = "Series folder with plan.csv and series.toml; the exports are written there." };
         var k = new Option<double>("--rate-constant", "-k") { Description = "k at the reference temperature, in (mol/L)^(1−Σn)/s.", Required = true };
         var orders = new Option<string[]>("--order") { Description = "Order of a species, e.g. --order A=1 --order H=1.", AllowMultipleArgumentsPerToken = true, Required = true };
-        var coefficients = new Option<string[]>("--coefficient") { Description = "Stoichiometric coefficient ν of a species (default −1 for every species with an order).", AllowMultipleArgumentsPerToken = true };
+        var coefficients = new Option<string[]>("--coefficient") { Description = "Stoichiometric coefficient ν of a species (default: signal.coefficient for the followed species, −1 for the others with an order).", AllowMultipleArgumentsPerToken = true };
+        var force = new Option<bool>("--force") { Description = "Overwrite export files that already exist (by default simulate refuses, so a real export is never replaced)." };
         var ea = new Option<double>("--activation-energy") { Description = "Ea in kJ/mol for runs at other temperatures (default 0)." };
         var tref = new Option<double>("--reference-temperature") { Description = "Temperature (°C) at which k is given (default 25).", DefaultValueFactory = _ => 25.0 };
         var duration = new Option<double>("--duration") { Description = "Run length in s (default 600).", DefaultValueFactory = _ => 600.0 };
@@ -27,7 +28,7 @@ public static class SimulateCommand
         var seed = new Option<int>("--seed") { Description = "Random seed (default 1).", DefaultValueFactory = _ => 1 };
         var cmd = new Command("simulate", "Write simulated exports for a plan from a known rate law (to plan runs, or to check the analysis on known answers).")
         {
-            series, k, orders, coefficients, ea, tref, duration, interval, noise, seed,
+            series, k, orders, coefficients, ea, tref, duration, interval, noise, seed, force,
         };
         cmd.SetAction(pr =>
         {
@@ -38,13 +39,20 @@ public static class SimulateCommand
                 config = config with { Signal = config.Signal.WithFilesFrom(dir) };
                 var plan = Plan.FromFile(Path.Combine(dir, "plan.csv"));
                 var ord = Pairs(pr.GetValue(orders) ?? [], "--order");
-                var nu = ord.Keys.ToDictionary(s => s, _ => -1.0);
+                // The followed species' coefficient is the one series.toml states; the analysis reads it from there too.
+                var nu = ord.Keys.ToDictionary(s => s, s => s == config.Signal.Species ? config.Signal.Coefficient : -1.0);
                 foreach (var (s, v) in Pairs(pr.GetValue(coefficients) ?? [], "--coefficient")) nu[s] = v;
                 var law = new SimulatedLaw(pr.GetValue(k), ord, nu, pr.GetValue(ea) * 1000, pr.GetValue(tref) + 273.15);
                 var sampling = new SamplingPlan(pr.GetValue(duration), pr.GetValue(interval), pr.GetValue(noise), pr.GetValue(seed));
                 if (!(sampling.Duration > 0 && sampling.Interval > 0 && sampling.Interval <= sampling.Duration))
                 {
                     Console.Error.WriteLine("tracekin simulate: --duration and --interval must be positive, interval ≤ duration");
+                    return ExitCodes.Usage;
+                }
+                var existing = plan.Rows.Select(r => r.File).Distinct(StringComparer.Ordinal).Where(f => File.Exists(Path.Combine(dir, f)) || Directory.Exists(Path.Combine(dir, f))).ToList();
+                if (existing.Count > 0 && !pr.GetValue(force))
+                {
+                    Console.Error.WriteLine($"tracekin simulate: {existing.Count} export file(s) named in plan.csv already exist in {dir} ({string.Join(", ", existing.Take(5))}{(existing.Count > 5 ? ", …" : "")}); nothing was written. Pass --force to overwrite them, or simulate into a copy of the plan and series.toml.");
                     return ExitCodes.Usage;
                 }
                 foreach (var row in plan.Rows)
