@@ -44,7 +44,8 @@ def main():
         same_simple = round(2 * bv) == round(2 * t["value"])
         verdict = ("agree" if within else "agree within 1 %, intervals apart" if close else "DISAGREE") if same_simple else "DISAGREE"
         ok &= verdict != "DISAGREE"
-        lines.append(f"order {sp}: TraceKin {t['value']:.4f} [{lo:.4f}, {hi:.4f}]  baseline {bv:.4f} ± {1.96 * bse:.4f}"
+        covers = "covers the truth" if lo <= true_order <= hi else "MISSES the truth"
+        lines.append(f"order {sp}: TraceKin {t['value']:.4f} [{lo:.4f}, {hi:.4f}] ({covers})  baseline {bv:.4f} ± {1.96 * bse:.4f}"
                      f"  true {true_order}  {verdict}")
 
     k = tk.get("rateConstant")
@@ -60,8 +61,14 @@ def main():
         close = abs(k["value"] - bk) <= 0.01 * abs(bk)
         verdict = "agree" if within else "agree within 1 %, intervals apart" if close else "DISAGREE"
         ok &= verdict != "DISAGREE"
-        lines.append(f"k: TraceKin {k['value']:.4g} [{lo:.4g}, {hi:.4g}] {k['unit']}  baseline {bk:.4g} ± {1.96 * bk_sem:.2g}"
+        covers = "covers the true k" if lo <= truth["k"] <= hi else "MISSES the true k"
+        lines.append(f"k: TraceKin {k['value']:.6g} [{lo:.6g}, {hi:.6g}] {k['unit']} ({covers}; law-choice part {k.get('lawChoiceStdError', 0):.2g})"
+                     f"  baseline {bk:.4g} ± {1.96 * bk_sem:.2g}"
                      f" (integrated fits; {bk_ir:.4g} from its initial rates)  true {truth['k']}  {verdict}")
+    for v in (tk.get("powerLaw") or {}).get("orderVerdicts", []):
+        lines.append(f"verdict: {v['text']}")
+    flagged = sorted({w["code"] for w in tk.get("warnings", []) if w["code"] in ("power-law-wrong-shape", "orders-not-simple")})
+    lines.append("law-adequacy warnings: " + (", ".join(flagged) if flagged else "none"))
     print("\n".join(lines))
     print("results agree" if ok else "RESULTS DISAGREE")
     return 0 if ok else 1
