@@ -82,12 +82,8 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
         var signals = new List<double>();
         var conc = new List<double>();
         var otherConc = others.Select(_ => new List<double>()).ToArray();
-        for (var i = headerIndex + 1; i < lines.Length; i++)
+        foreach (var (i, cells) in DataRows(lines, headerIndex, delimiter, header.Length, file))
         {
-            if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
-            var cells = Setup.Plan.Split(lines[i], delimiter);
-            if (cells.Length != header.Length)
-                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header");
             signals.Add(Number(cells[signalCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, signalCol)));
             conc.Add(main.Unit.ToInternal(Number(cells[main.Col], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, main.Col))));
             for (var k = 0; k < otherCols.Length; k++)
@@ -153,12 +149,8 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
         var signals = new List<double>();
         var conc = new List<double>();
         var otherConc = others.Select(_ => new List<double>()).ToArray();
-        for (var i = headerIndex + 1; i < lines.Length; i++)
+        foreach (var (i, cells) in DataRows(lines, headerIndex, delimiter, header.Length, file))
         {
-            if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
-            var cells = Setup.Plan.Split(lines[i], delimiter);
-            if (cells.Length != header.Length)
-                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header");
             var c = concUnit.ToInternal(Number(cells[concentrationCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, concentrationCol)));
             for (var k = 0; k < names.Length; k++)
             {
@@ -202,6 +194,20 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
         }
         return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
             others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = unit };
+    }
+
+    /// <summary>The data rows after the header (blank and # lines skipped), each with its 0-based line index; a row
+    /// with another number of cells than the header is a located error.</summary>
+    private static IEnumerable<(int Index, string[] Cells)> DataRows(string[] lines, int headerIndex, char delimiter, int cellsPerRow, string file)
+    {
+        for (var i = headerIndex + 1; i < lines.Length; i++)
+        {
+            if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
+            var cells = Setup.Plan.Split(lines[i], delimiter);
+            if (cells.Length != cellsPerRow)
+                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, cellsPerRow)), $"{cells.Length} cells", $"{cellsPerRow} cells, as in the header");
+            yield return (i, cells);
+        }
     }
 
     private static double Number(string cell, CultureInfo culture, string file, int line, int col)

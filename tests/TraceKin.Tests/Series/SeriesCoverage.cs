@@ -8,7 +8,7 @@ namespace TraceKin.Tests.Series;
 /// A series-level coverage study (invented series with a known truth; fixed seeds): each replicate is a series of N runs
 /// whose traces follow the exact A + B law, [A] = Δ·[A]0/([B]0·e^(Δkt) − [A]0) with Δ = [B]0 − [A]0 (closed form,
 /// common practice, no source), 200 readings to 95 % conversion, noise 0.5 % of [A]0, optionally with spikes or a
-/// drift as in the Rates tests. Each run goes through the Rates stage, the series through the Series stage, and the
+/// drift of 5 % of the signal range over the run as in the Rates tests. Each run goes through the Rates stage, the series through the Series stage, and the
 /// study counts how often the 95 % intervals of n(A), n(B) and k contain the truth (orders 1 and 1, k = 0.5 L/(mol·s)).
 /// "first": [B]0 in a 6- to 100-fold excess; "mixed": [B]0 only 2- to 10-fold above [A]0.
 /// Shared by the tests (small N) and bench/TraceKin.Bench.Coverage (N = 200).
@@ -39,7 +39,7 @@ internal static class SeriesCoverage
                 double Truth(double t) => SyntheticTrace.MixedSecondOrder(K, a0, b0, t);
                 var tEnd = 0.5;
                 while (Truth(tEnd) > 0.05 * a0 && tEnd < 4000) tEnd += 0.5;
-                var trace = SyntheticTrace.Make(Truth, tEnd, 200, 0.005 * a0, rng.Next(), condition == "spikes" ? 0.01 : 0, condition == "drift" ? 0.02 : 0);
+                var trace = SyntheticTrace.Make(Truth, tEnd, 200, 0.005 * a0, rng.Next(), condition == "spikes" ? 0.01 : 0, condition == "drift" ? 0.05 : 0);
                 var r = RateAnalysis.Analyse(trace, -1, a0, RateSettings.Default, $"R{i}", b0);
                 runErr += r.Headline.Value / (K * a0 * b0) - 1; runCount++;
                 if (!r.IsResolved) continue;
