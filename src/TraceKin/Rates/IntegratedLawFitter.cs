@@ -123,8 +123,8 @@ public static class IntegratedLawFitter
             foreach (var r in all.Where(r => r.Model.Law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw && r.Fit.Converged)) entangled.Add(r.Fit);
         }
         // A drift is a property of the instrument's baseline, not a patch for a law of the wrong shape (second order +
-        // drift can mimic an exponential): drift variants compete only when the best drift-free law itself is
-        // improved by its drift term by more than 7 AICc.
+        // drift can mimic an exponential): other laws' drift variants compete only when the best drift-free law itself
+        // is improved by its drift term by more than 7 AICc.
         if (drift == "auto")
         {
             var bestPlain = all.Where(r => !r.Model.Drift && r.Fit.Converged && !entangled.Contains(r.Fit) && r.Model.Law is not NthOrderLaw)
@@ -134,7 +134,9 @@ public static class IntegratedLawFitter
             var supported = itsDrift.Fit is not null && itsDrift.Fit.AicC < bestPlain.Fit!.AicC - 7;
             if (!supported)
             {
-                var patches = all.Where(r => r.Model.Drift && r.Fit.Converged && !entangled.Contains(r.Fit)).ToList();
+                // The best law's own drift variant stays in (its Akaike weight then shares the estimate: a weak drift
+                // is half-believed rather than ignored); the other laws' drift variants are out.
+                var patches = all.Where(r => r.Model.Drift && r.Fit.Converged && !entangled.Contains(r.Fit) && !ReferenceEquals(r.Fit, itsDrift.Fit)).ToList();
                 foreach (var r in patches) entangled.Add(r.Fit);
                 if (patches.Count > 0 && driftExcluded is null && bestPlain.Fit is not null)
                     driftExcluded = $"a drift term does not improve the best drift-free law ({bestPlain.Model.Law.Name}) by more than 7 AICc, so it would only patch another law's shape";

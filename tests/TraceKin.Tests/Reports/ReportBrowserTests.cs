@@ -51,9 +51,10 @@ public sealed class ReportBrowserTests(AnalysedSample sample, ITestOutputHelper 
             var url = new Uri(sample.ReportPath).AbsoluteUri;
             var pdf = Path.Combine(work, "report.pdf");
             var png = Path.Combine(work, "report.png");
-            // The page is about 9000 CSS px tall at this width, so one tall screenshot holds every plot.
+            // The page is about 12000 CSS px tall at this width (order verdicts and notes above the plots), so one tall
+            // screenshot of 16000 px holds every plot.
             var printing = Start(chromium, work, "pdf", ["--no-pdf-header-footer", $"--print-to-pdf={pdf}", url]);
-            var shooting = Start(chromium, work, "png", ["--hide-scrollbars", "--window-size=1000,9000", $"--screenshot={png}", url]);
+            var shooting = Start(chromium, work, "png", ["--hide-scrollbars", "--window-size=1000,16000", $"--screenshot={png}", url]);
             Finish(printing);
             Finish(shooting);
 
