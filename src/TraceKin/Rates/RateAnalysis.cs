@@ -43,11 +43,10 @@ public static class RateAnalysis
         var spikes = candidates;
         if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { } chosen && chosen.Fitted.Length == n)
         {
-            var resid = new double[n];
             double lo = double.PositiveInfinity, hi = double.NegativeInfinity;
-            for (var i = 0; i < n; i++) { resid[i] = y[i] - chosen.Fitted[i]; lo = Math.Min(lo, y[i]); hi = Math.Max(hi, y[i]); }
+            for (var i = 0; i < n; i++) { lo = Math.Min(lo, y[i]); hi = Math.Max(hi, y[i]); }
             var floor = 1e-9 * (hi - lo);
-            var confirmed = SpikeFilter.FromResiduals(resid, floor);
+            var confirmed = SpikeFilter.FromFit(y, chosen.Fitted, floor);
             spikes = new bool[n];
             for (var i = 0; i < n; i++) spikes[i] = candidates[i] && confirmed[i];
             if (!spikes.AsSpan().SequenceEqual(candidates))
