@@ -416,8 +416,8 @@ public static class IntegratedLawFitter
     /// <summary>
     /// The points the laws are fitted to when a trace with more than <see cref="MaxSampleFitPoints"/> valid samples
     /// keeps its curve too sharply for 250 bins (null for shorter traces, which are fitted at every sample as before).
-    /// A fit at every sample holds about sixteen numbers per sample (Jacobian, its factor, residuals, trial values),
-    /// 2.6 kB per sample for the dozen fits, so a 2,000,000-sample trace would need gigabytes; bins this fine give the
+    /// A fit at every sample holds about sixteen numbers per sample (Jacobian, its factor, residuals, trial values);
+    /// over the dozen fits a 2,000,000-sample trace allocated 2 GB and held 1.2–1.6 GB at its peak. Bins this fine give the
     /// same estimates to first order and keep memory bounded (docs/methods.md, "Memory per run"): first 2,500 bins
     /// with the curvature check of <see cref="Bin"/>, then <see cref="MaxSampleFitPoints"/> bins without it (the
     /// two-point bin average of the model removes the curvature bias to fourth order). A trace without measurable noise
