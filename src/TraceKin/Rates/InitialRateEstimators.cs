@@ -23,17 +23,17 @@ public static class InitialRateEstimators
         var halvings = 0;
         while (count >= 8)
         {
-            var q = LinearLeastSquares.Polynomial(t[..count], c[..count], 2);
+            var q = WindowFit(t[..count], c[..count], 2);
             if (!q.Converged || !(Math.Abs(q.Parameters[2].Value) > 2 * q.Parameters[2].StdError)) break;
             count /= 2;
             halvings++;
         }
-        var fit = LinearLeastSquares.Line(t[..count], c[..count]);
+        var fit = count > MaxSampleFitPoints ? WindowFit(t[..count], c[..count], 1) : LinearLeastSquares.Line(t[..count], c[..count]);
         if (!fit.Converged || !double.IsFinite(fit.Parameters[1].StdError)) return null;
         var slope = fit.Parameters[1];
         var method = halvings == 0 ? "straight line" : $"straight line (window halved {halvings}× by the curvature test)";
-        return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), fit.DegreesOfFreedom, Units.RateUnit,
-            method, t[0], t[count - 1], count, slope.Value, fit.Parameters[0].Value, Fitted(c[..count], fit.Residuals));
+        return WithFitted(new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), fit.DegreesOfFreedom, Units.RateUnit,
+            method, t[0], t[count - 1], count, slope.Value, fit.Parameters[0].Value, []), t[..count], c[..count], fit);
     }
 
     /// <summary>
@@ -46,13 +46,13 @@ public static class InitialRateEstimators
     public static InitialRate? Polynomial(ReadOnlySpan<double> t, ReadOnlySpan<double> c, double nu, int count)
     {
         if (count < 6) return null;
-        var best = LinearLeastSquares.Polynomial(t[..count], c[..count], count >= 12 ? 3 : 2);
+        var best = WindowFit(t[..count], c[..count], count >= 12 ? 3 : 2);
         if (!best.Converged || !double.IsFinite(best.Parameters[1].StdError)) return null;
         var slope = best.Parameters[1];
         var degreeUsed = best.Parameters.Count - 1;
-        return new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), best.DegreesOfFreedom, Units.RateUnit,
-            $"polynomial (degree {degreeUsed}) at t0", t[0], t[count - 1], count, slope.Value, best.Parameters[0].Value,
-            Fitted(c[..count], best.Residuals));
+        return WithFitted(new InitialRate(slope.Value / nu, slope.StdError / Math.Abs(nu), best.DegreesOfFreedom, Units.RateUnit,
+            $"polynomial (degree {degreeUsed}) at t0", t[0], t[count - 1], count, slope.Value, best.Parameters[0].Value, []),
+            t[..count], c[..count], best);
     }
 
     /// <summary>
@@ -128,10 +128,62 @@ public static class InitialRateEstimators
     /// <summary>Akaike weight below which a law takes no part in the averaged estimate.</summary>
     public const double MinimumAveragingWeight = 0.01;
 
-    private static double[] Fitted(ReadOnlySpan<double> c, double[] residuals)
+    /// <summary>Windows above this many samples are fitted on bin means (see <see cref="WindowFit"/>).</summary>
+    public const int MaxSampleFitPoints = IntegratedLawFitter.MaxSampleFitPoints;
+
+    /// <summary>
+    /// Polynomial Σ c_j·t^j over a window. Up to <see cref="MaxSampleFitPoints"/> samples: every sample, as always. A
+    /// longer window (a slow run sampled millions of times) would need about 2(d + 3) numbers per sample for the
+    /// factorisation; it is fitted instead to the means of consecutive samples in at most that many bins, weighted by
+    /// their counts, with each bin's design row the bin mean of t^j. Averaging a linear model is exact
+    /// (mean y = Σ c_j·mean t^j), so the estimates stay unbiased and the residual variance Σn_b·r_b²/(B − p) estimates
+    /// the per-sample noise; only the spread of t within a bin, tiny beside the window, is given up (common practice,
+    /// no source; docs/methods.md, "Memory per run").
+    /// </summary>
+    private static FitResult WindowFit(ReadOnlySpan<double> t, ReadOnlySpan<double> c, int degree)
     {
-        var f = new double[residuals.Length];
-        for (var i = 0; i < f.Length; i++) f[i] = c[i] - residuals[i];
-        return f;
+        var n = t.Length;
+        if (n <= MaxSampleFitPoints) return LinearLeastSquares.Polynomial(t, c, degree);
+        var p = degree + 1;
+        var size = (n + MaxSampleFitPoints - 1) / MaxSampleFitPoints;
+        var nb = (n + size - 1) / size;
+        var design = new double[nb, p];
+        var y = new double[nb];
+        var w = new double[nb];
+        for (var b = 0; b < nb; b++)
+        {
+            var end = Math.Min(n, (b + 1) * size);
+            for (var i = b * size; i < end; i++)
+            {
+                var v = 1.0;
+                for (var k = 0; k < p; k++) { design[b, k] += v; v *= t[i]; }
+                y[b] += c[i];
+            }
+            var m = end - b * size;
+            for (var k = 0; k < p; k++) design[b, k] /= m;
+            y[b] /= m;
+            w[b] = m;
+        }
+        return LinearLeastSquares.Fit($"polynomial of degree {degree} on bin means", [.. Enumerable.Range(0, p).Select(k => $"c{k}")], design, y, w);
+    }
+
+    /// <summary>The estimator's curve at the window's samples: from the residuals of a fit at every sample (as always),
+    /// or, for a fit on bin means, the polynomial evaluated at each sample (Horner's rule).</summary>
+    private static InitialRate WithFitted(InitialRate rate, ReadOnlySpan<double> t, ReadOnlySpan<double> c, FitResult fit)
+    {
+        var f = new double[t.Length];
+        if (fit.Residuals.Length == t.Length)
+            for (var i = 0; i < f.Length; i++) f[i] = c[i] - fit.Residuals[i];
+        else
+        {
+            var p = fit.Parameters;
+            for (var i = 0; i < f.Length; i++)
+            {
+                double v = 0;
+                for (var k = p.Count - 1; k >= 0; k--) v = v * t[i] + p[k].Value;
+                f[i] = v;
+            }
+        }
+        return rate with { Fitted = f };
     }
 }

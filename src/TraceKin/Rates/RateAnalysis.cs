@@ -43,11 +43,10 @@ public static class RateAnalysis
         var spikes = candidates;
         if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { } chosen && chosen.Fitted.Length == n)
         {
-            var resid = new double[n];
             double lo = double.PositiveInfinity, hi = double.NegativeInfinity;
-            for (var i = 0; i < n; i++) { resid[i] = y[i] - chosen.Fitted[i]; lo = Math.Min(lo, y[i]); hi = Math.Max(hi, y[i]); }
+            for (var i = 0; i < n; i++) { lo = Math.Min(lo, y[i]); hi = Math.Max(hi, y[i]); }
             var floor = 1e-9 * (hi - lo);
-            var confirmed = SpikeFilter.FromResiduals(resid, floor);
+            var confirmed = SpikeFilter.FromFit(y, chosen.Fitted, floor);
             spikes = new bool[n];
             for (var i = 0; i < n; i++) spikes[i] = candidates[i] && confirmed[i];
             if (!spikes.AsSpan().SequenceEqual(candidates))
@@ -58,7 +57,7 @@ public static class RateAnalysis
         }
         var spikeList = new List<Spike>();
         for (var i = 0; i < n; i++) if (spikes[i]) spikeList.Add(new Spike(i, t[i], y[i]));
-        var (tv, yv) = IntegratedLawFitter.Valid(t, y, w);
+        var valid = ValidSamples.Of(w);
 
         // Early window on the spike-free trace. Without a plan [X]0 (a product, say) the conversion is measured
         // against the chosen law's whole change |y0 − y_end| (its plateau), not against the part the trace shows.
@@ -69,7 +68,10 @@ public static class RateAnalysis
             var span = Math.Abs(chosenFit.Fit.Parameters[LawModel.Y0].Value - chosenFit.Fit.Parameters[LawModel.YEnd].Value);
             if (double.IsFinite(span) && span > 0) total = span;
         }
-        var (end, count) = Window(tv, yv, total, settings, minPoints: MinimumWindowPoints);
+        var (end, count) = Window(t, y, valid, total, settings, minPoints: MinimumWindowPoints);
+        // The estimators see the first `count` spike-free samples: the trace itself when no spike lies among them,
+        // else a copy of just those (not of the whole trace).
+        var (tv, yv) = valid.Prefix(t, y, count);
         var estimates = new List<InitialRate>();
         var poly = InitialRateEstimators.Polynomial(tv, yv, coefficient, count);
         var line = InitialRateEstimators.StraightLine(tv, yv, coefficient, count);
@@ -239,27 +241,83 @@ public static class RateAnalysis
         return f.Converged && Math.Abs(f.Parameters[1].Value) > 4 * f.Parameters[1].StdError;
     }
 
-    /// <summary>The early window: until |[X] − [X]first| reaches the conversion fraction of the reference amount.</summary>
-    private static (double End, int Count) Window(double[] times, double[] v, double? reference, RateSettings s, int minPoints)
+    /// <summary>The early window over the spike-free samples: until |[X] − [X]first| reaches the conversion fraction
+    /// of the reference amount. Count and end refer to the valid samples in order (read in place, not copied).</summary>
+    private static (double End, int Count) Window(double[] times, double[] v, ValidSamples valid, double? reference, RateSettings s, int minPoints)
     {
-        var n = v.Length;
+        var n = valid.Count;
         if (s.WindowEnd is { } fixedEnd)
         {
-            var k = Array.FindIndex(times, x => x > fixedEnd);
+            var k = -1;
+            for (int i = 0, j = 0; i < times.Length; i++)
+            {
+                if (!valid.Has(i)) continue;
+                if (times[i] > fixedEnd) { k = j; break; }
+                j++;
+            }
             var cnt = k < 0 ? n : Math.Max(Math.Min(minPoints, n), k);
-            return (times[cnt - 1], cnt);
+            return (times[valid.Index(cnt - 1)], cnt);
         }
         // Start level from the mean of the first few points (robust to one noisy first sample).
         var head = Math.Min(5, n);
         var start = 0.0;
-        for (var i = 0; i < head; i++) start += v[i];
+        for (int i = 0, j = 0; j < head; i++) if (valid.Has(i)) { start += v[i]; j++; }
         start /= head;
-        var total = reference is > 0 ? reference.Value : Math.Abs(v[^1] - start);
+        var total = reference is > 0 ? reference.Value : Math.Abs(v[valid.Index(n - 1)] - start);
         var limit = s.WindowConversion * total;
         var count = n;
-        for (var i = 0; i < n; i++)
-            if (Math.Abs(v[i] - start) >= limit) { count = i + 1; break; }
+        for (int i = 0, j = 0; i < v.Length; i++)
+        {
+            if (!valid.Has(i)) continue;
+            if (Math.Abs(v[i] - start) >= limit) { count = j + 1; break; }
+            j++;
+        }
         count = Math.Max(Math.Min(minPoints, n), count);
-        return (times[count - 1], count);
+        return (times[valid.Index(count - 1)], count);
+    }
+
+    /// <summary>The samples with weight &gt; 0, in order, without copying them: <see cref="Index"/> maps the j-th valid
+    /// sample to its index in the trace (the identity when none is excluded).</summary>
+    private readonly struct ValidSamples
+    {
+        private readonly double[] _w;
+        private readonly int[]? _excluded; // indices with weight 0, ascending; null when there are none
+
+        private ValidSamples(double[] w, int[]? excluded, int count) { _w = w; _excluded = excluded; Count = count; }
+
+        public int Count { get; }
+
+        public static ValidSamples Of(double[] w)
+        {
+            List<int>? excluded = null;
+            for (var i = 0; i < w.Length; i++) if (!(w[i] > 0)) (excluded ??= []).Add(i);
+            return new ValidSamples(w, excluded?.ToArray(), w.Length - (excluded?.Count ?? 0));
+        }
+
+        public bool Has(int i) => _w[i] > 0;
+
+        /// <summary>Index in the trace of the j-th valid sample (0-based).</summary>
+        public int Index(int j)
+        {
+            if (_excluded is null) return j;
+            // j, moved on past every excluded sample at or before the position reached so far.
+            var i = j;
+            foreach (var e in _excluded)
+            {
+                if (e > i) break;
+                i++;
+            }
+            return i;
+        }
+
+        /// <summary>The first <paramref name="count"/> valid samples: spans of the trace when none before them is
+        /// excluded, else copies of just those.</summary>
+        public (double[] T, double[] Y) Prefix(double[] t, double[] y, int count)
+        {
+            if (_excluded is null || _excluded[0] >= count) return (t, y);
+            var tv = new double[count]; var yv = new double[count];
+            for (int i = 0, k = 0; k < count; i++) if (_w[i] > 0) { tv[k] = t[i]; yv[k] = y[i]; k++; }
+            return (tv, yv);
+        }
     }
 }

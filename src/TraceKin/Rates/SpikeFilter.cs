@@ -135,6 +135,22 @@ public static class SpikeFilter
         return flag;
     }
 
+    /// <summary><see cref="FromResiduals"/> of the residuals y − fitted, with one working array instead of two (the
+    /// residuals are formed again, by the same subtraction, where the flags are set): the same flags.</summary>
+    internal static bool[] FromFit(ReadOnlySpan<double> y, ReadOnlySpan<double> fitted, double floor)
+    {
+        var n = y.Length;
+        var flag = new bool[n];
+        var work = new double[n];
+        for (var i = 0; i < n; i++) work[i] = y[i] - fitted[i];
+        var (centre, scale) = MedianAndScale(work);
+        var s = Math.Max(scale, floor);
+        if (!(s > 0)) return flag;
+        var limit = CutoffFor(n) * s;
+        for (var i = 0; i < n; i++) flag[i] = Math.Abs(y[i] - fitted[i] - centre) > limit;
+        return flag;
+    }
+
     /// <summary>Median and 1.4826·MAD (the MAD scaled to the SD of a normal sample; Leys et al. 2013, eq. 1), found by
     /// selection (MathNet's in-place median), not by sorting; reorders and overwrites the array it is given.</summary>
     private static (double Median, double Scale) MedianAndScale(double[] a)

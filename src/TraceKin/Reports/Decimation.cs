@@ -54,7 +54,18 @@ public static class Decimation
     /// Per pixel column: the column's mean x and the lowest and highest y in it, for drawing a dense scatter (such as
     /// residuals) as the band it looks like. Columns without points are skipped.
     /// </summary>
-    public static (double[] X, double[] Low, double[] High) Band(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns)
+    public static (double[] X, double[] Low, double[] High) Band(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns) =>
+        Band(x, y, default, columns);
+
+    /// <summary><see cref="Band"/> of the differences a − b (e.g. residuals from data and fitted values), formed point by
+    /// point, so a long trace needs no array of them.</summary>
+    public static (double[] X, double[] Low, double[] High) BandOfDifference(ReadOnlySpan<double> x, ReadOnlySpan<double> a, ReadOnlySpan<double> b, int columns)
+    {
+        if (b.Length != a.Length) throw new ArgumentException("one value of b per value of a is needed", nameof(b));
+        return Band(x, a, b, columns);
+    }
+
+    private static (double[] X, double[] Low, double[] High) Band(ReadOnlySpan<double> x, ReadOnlySpan<double> a, ReadOnlySpan<double> b, int columns)
     {
         var n = x.Length;
         var xs = new List<double>(columns); var lo = new List<double>(columns); var hi = new List<double>(columns);
@@ -69,8 +80,9 @@ public static class Decimation
             while (i < n && (span > 0 ? Column(x[i], x0, span, columns) : 0) == col)
             {
                 sx += x[i]; m++;
-                if (y[i] < min) min = y[i];
-                if (y[i] > max) max = y[i];
+                var v = b.IsEmpty ? a[i] : a[i] - b[i];
+                if (v < min) min = v;
+                if (v > max) max = v;
                 i++;
             }
             xs.Add(sx / m); lo.Add(min); hi.Add(max);

@@ -110,19 +110,21 @@ public sealed class RunPlot : IRunSink, IDisposable
         tangent.Points.Add(new DataPoint(tEnd, (h.ConcentrationAtZero + h.Slope * tEnd) * scale.Factor));
         m.Series.Add(tangent);
 
-        var residuals = new double[h.Fitted.Length];
-        for (var i = 0; i < residuals.Length; i++) residuals[i] = c.Values[i] - h.Fitted[i];
-        if (dense && residuals.Length > 4 * PlotStyle.Width)
+        var fittedCount = h.Fitted.Length;
+        if (dense && fittedCount > 4 * PlotStyle.Width)
         {
             // Thousands of residual dots draw as a solid band between the lowest and highest residual of each pixel
             // column; it is drawn as that: one vertical hairline per column, in one draw call, a fraction of the dots.
-            var (bx, lo, hi) = Decimation.Band(fitTimes, residuals, PlotStyle.Width);
+            // The residuals are formed column by column, never as an array as long as the trace.
+            var (bx, lo, hi) = Decimation.BandOfDifference(fitTimes, c.Values.AsSpan(0, fittedCount), h.Fitted, PlotStyle.Width);
             for (var k = 0; k < bx.Length; k++) { lo[k] *= scale.Factor; hi[k] *= scale.Factor; }
             var band = new ColumnBandSeries { Title = "", YAxisKey = "r", Color = PlotStyle.Fit, X = bx, Low = lo, High = hi };
             m.Series.Add(band);
         }
         else
         {
+            var residuals = new double[fittedCount];
+            for (var i = 0; i < residuals.Length; i++) residuals[i] = c.Values[i] - h.Fitted[i];
             var res = new ScatterSeries { Title = "", YAxisKey = "r", MarkerType = MarkerType.Circle, MarkerSize = 2, MarkerFill = PlotStyle.Fit };
             foreach (var i in Visible(fitTimes, residuals)) res.Points.Add(new ScatterPoint(c.Times[i], residuals[i] * scale.Factor));
             m.Series.Add(res);

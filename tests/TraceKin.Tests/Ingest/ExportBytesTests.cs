@@ -12,6 +12,7 @@ public class ExportBytesTests
     [InlineData(1)]
     [InlineData(85_000)]
     [InlineData(300_001)]
+    [InlineData(ExportBytes.LargeFileBytes + 1)] // read into native memory, not a pooled buffer
     public void A_pooled_read_gives_the_same_bytes_as_ReadAllBytes(int size)
     {
         // File.ReadAllBytes (.NET runtime) is the reference; invented random content, fixed seed.

@@ -18,6 +18,20 @@ public sealed class DecimationTests
     }
 
     [Fact]
+    public void Band_of_differences_equals_the_band_of_the_difference_array()
+    {
+        // The residual band of a run plot is formed point by point; it must be the same numbers, bit for bit.
+        var (x, y) = Noisy(10_000, 5);
+        var fitted = x.Select(v => Math.Exp(-v / 1000)).ToArray();
+        var diff = y.Select((v, i) => v - fitted[i]).ToArray();
+        var (ax, alo, ahi) = Decimation.Band(x, diff, 900);
+        var (bx, blo, bhi) = Decimation.BandOfDifference(x, y, fitted, 900);
+        Assert.Equal(ax, bx);
+        Assert.Equal(alo, blo);
+        Assert.Equal(ahi, bhi);
+    }
+
+    [Fact]
     public void Band_gives_each_columns_lowest_and_highest_value()
     {
         var (x, y) = Noisy(10_000, 3);
