@@ -64,11 +64,16 @@ public static class AnalyseCommand
             {
                 // Everything analyse will write is checked before the first byte, so a refusal leaves --out as it was.
                 CheckOutputs(outDir);
+                // An earlier analysis's files go before anything is written, so the new report can never show one of
+                // its plots and the log holds this analysis only.
+                var removed = RemovePreviousOutputs(outDir);
                 int failures;
                 SeriesResult result;
                 using (var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(outDir, LogFile)))
                 {
                     log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
+                    if (removed > 0)
+                        log.Information("removed {Count} file(s) of an earlier analysis from {Out} (summary, tables, report, log and plots are replaced as a whole)", removed, outDir);
                     (result, failures) = Analyse(series.FullName, outDir, plots, workers, log, allowOutsideFiles);
                 }
                 if (failures > 0)
@@ -98,6 +103,33 @@ public static class AnalyseCommand
         OutputPaths.EnsureFolder(outDir, plotDir.FullName); // throws for a link or a file
         foreach (var entry in plotDir.EnumerateFileSystemInfos())
             if (entry.LinkTarget is not null) OutputPaths.CheckFile(entry.FullName);
+    }
+
+    /// <summary>
+    /// Removes the files an earlier analysis left in <paramref name="outDir"/>, and only those: the fixed files
+    /// (<see cref="OutputFiles"/>), every PNG directly in plots/, and temporary files of an interrupted write in either
+    /// folder (AtomicFile's ".NAME.PID.GUID.tmp"). Only regular files are removed: links were refused by
+    /// <see cref="CheckOutputs"/>, folders and anything else in --out (the lock, a watcher's files, the user's own
+    /// files) are left alone. Returns how many files were removed.
+    /// </summary>
+    public static int RemovePreviousOutputs(string outDir)
+    {
+        var removed = 0;
+        void Remove(FileInfo f)
+        {
+            if (f.LinkTarget is not null || !f.Exists) return;
+            f.Delete();
+            removed++;
+        }
+        static bool Leftover(string name) => name.StartsWith('.') && name.EndsWith(".tmp", StringComparison.Ordinal) && name != OutputLock.FileName;
+        foreach (var name in OutputFiles) Remove(new FileInfo(Path.Combine(outDir, name)));
+        foreach (var f in new DirectoryInfo(outDir).EnumerateFiles())
+            if (Leftover(f.Name) && OutputFiles.Any(o => f.Name.StartsWith("." + o + ".", StringComparison.Ordinal))) Remove(f);
+        var plotDir = new DirectoryInfo(Path.Combine(outDir, "plots"));
+        if (plotDir.LinkTarget is null && plotDir.Exists)
+            foreach (var f in plotDir.EnumerateFiles())
+                if (f.Name.EndsWith(".png", StringComparison.Ordinal) || (Leftover(f.Name) && f.Name.Contains(".png.", StringComparison.Ordinal))) Remove(f);
+        return removed;
     }
 
     /// <summary>Analyses and writes every output; returns the result and how many output files could not be written.</summary>
