@@ -178,12 +178,12 @@ public static class AnalyseCommand
         if (result.Findings is { } f)
         {
             foreach (var o in f.Orders)
-                log.Information("order in {Species}: {Value:0.000} ± {Se:0.000} (95 % CI {Lo:0.000} to {Hi:0.000})", o.Species, o.Value, o.StdError, o.Ci95Low, o.Ci95High);
+                log.Information("order in {Species}: n = {Order}", o.Species, ReportNumber.Estimate(o.Value, o.StdError, null, o.Ci95Low, o.Ci95High));
             if (f.RateConstant is { } k)
-                log.Information("rate constant k = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", k.Value, k.Unit, k.Ci95Low, k.Ci95High);
+                log.Information("rate constant k = {K}", ReportNumber.Estimate(k.Value, k.StdError, k.Unit, k.Ci95Low, k.Ci95High));
             if (f.Saturation is { } sat)
             {
-                log.Information("rate law preferred by AICc: {Law} (evidence ratio {Ratio:G3})", sat.Preferred, sat.EvidenceRatio);
+                log.Information("rate law preferred by AICc: {Law} (evidence ratio {Ratio})", sat.Preferred, ReportNumber.Plain(sat.EvidenceRatio, 3));
                 if (f.ChosenLaw == "saturation")
                 {
                     LogEstimate(log, "Vmax", sat.Vmax);
@@ -191,7 +191,7 @@ public static class AnalyseCommand
                 }
             }
             foreach (var g in f.Temperature?.Groups ?? [])
-                log.Information("k at {T:0.00} K = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", g.TemperatureK, g.RateConstant.Value, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High);
+                log.Information("k at {T} K = {K}", ReportNumber.Plain(g.TemperatureK, 5), ReportNumber.Estimate(g.RateConstant.Value, g.RateConstant.StdError, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High));
             if (f.Temperature?.Arrhenius is { } arr)
             {
                 LogEstimate(log, "activation energy Ea", arr.ActivationEnergy);
@@ -210,5 +210,5 @@ public static class AnalyseCommand
     }
 
     private static void LogEstimate(ILogger log, string name, TraceKin.Series.Estimate e) =>
-        log.Information("{Name} = {Value:G4} ± {Se:G2} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", name, e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High);
+        log.Information("{Name} = {Estimate}", name, ReportNumber.Estimate(e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High));
 }
