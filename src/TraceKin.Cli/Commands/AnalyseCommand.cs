@@ -173,8 +173,15 @@ public static class AnalyseCommand
         }
         foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
         Task.WaitAll(numbers);
+        // Every warning reaches the log (and the console): problems first and as warnings, notes after them.
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
-        foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
+        var warnings = WarningTiers.All(result);
+        var unconverged = WarningTiers.Unconverged(result);
+        foreach (var w in warnings.Where(w => !WarningTiers.IsNote(w))) log.Warning("problem: {Warning} [{Code}]", w.ToString(), w.Code);
+        foreach (var u in unconverged.Where(u => u.Chosen)) log.Warning("problem: {Run}: {Message}", u.Run, u.Message);
+        if (result.Findings?.OrderFit is { Converged: false }) log.Warning("problem: orders: the order fit did not converge; its numbers are not results");
+        foreach (var w in warnings.Where(WarningTiers.IsNote)) log.Information("note: {Warning} [{Code}]", w.ToString(), w.Code);
+        foreach (var u in unconverged.Where(u => !u.Chosen)) log.Information("note: {Run}: {Message}", u.Run, u.Message);
         if (result.Findings is { } f)
         {
             foreach (var o in f.Orders)

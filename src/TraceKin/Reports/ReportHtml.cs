@@ -10,7 +10,7 @@ namespace TraceKin.Reports;
 /// <summary>
 /// report.html: one self-contained page per series that a chemist can open or print. Plots are embedded as PNG data
 /// URIs (read from outDir/plots as written earlier in the same analysis), so the file needs no network and no script.
-/// Problems come first (rejected files, warnings, flagged fits), then results, runs, plots, settings with their source,
+/// Problems come first (rejected files, problem warnings, failed chosen fits; notes folded below them), then results, runs, plots, settings with their source,
 /// method notes, cautions and the inputs' SHA-256. No time stamps: the same inputs give the same bytes.
 /// </summary>
 public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
@@ -65,23 +65,20 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("</main>\n</body>\n</html>\n");
     }
 
-    private static List<Traces.Warning> AllWarnings(SeriesResult r) =>
-        r.Warnings.Concat(r.Findings?.Warnings ?? []).Concat(r.Runs.SelectMany(x => x.Warnings)).ToList();
-
     private static void Attention(Html h, SeriesResult r)
     {
-        var warnings = AllWarnings(r);
-        var unconverged = r.Runs.SelectMany(x => x.Rates.Fits.Where(f => !f.Fit.Converged).Select(f => (Run: x.Id, Fit: f))).ToList();
+        var all = WarningTiers.All(r);
+        var unconverged = WarningTiers.Unconverged(r);
+        var problems = all.Where(w => !WarningTiers.IsNote(w)).ToList();
+        var notes = all.Where(WarningTiers.IsNote).ToList();
+        var failedChosen = unconverged.Where(f => f.Chosen).ToList();
+        var failedCandidates = unconverged.Where(f => !f.Chosen).ToList();
         var orderFitBad = r.Findings?.OrderFit is { Converged: false };
-        var clear = r.Rejected.Count == 0 && warnings.Count == 0 && unconverged.Count == 0 && !orderFitBad;
+        var clear = WarningTiers.Clear(r);
         h.Raw($"<section id=\"attention\" class=\"{(clear ? "all-clear" : "needs-attention")}\">\n");
         h.Element("h2", clear ? "Checks" : "Needs attention");
         if (clear)
-        {
-            h.Element("p", "No input was rejected, no warning was raised and every fit converged.");
-            h.Raw("</section>\n");
-            return;
-        }
+            h.Element("p", "No input was rejected and nothing needs attention" + (notes.Count + failedCandidates.Count > 0 ? "; the notes below record choices and alternatives." : "."));
         if (r.Rejected.Count > 0)
         {
             h.Raw("<div id=\"rejected\" class=\"box rejected\">\n").Element("h3", $"Rejected inputs ({r.Rejected.Count}) — not part of the results");
@@ -96,21 +93,33 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             }
             h.Raw("</ul>\n</div>\n");
         }
-        if (warnings.Count > 0 || unconverged.Count > 0 || orderFitBad)
+        if (problems.Count > 0 || failedChosen.Count > 0 || orderFitBad)
         {
-            h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Warnings ({warnings.Count + unconverged.Count + (orderFitBad ? 1 : 0)})");
+            h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Problems ({problems.Count + failedChosen.Count + (orderFitBad ? 1 : 0)})");
             h.Raw("<ul>\n");
-            foreach (var w in warnings)
-                h.Raw($"<li class=\"warning\" {Html.Attr("data-code", w.Code)}><span class=\"where\">").Text(w.Where).Raw("</span>: ").Text(w.Message)
-                    .Raw(" <span class=\"code\">").Text(w.Code).Raw("</span></li>\n");
-            foreach (var (run, f) in unconverged)
-                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">").Text(run).Raw("</span>: the ")
-                    .Text(f.Law).Raw(" fit did not converge (").Text(f.Fit.Exit.ToString()).Raw("); its numbers are not results.</li>\n");
-            if (orderFitBad)
-                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">orders</span>: the order fit did not converge; its numbers are not results.</li>\n");
+            foreach (var w in problems) WarningItem(h, "warning", w.Code, w.Where, w.Message);
+            foreach (var f in failedChosen) WarningItem(h, "warning flagged-fit", "fit-not-converged", f.Run, f.Message + ".");
+            if (orderFitBad) WarningItem(h, "warning flagged-fit", "fit-not-converged", "orders", "the order fit did not converge; its numbers are not results.");
             h.Raw("</ul>\n</div>\n");
         }
+        if (notes.Count > 0 || failedCandidates.Count > 0)
+        {
+            // Folded: these leave the results standing, and a reader opens them when the choice matters.
+            h.Raw("<details id=\"notes\" class=\"box notes\">\n").Element("summary", $"Notes ({notes.Count + failedCandidates.Count}): choices made, alternatives not chosen, cautions");
+            h.Raw("<ul>\n");
+            foreach (var w in notes) WarningItem(h, "note", w.Code, w.Where, w.Message);
+            foreach (var f in failedCandidates) WarningItem(h, "note", "candidate-fit-not-converged", f.Run, f.Message + ".");
+            h.Raw("</ul>\n</details>\n");
+        }
         h.Raw("</section>\n");
+    }
+
+    private static void WarningItem(Html h, string cls, string code, string where, string message)
+    {
+        h.Raw($"<li class=\"{cls}\" {Html.Attr("data-code", code)}><span class=\"where\">").Text(where).Raw("</span>: ").Text(message);
+        if (!code.StartsWith("fit-", StringComparison.Ordinal) && !code.StartsWith("candidate-", StringComparison.Ordinal))
+            h.Raw(" <span class=\"code\">").Text(code).Raw("</span>");
+        h.Raw("</li>\n");
     }
 
     private static void Results(Html h, SeriesResult r)
@@ -318,7 +327,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("<th>warnings</th></tr></thead>\n<tbody>\n");
         foreach (var run in r.Runs)
         {
-            var flagged = run.Warnings.Count > 0 || run.Rates.Fits.Any(f => !f.Fit.Converged);
+            var flagged = run.Warnings.Any(w => !WarningTiers.IsNote(w)) || run.Rates.Fits.Any(f => f.Chosen && !f.Fit.Converged);
             var cls = (flagged ? "flagged" : "") + (used.Count > 0 && !used.Contains(run.Id) ? " not-used" : "");
             h.Raw($"<tr {Html.Attr("data-run", run.Id)}{(cls.Trim().Length > 0 ? $" class=\"{cls.Trim()}\"" : "")}>")
                 .Element("td", run.Id, "class=\"name\"").Element("td", run.File)

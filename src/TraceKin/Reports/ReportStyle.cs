@@ -37,6 +37,8 @@ table.defaults td, table.defaults th { padding: 2px 6px; }
 .rejected h3 { color: var(--bad); }
 .warnings { border-color: #d99a1e; background: var(--warn-bg); }
 .warnings h3 { color: var(--warn); }
+.notes { border-width: 1px; border-color: var(--rule); }
+.notes summary { cursor: pointer; color: var(--muted); padding: 2px 0; }
 .where { font-weight: 600; }
 .hint { color: var(--muted); }
 .code { color: var(--muted); font-size: 12px; font-family: "DejaVu Sans Mono", Menlo, Consolas, monospace; }
