@@ -133,9 +133,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             h.Raw("</section>\n");
             return;
         }
+        Headline(h, f);
         if (f.Orders.Count > 0)
         {
-            h.Element("h3", "Reaction orders");
+            h.Element("h3", "Reaction orders in " + string.Join(", ", f.Orders.Select(o => o.Species)));
             h.Raw("<table class=\"results orders\">\n<thead><tr><th>species</th><th>order n ± SE</th><th>95 % interval</th><th>dof</th><th>method</th></tr></thead>\n<tbody>\n");
             foreach (var o in f.Orders)
             {
@@ -180,9 +181,49 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("</section>\n");
     }
 
+    /// <summary>
+    /// The first lines a chemist reads: the rate law with its constant, interval and unit, and the temperature
+    /// dependence when the series has one. A constant whose interval is wider than its value is "not determined".
+    /// </summary>
+    private static void Headline(Html h, SeriesFindings f)
+    {
+        // The orders the headline k belongs to: the rounded ones when k was computed at them, else the fitted ones.
+        string Power(string species, string n) => $"[{species}]^{n}";
+        var orders = f.Orders.Select(o => (o.Species, N: f.RoundedOrders is { } ro && ro.TryGetValue(o.Species, out var rn)
+            ? rn.ToString(CultureInfo.InvariantCulture) : ReportNumber.Plain(o.Value, 3))).ToList();
+        string law;
+        var constants = new List<string>();
+        if (f.ChosenLaw == "saturation" && f.Saturation is { } sat)
+        {
+            var others = sat.CoReactantOrders.Select(o => "·" + Power(o.Species, ReportNumber.Plain(o.Value, 3)));
+            law = $"v = Vmax·[{sat.Substrate}]/(Km + [{sat.Substrate}])" + string.Concat(others);
+            constants.Add(ReportNumber.Result("Vmax", sat.Vmax.Value, sat.Vmax.StdError, sat.Vmax.Unit, sat.Vmax.Ci95Low, sat.Vmax.Ci95High));
+            constants.Add(ReportNumber.Result("Km", sat.Km.Value, sat.Km.StdError, sat.Km.Unit, sat.Km.Ci95Low, sat.Km.Ci95High));
+        }
+        else if (orders.Count > 0)
+        {
+            law = "v = k·" + string.Join("·", orders.Select(o => Power(o.Species, o.N)));
+            if (f.RateConstant is { } k) constants.Add(ReportNumber.Result("k", k.Value, k.StdError, k.Unit, k.Ci95Low, k.Ci95High));
+            else if (f.Temperature is { Groups.Count: > 0 }) constants.Add("k depends on temperature (below)");
+        }
+        else return;
+        h.Raw("<p id=\"rate-law\" class=\"headline\">").Text(string.Join(", ", [law, .. constants])).Raw("</p>\n");
+        var temperature = new List<string>();
+        if (f.Temperature?.Arrhenius is { } a)
+            temperature.Add(ReportNumber.Result("Ea", a.ActivationEnergy.Value, a.ActivationEnergy.StdError, a.ActivationEnergy.Unit, a.ActivationEnergy.Ci95Low, a.ActivationEnergy.Ci95High));
+        if (f.Temperature?.Eyring is { } e)
+        {
+            temperature.Add(ReportNumber.Result("ΔH‡", e.EnthalpyOfActivation.Value, e.EnthalpyOfActivation.StdError, e.EnthalpyOfActivation.Unit, e.EnthalpyOfActivation.Ci95Low, e.EnthalpyOfActivation.Ci95High));
+            // ΔS‡ may lie near zero, so its size is no test of whether it is known: printed with its interval as it is.
+            temperature.Add("ΔS‡ = " + ReportNumber.Estimate(e.EntropyOfActivation.Value, e.EntropyOfActivation.StdError, e.EntropyOfActivation.Unit, e.EntropyOfActivation.Ci95Low, e.EntropyOfActivation.Ci95High));
+        }
+        if (temperature.Count > 0) h.Raw("<p id=\"temperature-dependence\" class=\"headline\">").Text(string.Join("; ", temperature)).Raw("</p>\n");
+    }
+
     private static void RateConstantRow(Html h, string label, string quantity, RateConstant k) =>
         h.Raw("<tr>").Element("td", label, "class=\"name\"")
-            .Raw($"<td class=\"num\" data-quantity=\"{quantity}\" {Exact(k.Value, k.StdError)}>").Text(ReportNumber.Measured(k.Value, k.StdError)).Raw("</td>")
+            .Raw($"<td class=\"num\" data-quantity=\"{quantity}\" {Exact(k.Value, k.StdError)}>")
+            .Text(ReportNumber.Determined(k.Value, k.Ci95Low, k.Ci95High) ? ReportNumber.Measured(k.Value, k.StdError) : "not determined").Raw("</td>")
             .Raw($"<td class=\"num\" data-quantity=\"{quantity}-ci\">").Text(ReportNumber.Interval(k.Value, k.StdError, k.Ci95Low, k.Ci95High)).Raw("</td>")
             .Element("td", k.Unit).Raw($"<td class=\"num\">{k.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", k.Method).Raw("</tr>\n");
 
@@ -356,6 +397,9 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var withFits = r.Runs.Where(x => x.Rates.Fits.Count > 0).ToList();
         if (withFits.Count == 0) return;
         h.Raw("<section id=\"law-fits\">\n").Element("h2", "Integrated-law fits");
+        // Folded: the chosen law of each run is in the runs table above; this is every candidate, for whoever checks.
+        var count = withFits.Sum(x => x.Rates.Fits.Count);
+        h.Raw("<details class=\"fits\">\n").Element("summary", $"Every candidate fit of every run ({count} fits in {withFits.Count} runs; the chosen one is marked)");
         h.Raw("<table class=\"fits\">\n<thead><tr><th>run</th><th>model</th><th>chosen</th><th>converged</th><th>parameters (value ± SE)</th><th>reduced χ²</th><th>AICc</th></tr></thead>\n<tbody>\n");
         foreach (var run in withFits)
             foreach (var f in run.Rates.Fits)
@@ -365,7 +409,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
                     .Element("td", f.Fit.Converged ? "yes" : $"no ({f.Fit.Exit})").Element("td", f.Fit.Converged ? pars : "not a result")
                     .Element("td", ReportNumber.Plain(f.Fit.ReducedChiSquare), "class=\"num\"").Element("td", ReportNumber.Plain(f.Fit.AicC, 6), "class=\"num\"").Raw("</tr>\n");
             }
-        h.Raw("</tbody>\n</table>\n</section>\n");
+        h.Raw("</tbody>\n</table>\n</details>\n</section>\n");
     }
 
     /// <summary>Runs up to which every run plot is embedded in the page.</summary>

@@ -49,6 +49,21 @@ public static class ReportNumber
         return double.IsFinite(low) && double.IsFinite(high) ? $"{text} (95 % CI {Interval(value, stdError, low, high)})" : text;
     }
 
+    /// <summary>
+    /// Whether an estimate of a quantity that is a size (k, Ea, Vmax, Km, A) is a result at all: its 95 % interval is
+    /// finite and no wider than the value itself. Wider, and the data do not fix even the value's size; the report says
+    /// "not determined" instead of printing it as a result. (A rule of our own, not from a standard.)
+    /// </summary>
+    public static bool Determined(double value, double low, double high) =>
+        double.IsFinite(value) && double.IsFinite(low) && double.IsFinite(high) && high - low <= Math.Abs(value);
+
+    /// <summary>"name = value ± SE unit (95 % CI …)", or "name not determined (95 % CI … unit)" when <see cref="Determined"/> says no.</summary>
+    public static string Result(string name, double value, double stdError, string? unit, double low, double high) =>
+        Determined(value, low, high) ? $"{name} = {Estimate(value, stdError, unit, low, high)}"
+        : double.IsFinite(value) && double.IsFinite(low) && double.IsFinite(high)
+            ? $"{name} not determined (95 % CI {Interval(value, stdError, low, high)}{(string.IsNullOrEmpty(unit) ? "" : " " + unit)})"
+            : $"{name} not determined (no 95 % interval)";
+
     /// <summary>A plain number to four significant digits (conditions, window limits), in the same fixed/power style.</summary>
     public static string Plain(double? value, int significant = 4)
     {
