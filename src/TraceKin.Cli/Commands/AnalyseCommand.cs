@@ -190,7 +190,8 @@ public static class AnalyseCommand
                 log.Information("rate constant k = {K}", ReportNumber.Estimate(k.Value, k.StdError, k.Unit, k.Ci95Low, k.Ci95High));
             if (f.Saturation is { } sat)
             {
-                log.Information("rate law preferred by AICc: {Law} (evidence ratio {Ratio})", sat.Preferred, ReportNumber.Plain(sat.EvidenceRatio, 3));
+                // What AICc preferred and what was used can differ (a Km beyond the measured range keeps the power law).
+                log.Information("AICc prefers the {Law} law (evidence ratio {Ratio}); the rate law used is the {Chosen} law", sat.Preferred, ReportNumber.Plain(sat.EvidenceRatio, 3), f.ChosenLaw);
                 if (f.ChosenLaw == "saturation")
                 {
                     LogEstimate(log, "Vmax", sat.Vmax);

@@ -330,6 +330,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     {
         var t = v.GetType();
         if (t.GetProperty("Value")?.GetValue(v) is not double value || t.GetProperty("StdError")?.GetValue(v) is not double se) return null;
+        // A size (k, Ea, A, Vmax, Km, ΔH‡, ΔG‡) with an interval wider than itself is not a result; ΔS‡ may lie near zero.
+        if (v is Estimate { Name: not "ΔS‡" } or RateConstant && t.GetProperty("Ci95Low")?.GetValue(v) is double l0 && t.GetProperty("Ci95High")?.GetValue(v) is double h0
+            && !ReportNumber.Determined(value, l0, h0))
+            return ReportNumber.Result("", value, se, t.GetProperty("Unit")?.GetValue(v) as string, l0, h0).TrimStart();
         var text = ReportNumber.Measured(value, se);
         if (t.GetProperty("Unit")?.GetValue(v) is string { Length: > 0 } unit) text += " " + unit;
         if (t.GetProperty("Ci95Low")?.GetValue(v) is double lo && t.GetProperty("Ci95High")?.GetValue(v) is double hi)

@@ -54,3 +54,19 @@ public sealed class ReportHeadlineTests : IDisposable
     public void A_size_whose_interval_is_wider_than_itself_is_not_determined(double value, double se, double low, double high, string printed) =>
         Assert.Equal(printed, ReportNumber.Result("Km", value, se, "mol/L", low, high));
 }
+
+public sealed class NotDeterminedGenericTests
+{
+    [Fact]
+    public void A_saturation_constant_with_an_interval_wider_than_itself_is_not_printed_as_a_result()
+    {
+        // Invented numbers shaped like a saturation fit that the series cannot support (rule: ReportNumber.Determined).
+        var km = new TraceKin.Series.Estimate("Km", 124, 170, "mol/L", 5, -230, 480, "saturation fit");
+        var html = ReportHtml.RenderGeneric(km);
+        Assert.Contains("not determined (95 % CI −230 to 480 mol/L)", html, StringComparison.Ordinal);
+        Assert.DoesNotContain("124", html, StringComparison.Ordinal);
+        // ΔS‡ near zero is a result, whatever its size.
+        var ds = new TraceKin.Series.Estimate("ΔS‡", 2.0, 3.0, "J/(mol·K)", 5, -5.7, 9.7, "Eyring fit");
+        Assert.Contains("2.0 ± 3.0 J/(mol·K)", ReportHtml.RenderGeneric(ds), StringComparison.Ordinal);
+    }
+}
