@@ -1,3 +1,4 @@
+using System.Globalization;
 using Serilog;
 using Serilog.Core;
 using Serilog.Events;
@@ -9,7 +10,8 @@ namespace TraceKin.Cli;
 /// Serilog set-up: messages to stderr (stdout stays clean for data) and, when given, to a log file. The file also
 /// gets the per-run detail (Debug level), through a buffer flushed every second and when the logger is disposed, so
 /// a batch of a thousand runs does not pay a write to disk per run. Every text value put into a message (run ids,
-/// file names, cells) is escaped by <see cref="EscapeInputText"/>, so a control character from an input file never
+/// file names, cells) is escaped by <see cref="EscapeInputText"/>, and every number is rendered in the invariant culture
+/// (the machine's culture never changes a log line); so a control character from an input file never
 /// reaches the terminal or the log as itself.
 /// </summary>
 public static class Logging
@@ -20,10 +22,10 @@ public static class Logging
             .Enrich.With<EscapeInputText>()
             .MinimumLevel.Is(logFile is not null || verbose ? LogEventLevel.Debug : LogEventLevel.Information)
             .WriteTo.Console(restrictedToMinimumLevel: verbose ? LogEventLevel.Debug : LogEventLevel.Information,
-                standardErrorFromLevel: LogEventLevel.Verbose, outputTemplate: "{Message:lj}{NewLine}{Exception}");
+                standardErrorFromLevel: LogEventLevel.Verbose, outputTemplate: "{Message:lj}{NewLine}{Exception}", formatProvider: CultureInfo.InvariantCulture);
         if (logFile is not null)
             config = config.WriteTo.File(logFile, outputTemplate: "{Timestamp:yyyy-MM-dd HH:mm:ss.fff zzz} [{Level:u3}] {Message:lj}{NewLine}{Exception}",
-                buffered: true, flushToDiskInterval: TimeSpan.FromSeconds(1));
+                buffered: true, flushToDiskInterval: TimeSpan.FromSeconds(1), formatProvider: CultureInfo.InvariantCulture);
         return config.CreateLogger();
     }
 }

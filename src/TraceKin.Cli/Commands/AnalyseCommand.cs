@@ -64,11 +64,16 @@ public static class AnalyseCommand
             {
                 // Everything analyse will write is checked before the first byte, so a refusal leaves --out as it was.
                 CheckOutputs(outDir);
+                // An earlier analysis's files go before anything is written, so the new report can never show one of
+                // its plots and the log holds this analysis only.
+                var removed = RemovePreviousOutputs(outDir);
                 int failures;
                 SeriesResult result;
                 using (var log = (Serilog.Core.Logger)Logging.Create(Path.Combine(outDir, LogFile)))
                 {
                     log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
+                    if (removed > 0)
+                        log.Information("removed {Count} file(s) of an earlier analysis from {Out} (summary, tables, report, log and plots are replaced as a whole)", removed, outDir);
                     (result, failures) = Analyse(series.FullName, outDir, plots, workers, log, allowOutsideFiles);
                 }
                 if (failures > 0)
@@ -98,6 +103,33 @@ public static class AnalyseCommand
         OutputPaths.EnsureFolder(outDir, plotDir.FullName); // throws for a link or a file
         foreach (var entry in plotDir.EnumerateFileSystemInfos())
             if (entry.LinkTarget is not null) OutputPaths.CheckFile(entry.FullName);
+    }
+
+    /// <summary>
+    /// Removes the files an earlier analysis left in <paramref name="outDir"/>, and only those: the fixed files
+    /// (<see cref="OutputFiles"/>), every PNG directly in plots/, and temporary files of an interrupted write in either
+    /// folder (AtomicFile's ".NAME.PID.GUID.tmp"). Only regular files are removed: links were refused by
+    /// <see cref="CheckOutputs"/>, folders and anything else in --out (the lock, a watcher's files, the user's own
+    /// files) are left alone. Returns how many files were removed.
+    /// </summary>
+    public static int RemovePreviousOutputs(string outDir)
+    {
+        var removed = 0;
+        void Remove(FileInfo f)
+        {
+            if (f.LinkTarget is not null || !f.Exists) return;
+            f.Delete();
+            removed++;
+        }
+        static bool Leftover(string name) => name.StartsWith('.') && name.EndsWith(".tmp", StringComparison.Ordinal) && name != OutputLock.FileName;
+        foreach (var name in OutputFiles) Remove(new FileInfo(Path.Combine(outDir, name)));
+        foreach (var f in new DirectoryInfo(outDir).EnumerateFiles())
+            if (Leftover(f.Name) && OutputFiles.Any(o => f.Name.StartsWith("." + o + ".", StringComparison.Ordinal))) Remove(f);
+        var plotDir = new DirectoryInfo(Path.Combine(outDir, "plots"));
+        if (plotDir.LinkTarget is null && plotDir.Exists)
+            foreach (var f in plotDir.EnumerateFiles())
+                if (f.Name.EndsWith(".png", StringComparison.Ordinal) || (Leftover(f.Name) && f.Name.Contains(".png.", StringComparison.Ordinal))) Remove(f);
+        return removed;
     }
 
     /// <summary>Analyses and writes every output; returns the result and how many output files could not be written.</summary>
@@ -141,17 +173,25 @@ public static class AnalyseCommand
         }
         foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
         Task.WaitAll(numbers);
+        // Every warning reaches the log (and the console): problems first and as warnings, notes after them.
         foreach (var p in result.Rejected) log.Warning("rejected: {Message}", p.Message);
-        foreach (var w in result.Warnings.Concat(result.Findings?.Warnings ?? [])) log.Warning("warning: {Warning}", w.ToString());
+        var warnings = WarningTiers.All(result);
+        var unconverged = WarningTiers.Unconverged(result);
+        foreach (var w in warnings.Where(w => !WarningTiers.IsNote(w))) log.Warning("problem: {Warning} [{Code}]", w.ToString(), w.Code);
+        foreach (var u in unconverged.Where(u => u.Chosen)) log.Warning("problem: {Run}: {Message}", u.Run, u.Message);
+        if (result.Findings?.OrderFit is { Converged: false }) log.Warning("problem: orders: the order fit did not converge; its numbers are not results");
+        foreach (var w in warnings.Where(WarningTiers.IsNote)) log.Information("note: {Warning} [{Code}]", w.ToString(), w.Code);
+        foreach (var u in unconverged.Where(u => !u.Chosen)) log.Information("note: {Run}: {Message}", u.Run, u.Message);
         if (result.Findings is { } f)
         {
             foreach (var o in f.Orders)
-                log.Information("order in {Species}: {Value:0.000} ± {Se:0.000} (95 % CI {Lo:0.000} to {Hi:0.000})", o.Species, o.Value, o.StdError, o.Ci95Low, o.Ci95High);
+                log.Information("order in {Species}: n = {Order}", o.Species, ReportNumber.Estimate(o.Value, o.StdError, null, o.Ci95Low, o.Ci95High));
             if (f.RateConstant is { } k)
-                log.Information("rate constant k = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", k.Value, k.Unit, k.Ci95Low, k.Ci95High);
+                log.Information("rate constant k = {K}", ReportNumber.Estimate(k.Value, k.StdError, k.Unit, k.Ci95Low, k.Ci95High));
             if (f.Saturation is { } sat)
             {
-                log.Information("rate law preferred by AICc: {Law} (evidence ratio {Ratio:G3})", sat.Preferred, sat.EvidenceRatio);
+                // What AICc preferred and what was used can differ (a Km beyond the measured range keeps the power law).
+                log.Information("AICc prefers the {Law} law (evidence ratio {Ratio}); the rate law used is the {Chosen} law", sat.Preferred, ReportNumber.Plain(sat.EvidenceRatio, 3), f.ChosenLaw);
                 if (f.ChosenLaw == "saturation")
                 {
                     LogEstimate(log, "Vmax", sat.Vmax);
@@ -159,7 +199,7 @@ public static class AnalyseCommand
                 }
             }
             foreach (var g in f.Temperature?.Groups ?? [])
-                log.Information("k at {T:0.00} K = {K:G4} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", g.TemperatureK, g.RateConstant.Value, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High);
+                log.Information("k at {T} K = {K}", ReportNumber.Plain(g.TemperatureK, 5), ReportNumber.Estimate(g.RateConstant.Value, g.RateConstant.StdError, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High));
             if (f.Temperature?.Arrhenius is { } arr)
             {
                 LogEstimate(log, "activation energy Ea", arr.ActivationEnergy);
@@ -178,5 +218,5 @@ public static class AnalyseCommand
     }
 
     private static void LogEstimate(ILogger log, string name, TraceKin.Series.Estimate e) =>
-        log.Information("{Name} = {Value:G4} ± {Se:G2} {Unit} (95 % CI {Lo:G4} to {Hi:G4})", name, e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High);
+        log.Information("{Name} = {Estimate}", name, ReportNumber.Estimate(e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High));
 }

@@ -372,7 +372,7 @@ public sealed class SeriesWatch
             else if (input.Status == LedgerInput.Analysed && result.Runs.FirstOrDefault(r => r.File == input.File) is { } run)
             {
                 var h = run.Rates.Headline;
-                _status($"{Name}/{input.File}: analysed, v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit}");
+                _status($"{Name}/{input.File}: analysed, v0 = {ReportNumber.Measured(h.Value, h.StdError)} {h.Unit}");
             }
             else if (input.Status == LedgerInput.Setup)
                 _status($"{Name}/{input.File}: taken");

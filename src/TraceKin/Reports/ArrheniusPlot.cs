@@ -24,7 +24,7 @@ public sealed class ArrheniusPlot : ISeriesReportWriter
     public static PlotModel Build(TemperatureFindings t)
     {
         var a = t.Arrhenius!;
-        var m = PlotStyle.NewModel($"Arrhenius: Ea = {a.ActivationEnergy.Value:0.0} ± {a.ActivationEnergy.StdError:0.0} kJ/mol");
+        var m = PlotStyle.NewModel($"Arrhenius: Ea = {ReportNumber.Measured(a.ActivationEnergy.Value, a.ActivationEnergy.StdError)} kJ/mol");
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Bottom, "1000 K / T"));
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, $"ln(k / ({t.Groups[0].RateConstant.Unit}))"));
         var pts = SeriesPlotParts.Points("k per temperature", PlotStyle.Data);

@@ -19,7 +19,7 @@ public sealed class EyringPlot : ISeriesReportWriter
     public static PlotModel Build(TemperatureFindings t)
     {
         var e = t.Eyring!;
-        var m = PlotStyle.NewModel($"Eyring: ΔH‡ = {e.EnthalpyOfActivation.Value:0.0} kJ/mol, ΔS‡ = {e.EntropyOfActivation.Value:0} J/(mol·K)");
+        var m = PlotStyle.NewModel($"Eyring: ΔH‡ = {ReportNumber.Measured(e.EnthalpyOfActivation.Value, e.EnthalpyOfActivation.StdError)} kJ/mol, ΔS‡ = {ReportNumber.Measured(e.EntropyOfActivation.Value, e.EntropyOfActivation.StdError)} J/(mol·K)");
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Bottom, "1000 K / T"));
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, "ln((k / T) / (k-unit/K))"));
         var pts = SeriesPlotParts.Points("k per temperature", PlotStyle.Data);

@@ -31,7 +31,7 @@ public sealed class OrderPlot : ISeriesReportWriter
         {
             var o = f.Orders[s];
             var color = PlotStyle.Laws[s % PlotStyle.Laws.Length];
-            var pts = new ScatterSeries { Title = $"{o.Species}: n = {o.Value:0.000} ± {o.StdError:0.000}", MarkerType = MarkerType.Circle, MarkerSize = 4, MarkerFill = color };
+            var pts = new ScatterSeries { Title = $"{o.Species}: n = {ReportNumber.Measured(o.Value, o.StdError)}", MarkerType = MarkerType.Circle, MarkerSize = 4, MarkerFill = color };
             double xmin = double.MaxValue, xmax = double.MinValue;
             foreach (var id in f.RunsUsed)
             {

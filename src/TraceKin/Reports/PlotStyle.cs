@@ -28,6 +28,8 @@ public static class PlotStyle
         TitleFontWeight = OxyPlot.FontWeights.Normal,
         PlotAreaBorderColor = OxyColor.FromRgb(0x99, 0x99, 0x99),
         Background = OxyColors.White,
+        // Axis numbers with a decimal point whatever the machine's culture (OxyPlot otherwise uses the current one).
+        Culture = System.Globalization.CultureInfo.InvariantCulture,
     };
 
     public const int Width = 900;

@@ -50,7 +50,7 @@ public sealed class RateConcentrationPlot : ISeriesReportWriter
         if (sat is not null)
         {
             double vmax = sat.Vmax.Value, km = sat.Km.Value;
-            m.Series.Add(SeriesPlotParts.Curve($"saturation: Vmax·[{s}]/(Km + [{s}]), AICc {sat.AiccSaturation:0.0}", PlotStyle.Fit,
+            m.Series.Add(SeriesPlotParts.Curve($"saturation: Vmax·[{s}]/(Km + [{s}]), AICc {ReportNumber.Plain(sat.AiccSaturation, 4)}", PlotStyle.Fit,
                 x => vmax * (x / 1e3) / (km + x / 1e3) * 1e6, 0, top * 1e3, style: chosenSat ? LineStyle.Solid : LineStyle.Dash));
         }
         // The power law in this species (co-reactants, if any, divided out as for the points).
@@ -58,7 +58,7 @@ public sealed class RateConcentrationPlot : ISeriesReportWriter
         {
             var k = pf.Parameters[0].Value;
             var n = order.Value;
-            m.Series.Add(SeriesPlotParts.Curve($"power law: k·[{s}]^{n:0.00}" + (sat is null ? "" : $", AICc {sat.AiccPowerLaw:0.0}"), PlotStyle.Laws[1],
+            m.Series.Add(SeriesPlotParts.Curve($"power law: k·[{s}]^{ReportNumber.Plain(n, 3)}" + (sat is null ? "" : $", AICc {ReportNumber.Plain(sat.AiccPowerLaw, 4)}"), PlotStyle.Laws[1],
                 x => k * Math.Pow(x / 1e3, n) * 1e6, top * 1e3 / 400, top * 1e3, style: chosenSat ? LineStyle.Dash : LineStyle.Solid));
         }
         m.Series.Add(pts);

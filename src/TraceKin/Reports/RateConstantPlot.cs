@@ -34,8 +34,8 @@ public sealed class RateConstantPlot : ISeriesReportWriter
         }
         if (f.RateConstant is { } k && double.IsFinite(k.Ci95Low))
         {
-            m.Series.Add(SeriesPlotParts.Band($"series k, 95 % interval ({k.Ci95Low:G3} to {k.Ci95High:G3})", _ => (k.Ci95Low, k.Ci95High), -0.5, f.PerRunK.Count - 0.5, 2));
-            m.Series.Add(SeriesPlotParts.Curve($"series k = {k.Value:G4}", PlotStyle.Fit, _ => k.Value, -0.5, f.PerRunK.Count - 0.5, 2));
+            m.Series.Add(SeriesPlotParts.Band($"series k, 95 % interval ({ReportNumber.Interval(k.Value, k.StdError, k.Ci95Low, k.Ci95High)})", _ => (k.Ci95Low, k.Ci95High), -0.5, f.PerRunK.Count - 0.5, 2));
+            m.Series.Add(SeriesPlotParts.Curve($"series k = {ReportNumber.Measured(k.Value, k.StdError)}", PlotStyle.Fit, _ => k.Value, -0.5, f.PerRunK.Count - 0.5, 2));
         }
         m.Series.Add(pts);
         SeriesPlotParts.Legend(m, OxyPlot.Legends.LegendPosition.TopRight);

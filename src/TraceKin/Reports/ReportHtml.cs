@@ -10,7 +10,7 @@ namespace TraceKin.Reports;
 /// <summary>
 /// report.html: one self-contained page per series that a chemist can open or print. Plots are embedded as PNG data
 /// URIs (read from outDir/plots as written earlier in the same analysis), so the file needs no network and no script.
-/// Problems come first (rejected files, warnings, flagged fits), then results, runs, plots, settings with their source,
+/// Problems come first (rejected files, problem warnings, failed chosen fits; notes folded below them), then results, runs, plots, settings with their source,
 /// method notes, cautions and the inputs' SHA-256. No time stamps: the same inputs give the same bytes.
 /// </summary>
 public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
@@ -65,23 +65,20 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("</main>\n</body>\n</html>\n");
     }
 
-    private static List<Traces.Warning> AllWarnings(SeriesResult r) =>
-        r.Warnings.Concat(r.Findings?.Warnings ?? []).Concat(r.Runs.SelectMany(x => x.Warnings)).ToList();
-
     private static void Attention(Html h, SeriesResult r)
     {
-        var warnings = AllWarnings(r);
-        var unconverged = r.Runs.SelectMany(x => x.Rates.Fits.Where(f => !f.Fit.Converged).Select(f => (Run: x.Id, Fit: f))).ToList();
+        var all = WarningTiers.All(r);
+        var unconverged = WarningTiers.Unconverged(r);
+        var problems = all.Where(w => !WarningTiers.IsNote(w)).ToList();
+        var notes = all.Where(WarningTiers.IsNote).ToList();
+        var failedChosen = unconverged.Where(f => f.Chosen).ToList();
+        var failedCandidates = unconverged.Where(f => !f.Chosen).ToList();
         var orderFitBad = r.Findings?.OrderFit is { Converged: false };
-        var clear = r.Rejected.Count == 0 && warnings.Count == 0 && unconverged.Count == 0 && !orderFitBad;
+        var clear = WarningTiers.Clear(r);
         h.Raw($"<section id=\"attention\" class=\"{(clear ? "all-clear" : "needs-attention")}\">\n");
         h.Element("h2", clear ? "Checks" : "Needs attention");
         if (clear)
-        {
-            h.Element("p", "No input was rejected, no warning was raised and every fit converged.");
-            h.Raw("</section>\n");
-            return;
-        }
+            h.Element("p", "No input was rejected and nothing needs attention" + (notes.Count + failedCandidates.Count > 0 ? "; the notes below record choices and alternatives." : "."));
         if (r.Rejected.Count > 0)
         {
             h.Raw("<div id=\"rejected\" class=\"box rejected\">\n").Element("h3", $"Rejected inputs ({r.Rejected.Count}) — not part of the results");
@@ -96,21 +93,33 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             }
             h.Raw("</ul>\n</div>\n");
         }
-        if (warnings.Count > 0 || unconverged.Count > 0 || orderFitBad)
+        if (problems.Count > 0 || failedChosen.Count > 0 || orderFitBad)
         {
-            h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Warnings ({warnings.Count + unconverged.Count + (orderFitBad ? 1 : 0)})");
+            h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Problems ({problems.Count + failedChosen.Count + (orderFitBad ? 1 : 0)})");
             h.Raw("<ul>\n");
-            foreach (var w in warnings)
-                h.Raw($"<li class=\"warning\" {Html.Attr("data-code", w.Code)}><span class=\"where\">").Text(w.Where).Raw("</span>: ").Text(w.Message)
-                    .Raw(" <span class=\"code\">").Text(w.Code).Raw("</span></li>\n");
-            foreach (var (run, f) in unconverged)
-                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">").Text(run).Raw("</span>: the ")
-                    .Text(f.Law).Raw(" fit did not converge (").Text(f.Fit.Exit.ToString()).Raw("); its numbers are not results.</li>\n");
-            if (orderFitBad)
-                h.Raw("<li class=\"warning flagged-fit\" data-code=\"fit-not-converged\"><span class=\"where\">orders</span>: the order fit did not converge; its numbers are not results.</li>\n");
+            foreach (var w in problems) WarningItem(h, "warning", w.Code, w.Where, w.Message);
+            foreach (var f in failedChosen) WarningItem(h, "warning flagged-fit", "fit-not-converged", f.Run, f.Message + ".");
+            if (orderFitBad) WarningItem(h, "warning flagged-fit", "fit-not-converged", "orders", "the order fit did not converge; its numbers are not results.");
             h.Raw("</ul>\n</div>\n");
         }
+        if (notes.Count > 0 || failedCandidates.Count > 0)
+        {
+            // Folded: these leave the results standing, and a reader opens them when the choice matters.
+            h.Raw("<details id=\"notes\" class=\"box notes\">\n").Element("summary", $"Notes ({notes.Count + failedCandidates.Count}): choices made, alternatives not chosen, cautions");
+            h.Raw("<ul>\n");
+            foreach (var w in notes) WarningItem(h, "note", w.Code, w.Where, w.Message);
+            foreach (var f in failedCandidates) WarningItem(h, "note", "candidate-fit-not-converged", f.Run, f.Message + ".");
+            h.Raw("</ul>\n</details>\n");
+        }
         h.Raw("</section>\n");
+    }
+
+    private static void WarningItem(Html h, string cls, string code, string where, string message)
+    {
+        h.Raw($"<li class=\"{cls}\" {Html.Attr("data-code", code)}><span class=\"where\">").Text(where).Raw("</span>: ").Text(message);
+        if (!code.StartsWith("fit-", StringComparison.Ordinal) && !code.StartsWith("candidate-", StringComparison.Ordinal))
+            h.Raw(" <span class=\"code\">").Text(code).Raw("</span>");
+        h.Raw("</li>\n");
     }
 
     private static void Results(Html h, SeriesResult r)
@@ -124,9 +133,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             h.Raw("</section>\n");
             return;
         }
+        Headline(h, f);
         if (f.Orders.Count > 0)
         {
-            h.Element("h3", "Reaction orders");
+            h.Element("h3", "Reaction orders in " + string.Join(", ", f.Orders.Select(o => o.Species)));
             h.Raw("<table class=\"results orders\">\n<thead><tr><th>species</th><th>order n ± SE</th><th>95 % interval</th><th>dof</th><th>method</th></tr></thead>\n<tbody>\n");
             foreach (var o in f.Orders)
             {
@@ -171,9 +181,49 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("</section>\n");
     }
 
+    /// <summary>
+    /// The first lines a chemist reads: the rate law with its constant, interval and unit, and the temperature
+    /// dependence when the series has one. A constant whose interval is wider than its value is "not determined".
+    /// </summary>
+    private static void Headline(Html h, SeriesFindings f)
+    {
+        // The orders the headline k belongs to: the rounded ones when k was computed at them, else the fitted ones.
+        string Power(string species, string n) => $"[{species}]^{n}";
+        var orders = f.Orders.Select(o => (o.Species, N: f.RoundedOrders is { } ro && ro.TryGetValue(o.Species, out var rn)
+            ? rn.ToString(CultureInfo.InvariantCulture) : ReportNumber.Plain(o.Value, 3))).ToList();
+        string law;
+        var constants = new List<string>();
+        if (f.ChosenLaw == "saturation" && f.Saturation is { } sat)
+        {
+            var others = sat.CoReactantOrders.Select(o => "·" + Power(o.Species, ReportNumber.Plain(o.Value, 3)));
+            law = $"v = Vmax·[{sat.Substrate}]/(Km + [{sat.Substrate}])" + string.Concat(others);
+            constants.Add(ReportNumber.Result("Vmax", sat.Vmax.Value, sat.Vmax.StdError, sat.Vmax.Unit, sat.Vmax.Ci95Low, sat.Vmax.Ci95High));
+            constants.Add(ReportNumber.Result("Km", sat.Km.Value, sat.Km.StdError, sat.Km.Unit, sat.Km.Ci95Low, sat.Km.Ci95High));
+        }
+        else if (orders.Count > 0)
+        {
+            law = "v = k·" + string.Join("·", orders.Select(o => Power(o.Species, o.N)));
+            if (f.RateConstant is { } k) constants.Add(ReportNumber.Result("k", k.Value, k.StdError, k.Unit, k.Ci95Low, k.Ci95High));
+            else if (f.Temperature is { Groups.Count: > 0 }) constants.Add("k depends on temperature (below)");
+        }
+        else return;
+        h.Raw("<p id=\"rate-law\" class=\"headline\">").Text(string.Join(", ", [law, .. constants])).Raw("</p>\n");
+        var temperature = new List<string>();
+        if (f.Temperature?.Arrhenius is { } a)
+            temperature.Add(ReportNumber.Result("Ea", a.ActivationEnergy.Value, a.ActivationEnergy.StdError, a.ActivationEnergy.Unit, a.ActivationEnergy.Ci95Low, a.ActivationEnergy.Ci95High));
+        if (f.Temperature?.Eyring is { } e)
+        {
+            temperature.Add(ReportNumber.Result("ΔH‡", e.EnthalpyOfActivation.Value, e.EnthalpyOfActivation.StdError, e.EnthalpyOfActivation.Unit, e.EnthalpyOfActivation.Ci95Low, e.EnthalpyOfActivation.Ci95High));
+            // ΔS‡ may lie near zero, so its size is no test of whether it is known: printed with its interval as it is.
+            temperature.Add("ΔS‡ = " + ReportNumber.Estimate(e.EntropyOfActivation.Value, e.EntropyOfActivation.StdError, e.EntropyOfActivation.Unit, e.EntropyOfActivation.Ci95Low, e.EntropyOfActivation.Ci95High));
+        }
+        if (temperature.Count > 0) h.Raw("<p id=\"temperature-dependence\" class=\"headline\">").Text(string.Join("; ", temperature)).Raw("</p>\n");
+    }
+
     private static void RateConstantRow(Html h, string label, string quantity, RateConstant k) =>
         h.Raw("<tr>").Element("td", label, "class=\"name\"")
-            .Raw($"<td class=\"num\" data-quantity=\"{quantity}\" {Exact(k.Value, k.StdError)}>").Text(ReportNumber.Measured(k.Value, k.StdError)).Raw("</td>")
+            .Raw($"<td class=\"num\" data-quantity=\"{quantity}\" {Exact(k.Value, k.StdError)}>")
+            .Text(ReportNumber.Determined(k.Value, k.Ci95Low, k.Ci95High) ? ReportNumber.Measured(k.Value, k.StdError) : "not determined").Raw("</td>")
             .Raw($"<td class=\"num\" data-quantity=\"{quantity}-ci\">").Text(ReportNumber.Interval(k.Value, k.StdError, k.Ci95Low, k.Ci95High)).Raw("</td>")
             .Element("td", k.Unit).Raw($"<td class=\"num\">{k.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", k.Method).Raw("</tr>\n");
 
@@ -280,6 +330,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     {
         var t = v.GetType();
         if (t.GetProperty("Value")?.GetValue(v) is not double value || t.GetProperty("StdError")?.GetValue(v) is not double se) return null;
+        // A size (k, Ea, A, Vmax, Km, ΔH‡, ΔG‡) with an interval wider than itself is not a result; ΔS‡ may lie near zero.
+        if (v is Estimate { Name: not "ΔS‡" } or RateConstant && t.GetProperty("Ci95Low")?.GetValue(v) is double l0 && t.GetProperty("Ci95High")?.GetValue(v) is double h0
+            && !ReportNumber.Determined(value, l0, h0))
+            return ReportNumber.Result("", value, se, t.GetProperty("Unit")?.GetValue(v) as string, l0, h0).TrimStart();
         var text = ReportNumber.Measured(value, se);
         if (t.GetProperty("Unit")?.GetValue(v) is string { Length: > 0 } unit) text += " " + unit;
         if (t.GetProperty("Ci95Low")?.GetValue(v) is double lo && t.GetProperty("Ci95High")?.GetValue(v) is double hi)
@@ -318,7 +372,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("<th>warnings</th></tr></thead>\n<tbody>\n");
         foreach (var run in r.Runs)
         {
-            var flagged = run.Warnings.Count > 0 || run.Rates.Fits.Any(f => !f.Fit.Converged);
+            var flagged = run.Warnings.Any(w => !WarningTiers.IsNote(w)) || run.Rates.Fits.Any(f => f.Chosen && !f.Fit.Converged);
             var cls = (flagged ? "flagged" : "") + (used.Count > 0 && !used.Contains(run.Id) ? " not-used" : "");
             h.Raw($"<tr {Html.Attr("data-run", run.Id)}{(cls.Trim().Length > 0 ? $" class=\"{cls.Trim()}\"" : "")}>")
                 .Element("td", run.Id, "class=\"name\"").Element("td", run.File)
@@ -347,6 +401,9 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var withFits = r.Runs.Where(x => x.Rates.Fits.Count > 0).ToList();
         if (withFits.Count == 0) return;
         h.Raw("<section id=\"law-fits\">\n").Element("h2", "Integrated-law fits");
+        // Folded: the chosen law of each run is in the runs table above; this is every candidate, for whoever checks.
+        var count = withFits.Sum(x => x.Rates.Fits.Count);
+        h.Raw("<details class=\"fits\">\n").Element("summary", $"Every candidate fit of every run ({count} fits in {withFits.Count} runs; the chosen one is marked)");
         h.Raw("<table class=\"fits\">\n<thead><tr><th>run</th><th>model</th><th>chosen</th><th>converged</th><th>parameters (value ± SE)</th><th>reduced χ²</th><th>AICc</th></tr></thead>\n<tbody>\n");
         foreach (var run in withFits)
             foreach (var f in run.Rates.Fits)
@@ -356,7 +413,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
                     .Element("td", f.Fit.Converged ? "yes" : $"no ({f.Fit.Exit})").Element("td", f.Fit.Converged ? pars : "not a result")
                     .Element("td", ReportNumber.Plain(f.Fit.ReducedChiSquare), "class=\"num\"").Element("td", ReportNumber.Plain(f.Fit.AicC, 6), "class=\"num\"").Raw("</tr>\n");
             }
-        h.Raw("</tbody>\n</table>\n</section>\n");
+        h.Raw("</tbody>\n</table>\n</details>\n</section>\n");
     }
 
     /// <summary>Runs up to which every run plot is embedded in the page.</summary>

@@ -37,6 +37,10 @@ table.defaults td, table.defaults th { padding: 2px 6px; }
 .rejected h3 { color: var(--bad); }
 .warnings { border-color: #d99a1e; background: var(--warn-bg); }
 .warnings h3 { color: var(--warn); }
+p.headline { font-size: 17px; font-weight: 600; margin: 6px 0; }
+.notes { border-width: 1px; border-color: var(--rule); }
+details.fits > summary { cursor: pointer; color: var(--muted); }
+.notes summary { cursor: pointer; color: var(--muted); padding: 2px 0; }
 .where { font-weight: 600; }
 .hint { color: var(--muted); }
 .code { color: var(--muted); font-size: 12px; font-family: "DejaVu Sans Mono", Menlo, Consolas, monospace; }

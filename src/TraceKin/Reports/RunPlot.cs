@@ -131,7 +131,7 @@ public sealed class RunPlot : IRunSink, IDisposable
         }
         m.Annotations.Add(new LineAnnotation { Type = LineAnnotationType.Horizontal, Y = 0, YAxisKey = "r", Color = PlotStyle.Tangent, StrokeThickness = 1 });
         m.Legends.Add(new OxyPlot.Legends.Legend { LegendPosition = OxyPlot.Legends.LegendPosition.TopRight, LegendBackground = OxyColor.FromAColor(220, OxyColors.White) });
-        m.Subtitle = $"v0 = {h.Value:G4} ± {h.StdError:G2} {h.Unit} ({h.Method}, window {h.WindowStart:G3}–{h.WindowEnd:G3} s)";
+        m.Subtitle = $"v0 = {ReportNumber.Measured(h.Value, h.StdError)} {h.Unit} ({h.Method}, window {ReportNumber.Plain(h.WindowStart, 3)}–{ReportNumber.Plain(h.WindowEnd, 3)} s)";
         return m;
     }
 
