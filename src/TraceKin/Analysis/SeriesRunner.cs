@@ -60,7 +60,8 @@ public static class SeriesRunner
             if (run is not null)
             {
                 if (options.RunSink is { } sink) run = Deliver(sink, run);
-                options.Progress?.Invoke(row.Run, $"{row.File}: v0 = {Reports.ReportNumber.Measured(run.Rates.Headline.Value, run.Rates.Headline.StdError)} {run.Rates.Headline.Unit}");
+                // Plain invariant numbers: the stages before Reports do not use its formatter (the CLI may reformat).
+                options.Progress?.Invoke(row.Run, FormattableString.Invariant($"{row.File}: v0 = {run.Rates.Headline.Value:G4} ± {run.Rates.Headline.StdError:G2} {run.Rates.Headline.Unit}"));
                 // Only what the summary, the report and the series need stays alive once the sink has seen every point:
                 // the series stage gets the points of the full trace its global fit uses, the rest a display copy.
                 if (options.Retention != TraceRetention.Full)
