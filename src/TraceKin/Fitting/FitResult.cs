@@ -104,21 +104,26 @@ public sealed record FitResult
     /// <summary>A fixed-section, human-readable account of the fit.</summary>
     public string ToReport()
     {
+        // Written as a chemist reads a fit: what was fitted, whether it worked, how well, each parameter with its
+        // uncertainty, and what to distrust.
         var ci = CultureInfo.InvariantCulture;
         var sb = new StringBuilder();
-        sb.AppendLine($"[model] {Model}");
-        sb.AppendLine("[fit statistics]");
-        sb.AppendLine(ci, $"  exit: {Exit}{(ExitDetail.Length > 0 ? " (" + ExitDetail + ")" : "")}");
-        sb.AppendLine(ci, $"  points: {PointCount}, varied: {VariedCount}, dof: {DegreesOfFreedom}, iterations: {Iterations}");
-        sb.AppendLine(ci, $"  chi-square: {ChiSquare:G6}, reduced chi-square: {ReducedChiSquare:G6}, R²: {RSquared:G6}");
-        sb.AppendLine(ci, $"  AIC: {Aic:G6}, AICc: {AicC:G6}, BIC: {Bic:G6}");
-        sb.AppendLine("[parameters]");
+        sb.AppendLine(ci, $"Fitted: {Model}");
+        var detail = ExitDetail.Length > 0 ? ": " + ExitDetail : "";
+        var outcome = Converged
+            ? string.Format(ci, "Outcome: converged after {0} iteration(s){1}.", Iterations, detail)
+            : string.Format(ci, "Outcome: did not converge ({0}){1}; the numbers below are where it stopped, not a result.", Exit, detail);
+        sb.AppendLine(outcome);
+        sb.AppendLine(ci, $"Data: {PointCount} point(s), {VariedCount} parameter(s) varied, {DegreesOfFreedom} degree(s) of freedom.");
+        sb.AppendLine(ci, $"Scatter: residual sum of squares {ChiSquare:G6}, {ReducedChiSquare:G6} per degree of freedom; R² = {RSquared:G6}.");
+        sb.AppendLine(ci, $"For comparing models: AICc {AicC:G6} (AIC {Aic:G6}, BIC {Bic:G6}).");
+        sb.AppendLine("Parameters (value ± standard error, relative error; start of the fit):");
         foreach (var p in Parameters)
         {
-            var err = !p.Varied ? "(fixed)"
+            var err = !p.Varied ? "held fixed"
                 : double.IsFinite(p.StdError) ? string.Format(ci, "± {0:G6} ({1:F2} %)", p.StdError, 100 * Math.Abs(p.RelativeError))
-                : "± (not estimable)";
-            sb.AppendLine(ci, $"  {p.Name} = {p.Value:G10} {err} (start = {p.Initial:G6})");
+                : "error not estimable: the data do not determine it";
+            sb.AppendLine(ci, $"  {p.Name} = {p.Value:G10} {err}; started at {p.Initial:G6}");
         }
         var corr = Correlation;
         if (corr is not null)
@@ -126,10 +131,12 @@ public sealed record FitResult
             var strong = new List<string>();
             for (var i = 0; i < Parameters.Count; i++)
                 for (var j = i + 1; j < Parameters.Count; j++)
-                    if (Math.Abs(corr[i, j]) > 0.9) strong.Add(string.Format(ci, "  ({0}, {1}) = {2:F3}", Parameters[i].Name, Parameters[j].Name, corr[i, j]));
+                    if (Math.Abs(corr[i, j]) > 0.9)
+                        strong.Add(string.Format(ci, "  {0} and {1} {2}, r = {3:F3}", Parameters[i].Name, Parameters[j].Name,
+                            corr[i, j] > 0 ? "rise and fall together" : "trade off against each other", corr[i, j]));
             if (strong.Count > 0)
             {
-                sb.AppendLine("[strong correlations, |r| > 0.9]");
+                sb.AppendLine("Distrust taken singly (|r| > 0.9; the data fix a combination, not each one):");
                 foreach (var s in strong) sb.AppendLine(s);
             }
         }

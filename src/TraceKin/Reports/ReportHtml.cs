@@ -21,7 +21,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     private static readonly HashSet<string> KnownFindings =
     [
         nameof(SeriesFindings.Orders), nameof(SeriesFindings.RateConstant), nameof(SeriesFindings.RateConstantAtFittedOrders),
-        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
+        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.Saturation), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
         nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
     ];
 
@@ -172,6 +172,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
                     .Element("td", ReportNumber.Measured(p.Order, p.StdError), "class=\"num\"").Raw("</tr>\n");
             h.Raw("</tbody>\n</table>\n");
         }
+        if (f.Saturation is { } sat) LawChoice(h, f, sat);
         Extras(h, f);
         if (f.OrderFit is { } fit)
         {
@@ -226,6 +227,35 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             .Text(ReportNumber.Determined(k.Value, k.Ci95Low, k.Ci95High) ? ReportNumber.Measured(k.Value, k.StdError) : "not determined").Raw("</td>")
             .Raw($"<td class=\"num\" data-quantity=\"{quantity}-ci\">").Text(ReportNumber.Interval(k.Value, k.StdError, k.Ci95Low, k.Ci95High)).Raw("</td>")
             .Element("td", k.Unit).Raw($"<td class=\"num\">{k.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", k.Method).Raw("</tr>\n");
+
+    /// <summary>
+    /// Power law or saturation, in our words: the difference in AICc, the Akaike weights of the two laws (Burnham &amp;
+    /// Anderson 2002, eq. 2.14), one sentence with the rule that decided, then Vmax and Km ("not determined" when their
+    /// interval is wider than the value) and the saturation fit itself, folded.
+    /// </summary>
+    private static void LawChoice(Html h, SeriesFindings f, Series.SaturationFindings sat)
+    {
+        var ci = CultureInfo.InvariantCulture;
+        h.Raw("<div id=\"law-choice\" class=\"extra\">\n").Element("h3", $"Power law or saturation in {sat.Substrate}");
+        var delta = sat.AiccPowerLaw - sat.AiccSaturation;
+        var wSat = 1 / (1 + Math.Exp(-delta / 2));
+        h.Element("p", string.Format(ci,
+            "The {0} has the lower AICc, by {1} (AICc of the power law minus that of the saturation law v0 = Vmax·[{2}]0/(Km + [{2}]0): {3}); on the rates alone that gives the saturation law an Akaike weight of {4} and the power law {5}.",
+            delta >= 0 ? "saturation law" : "power law", ReportNumber.Plain(Math.Abs(delta), 3), sat.Substrate, ReportNumber.Plain(delta, 3),
+            ReportNumber.Plain(wSat, 2), ReportNumber.Plain(1 - wSat, 2)));
+        var rule = string.Format(ci,
+            "Rule: the saturation law is used when its AICc is the lower and its Km lies below {0} times the largest [{1}]0 measured (beyond that the series never approaches saturation). Used here: the {2} law.",
+            Series.SaturationAnalysis.KmBeyondRange.ToString(ci), sat.Substrate, f.ChosenLaw);
+        h.Element("p", rule, "class=\"note\"");
+        h.Element("p", ReportNumber.Result("Vmax", sat.Vmax.Value, sat.Vmax.StdError, sat.Vmax.Unit, sat.Vmax.Ci95Low, sat.Vmax.Ci95High) + "; " +
+            ReportNumber.Result("Km", sat.Km.Value, sat.Km.StdError, sat.Km.Unit, sat.Km.Ci95Low, sat.Km.Ci95High) + ".");
+        foreach (var o in sat.CoReactantOrders)
+            h.Element("p", $"In the saturation law, n({o.Species}) = {ReportNumber.Measured(o.Value, o.StdError)} (95 % interval {ReportNumber.Interval(o.Value, o.StdError, o.Ci95Low, o.Ci95High)}).");
+        if (sat.CrossCheck is { } dr)
+            h.Element("p", $"Double-reciprocal line (display only, never the result): Vmax ≈ {ReportNumber.Plain(dr.Vmax)}, Km ≈ {ReportNumber.Plain(dr.Km)} mol/L.", "class=\"note\"");
+        h.Raw("<details><summary>The saturation fit in detail</summary>\n").Element("pre", sat.Fit.ToReport(), "class=\"fit-report\"").Raw("</details>\n");
+        h.Raw("</div>\n");
+    }
 
     /// <summary>Round-trip values as attributes, so a reader (or a test) can get the exact numbers behind the printed text.</summary>
     private static string Exact(double value, double se) =>

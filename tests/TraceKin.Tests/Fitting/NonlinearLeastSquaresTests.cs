@@ -126,6 +126,6 @@ public sealed class NonlinearLeastSquaresTests
         var fit = NonlinearLeastSquares.Fit(m, y, [500, 1e-4], new FitOptions { MaxIterations = 2 });
         Assert.Equal(FitExit.MaxIterations, fit.Exit);
         Assert.All(fit.Parameters, p => Assert.True(double.IsNaN(p.StdError)));
-        Assert.Contains("exit: MaxIterations", fit.ToReport());
+        Assert.Contains("did not converge (MaxIterations)", fit.ToReport());
     }
 }
