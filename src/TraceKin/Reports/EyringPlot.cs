@@ -21,7 +21,9 @@ public sealed class EyringPlot : ISeriesReportWriter
         var e = t.Eyring!;
         var m = PlotStyle.NewModel($"Eyring: ΔH‡ = {ReportNumber.Measured(e.EnthalpyOfActivation.Value, e.EnthalpyOfActivation.StdError)} kJ/mol, ΔS‡ = {ReportNumber.Measured(e.EntropyOfActivation.Value, e.EntropyOfActivation.StdError)} J/(mol·K)");
         m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Bottom, "1000 K / T"));
-        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, "ln((k / T) / (k-unit/K))"));
+        // The quantity and its unit on the axis: k's own unit (the same in every temperature group) over kelvin.
+        var kUnit = t.Groups.FirstOrDefault()?.RateConstant.Unit ?? "";
+        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, kUnit.Length == 0 ? "ln((k / T) / K⁻¹)" : $"ln((k / T) / (({kUnit})/K))"));
         var pts = SeriesPlotParts.Points("k per temperature", PlotStyle.Data);
         foreach (var g in t.Groups)
             pts.Points.Add(new OxyPlot.Series.ScatterErrorPoint(1000 / g.TemperatureK, Math.Log(g.RateConstant.Value / g.TemperatureK), 0, g.RateConstant.StdError / g.RateConstant.Value));

@@ -25,7 +25,19 @@ public sealed class RateConstantPlot : ISeriesReportWriter
         var m = PlotStyle.NewModel("Rate constant per run");
         var labels = new CategoryAxis { Position = AxisPosition.Bottom, Title = "run", MajorGridlineStyle = LineStyle.None };
         m.Axes.Add(labels);
-        m.Axes.Add(SeriesPlotParts.Axis(AxisPosition.Left, $"k ({unit})"));
+        // The axis spans every error bar and the series' interval, so nothing is clipped.
+        var axis = SeriesPlotParts.Axis(AxisPosition.Left, $"k ({unit})");
+        var lows = f.PerRunK.Select(p => p.Value - p.StdError).Where(double.IsFinite).ToList();
+        var highs = f.PerRunK.Select(p => p.Value + p.StdError).Where(double.IsFinite).ToList();
+        if (f.RateConstant is { } band && double.IsFinite(band.Ci95Low) && double.IsFinite(band.Ci95High)) { lows.Add(band.Ci95Low); highs.Add(band.Ci95High); }
+        if (lows.Count > 0 && highs.Count > 0)
+        {
+            var (lo, hi) = (lows.Min(), highs.Max());
+            var pad = 0.08 * Math.Max(hi - lo, 1e-12 * Math.Max(Math.Abs(hi), Math.Abs(lo)));
+            axis.Minimum = lo - pad;
+            axis.Maximum = hi + pad;
+        }
+        m.Axes.Add(axis);
         var pts = SeriesPlotParts.Points("k per run (±1 se)", PlotStyle.Data);
         for (var i = 0; i < f.PerRunK.Count; i++)
         {
