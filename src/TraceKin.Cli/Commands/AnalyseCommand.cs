@@ -148,6 +148,7 @@ public static class AnalyseCommand
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
             Progress = progress.Report,
+            Planned = progress.Planned,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
         // The series outputs are independent of each other: write them side by side while the run plots drain to

@@ -19,6 +19,9 @@ public sealed record AnalysisOptions
     public IRunSink? RunSink { get; init; }
     /// <summary>Called after each run (analysed or rejected) with the run id and a one-line status, from worker threads.</summary>
     public Action<string, string>? Progress { get; init; }
+
+    /// <summary>Called once plan.csv is read, with the number of runs it plans (for progress with a total).</summary>
+    public Action<int>? Planned { get; init; }
     /// <summary>What the result keeps of each run's traces; <see cref="TraceRetention.Display"/> bounds memory for big batches.</summary>
     public TraceRetention Retention { get; init; } = TraceRetention.Full;
     /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>

@@ -50,6 +50,7 @@ public static class SeriesRunner
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
         }
 
+        options.Planned?.Invoke(plan.Rows.Count);
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         options.RunSink?.Begin(plan);
         Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
