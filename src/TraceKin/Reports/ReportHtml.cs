@@ -459,9 +459,9 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             return;
         }
         var figures = new List<(string File, string Caption)>();
+        var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
         if (Directory.Exists(plotDir))
         {
-            var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
             var runFiles = r.Runs.Select(x => (File: names.PlotFile(x.Id), Caption: $"Run {x.Id} ({x.File}): concentration, early window, fit, initial-rate tangent and residuals")).ToList();
             var runNames = new HashSet<string>(runFiles.Select(x => x.File), StringComparer.Ordinal);
             var seriesFiles = Directory.EnumerateFiles(plotDir, "*.png").Select(Path.GetFileName).OfType<string>()
@@ -473,14 +473,27 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         // Up to MaxEmbeddedRunPlots run plots travel inside the page; beyond that the page links them from the
         // plots folder next to it, so a batch of a thousand runs does not make a page of a hundred megabytes.
         var embedRuns = r.Runs.Count <= MaxEmbeddedRunPlots;
+        // A large series shows inline only the plots of runs that need attention (a problem-tier warning: unresolved,
+        // wrong sign, …); the others are listed as links, folded, so the page stays short and opens quickly.
+        var attention = new HashSet<string>(StringComparer.Ordinal);
+        var folded = new List<(string File, string Caption)>();
         if (!embedRuns)
-            h.Element("p", $"The {r.Runs.Count} run plots are shown from the plots folder next to this page (they are embedded only for up to {MaxEmbeddedRunPlots} runs); keep the folder with the page.", "class=\"note\"");
+        {
+            foreach (var run in r.Runs)
+                if (run.Warnings.Any(w => !WarningTiers.IsNote(w)) || !run.Rates.IsResolved) attention.Add(names.PlotFile(run.Id));
+            h.Element("p", $"The {r.Runs.Count} run plots are in the plots folder next to this page (embedded only for up to {MaxEmbeddedRunPlots} runs): the {attention.Count} of runs that need attention are shown below, the others are linked at the end; keep the folder with the page.", "class=\"note\"");
+        }
         var shown = 0;
         foreach (var (file, caption) in figures)
         {
             var path = Path.Combine(plotDir, file);
             // A link in plots/ is not ours (TraceKin never writes one): its target is neither embedded nor linked.
             if (!File.Exists(path) || new FileInfo(path).LinkTarget is not null) continue;
+            if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal) && !attention.Contains(file))
+            {
+                folded.Add((file, caption));
+                continue;
+            }
             if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal))
             {
                 h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img loading=\"lazy\" alt=\"{Html.Escape(caption)}\" {Html.Attr("src", "plots/" + file)}>\n")
@@ -494,6 +507,14 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img alt=\"{Html.Escape(caption)}\" src=\"data:image/png;base64,")
                 .Raw(Convert.ToBase64String(png)).Raw("\">\n").Element("figcaption", caption).Raw("</figure>\n");
             shown++;
+        }
+        if (folded.Count > 0)
+        {
+            h.Raw($"<details id=\"other-run-plots\"><summary>Plots of the other {folded.Count} runs (links)</summary>\n<ul class=\"run-plot-links\">\n");
+            foreach (var (file, caption) in folded)
+                h.Raw("<li>").Raw($"<a {Html.Attr("href", "plots/" + file)}>").Text(caption).Raw("</a></li>\n");
+            h.Raw("</ul>\n</details>\n");
+            shown += folded.Count;
         }
         if (shown == 0) h.Element("p", "No plot files were found in the output's plots folder.", "class=\"none\"");
         h.Raw("</section>\n");

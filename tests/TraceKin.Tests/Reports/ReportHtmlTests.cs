@@ -206,7 +206,7 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
     }
 
     [Fact]
-    public void Beyond_fifty_runs_the_run_plots_are_linked_from_the_plots_folder_not_embedded()
+    public void Beyond_fifty_runs_only_the_runs_that_need_attention_are_shown_and_the_rest_are_linked_from_the_plots_folder()
     {
         // 8 sample runs repeated under new names up to 56 (round trip on the invented sample): the page stays
         // small, every run still has its figure, and each links its file in plots/, which is there.
@@ -222,11 +222,21 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
             File.Copy(Path.Combine(sample.OutDir, "plots", names.PlotFile(sample.Result.Runs[0].Id)), Path.Combine(plotDir, names.PlotFile(r.Id)));
         var (doc, errors) = Parse(ReportHtml.Render(big, plotDir));
         Assert.Empty(errors);
+        // The runs that need attention (none in this clean sample) are shown inline; the others are linked, folded.
         var runImages = doc.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal))
             .Select(f => f.QuerySelector("img")!.GetAttribute("src")!).ToList();
-        Assert.Equal(56, runImages.Count);
-        Assert.All(runImages, src => Assert.StartsWith("plots/run-", src));
-        Assert.All(runImages, src => Assert.True(File.Exists(Path.Combine(outDir.Path, src))));
+        var runLinks = doc.QuerySelectorAll("#other-run-plots a").Select(a => a.GetAttribute("href")!).ToList();
+        Assert.Empty(runImages);
+        Assert.Equal(56, runLinks.Count);
+        Assert.All(runLinks, src => Assert.StartsWith("plots/run-", src));
+        Assert.All(runLinks, src => Assert.True(File.Exists(Path.Combine(outDir.Path, src))));
+        // A run that needs attention is shown inline, the rest stay links.
+        var flagged = runs.Select((r, i) => i == 3 ? r with { Warnings = [.. r.Warnings, new TraceKin.Traces.Warning("rate-unresolved", r.File, "test")] } : r).ToList();
+        var (doc2, errors2) = Parse(ReportHtml.Render(big with { Runs = flagged }, plotDir));
+        Assert.Empty(errors2);
+        var inline = doc2.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal)).ToList();
+        Assert.Single(inline);
+        Assert.Equal(55, doc2.QuerySelectorAll("#other-run-plots a").Length);
         // The series plots are still embedded.
         Assert.Contains(doc.QuerySelectorAll("figure.plot img"), i => i.GetAttribute("src")!.StartsWith("data:image/png;base64,", StringComparison.Ordinal));
     }
