@@ -274,7 +274,17 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             if (KnownFindings.Contains(p.Name) || p.GetIndexParameters().Length > 0) continue;
             var v = p.GetValue(f);
             if (v is null || v is ICollection { Count: 0 }) continue;
-            h.Raw($"<div class=\"extra\" {Html.Attr("data-finding", p.Name)}>\n").Element("h3", Words(p.Name));
+            h.Raw($"<div class=\"extra\" {Html.Attr("data-finding", p.Name)}>\n").Element("h3", Heading(p.Name, f));
+            if (v is IReadOnlyList<Series.Order> orders)
+            {
+                // Orders always name their species.
+                h.Raw("<table class=\"results\">\n<thead><tr><th>species</th><th>order n ± SE</th><th>95 % interval</th><th>method</th></tr></thead>\n<tbody>\n");
+                foreach (var o in orders)
+                    h.Raw("<tr>").Element("td", o.Species, "class=\"name\"").Element("td", ReportNumber.Measured(o.Value, o.StdError), "class=\"num\"")
+                        .Element("td", ReportNumber.Interval(o.Value, o.StdError, o.Ci95Low, o.Ci95High), "class=\"num\"").Element("td", o.Method).Raw("</tr>\n");
+                h.Raw("</tbody>\n</table>\n</div>\n");
+                continue;
+            }
             Generic(h, v, 0);
             h.Raw("</div>\n");
         }
@@ -373,6 +383,23 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     }
 
     private static string Words(string pascal) => SettingsProvenance.Snake(pascal).Replace('_', ' ');
+
+    /// <summary>Section headings in the trade's words, naming the species where a result is about them.</summary>
+    private static string Heading(string property, SeriesFindings f)
+    {
+        var species = string.Join(", ", f.Orders.Select(o => o.Species));
+        return property switch
+        {
+            nameof(SeriesFindings.LogLogOrders) => $"Orders in {species} from the log–log line (cross-check)",
+            nameof(SeriesFindings.PowerLawFit) => "The power-law fit in detail",
+            nameof(SeriesFindings.Design) => $"How well the runs separate the orders in {species}",
+            nameof(SeriesFindings.Curvature) => $"Shape of ln v0 against ln [X]0 for {species} (curvature and local order)",
+            nameof(SeriesFindings.Temperature) => "Temperature dependence: k per temperature, Arrhenius and Eyring",
+            nameof(SeriesFindings.GlobalFit) => "Global fit of every run's time course",
+            nameof(SeriesFindings.ChosenLaw) => "Rate law used",
+            _ => Words(property),
+        };
+    }
 
     private static void Runs(Html h, SeriesResult r)
     {

@@ -35,4 +35,17 @@ public sealed class LawChoiceSectionTests(AnalysedSample sample) : IClassFixture
         var notConverged = fit with { Exit = FitExit.MaxIterations, ExitDetail = "no convergence within 100 iterations" };
         Assert.Contains("not a result", notConverged.ToReport());
     }
+
+    [Fact]
+    public void Result_headings_name_their_species_and_the_log_log_orders_carry_them()
+    {
+        var html = File.ReadAllText(sample.ReportPath);
+        Assert.Contains("Orders in complex, H+ from the log–log line (cross-check)", html);
+        Assert.Contains("Shape of ln v0 against ln [X]0 for complex, H+", html);
+        Assert.DoesNotContain("<h3>log log orders</h3>", html);
+        var at = html.IndexOf("from the log–log line", StringComparison.Ordinal);
+        var table = html[at..html.IndexOf("</table>", at, StringComparison.Ordinal)];
+        Assert.Contains(">complex<", table);
+        Assert.Contains(">H+<", table);
+    }
 }
