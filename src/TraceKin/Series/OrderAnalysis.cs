@@ -267,17 +267,120 @@ public static class OrderAnalysis
 
     /// <summary>
     /// Pairs of runs that differ only in one varied species: n = ln(v2/v1)/ln(c2/c1), error propagated from both rates.
-    /// Returns the first <see cref="MaxPairRatios"/> in plan order and how many pairs there are in all.
+    /// Returns the first <see cref="MaxPairRatios"/> in plan order and how many pairs there are in all. The pairs are
+    /// counted arithmetically (per species, runs grouped by temperature and by every other species' [X]0: a group of m
+    /// runs whose values of the species fall in classes of m_v gives C(m, 2) − Σ C(m_v, 2) pairs) and only the listed
+    /// ones are built, so a series of 20,000 runs does not visit its 2·10⁸ pairs. Where the classes are not clear-cut
+    /// (values within the 10⁻⁹ tolerance of one another but not equal, temperatures that chain across 0.05 K, a run
+    /// without a temperature) every pair is visited as before.
     /// </summary>
-    private static (IReadOnlyList<PairRatio> Pairs, int Count) PairRatios(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied)
+    internal static (IReadOnlyList<PairRatio> Pairs, long Count) PairRatios(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied)
+    {
+        var k = varied.Count;
+        var n = runs.Count;
+        var conc = new double[n * k];
+        for (var r = 0; r < n; r++)
+            for (var j = 0; j < k; j++) conc[r * k + j] = runs[r].InitialConcentrations[varied[j]];
+        var groups = ClearTemperatureClasses(runs);
+        if (groups is null || !ClearConcentrationClasses(conc, n, k)) return AllPairs(runs, varied, conc);
+
+        // For species j, runs that share the temperature class and every other species' value, in plan order.
+        var members = new Dictionary<string, List<int>>[k];
+        long count = 0;
+        for (var j = 0; j < k; j++)
+        {
+            members[j] = new Dictionary<string, List<int>>(StringComparer.Ordinal);
+            for (var r = 0; r < n; r++)
+            {
+                var key = GroupKey(groups[r], conc, r, k, j);
+                if (!members[j].TryGetValue(key, out var list)) members[j][key] = list = [];
+                list.Add(r);
+            }
+            foreach (var list in members[j].Values)
+            {
+                long m = list.Count;
+                var same = list.GroupBy(r => conc[r * k + j]).Sum(g => (long)g.Count() * (g.Count() - 1) / 2);
+                count += m * (m - 1) / 2 - same;
+            }
+        }
+
+        var pairs = new List<PairRatio>();
+        var candidates = new List<(int B, int J)>();
+        for (var a = 0; a < n && pairs.Count < MaxPairRatios; a++)
+        {
+            candidates.Clear();
+            for (var j = 0; j < k; j++)
+            {
+                var list = members[j][GroupKey(groups[a], conc, a, k, j)];
+                var from = list.BinarySearch(a) + 1;
+                for (var i = from; i < list.Count; i++)
+                    if (conc[list[i] * k + j] != conc[a * k + j]) candidates.Add((list[i], j));
+            }
+            candidates.Sort((x, y) => x.B.CompareTo(y.B));
+            foreach (var (bIndex, j) in candidates)
+            {
+                if (pairs.Count >= MaxPairRatios) break;
+                pairs.Add(Pair(runs[a], runs[bIndex], varied[j]));
+            }
+        }
+        return (pairs, count);
+    }
+
+    private static string GroupKey(int temperatureClass, double[] conc, int r, int k, int skip)
+    {
+        var sb = new System.Text.StringBuilder().Append(temperatureClass);
+        for (var j = 0; j < k; j++)
+            if (j != skip) sb.Append('|').Append(BitConverter.DoubleToInt64Bits(conc[r * k + j]));
+        return sb.ToString();
+    }
+
+    /// <summary>A temperature class per run when "within 0.05 K" is the same as "in one class" (every run has a
+    /// temperature, each class spans at most 0.05 K and classes lie more than 0.05 K apart); else null.</summary>
+    private static int[]? ClearTemperatureClasses(IReadOnlyList<RunPoint> runs)
+    {
+        if (runs.Any(r => r.TemperatureK is null)) return null;
+        var order = Enumerable.Range(0, runs.Count).OrderBy(i => runs[i].TemperatureK!.Value).ToArray();
+        var cls = new int[runs.Count];
+        double start = double.NaN, last = double.NaN;
+        var c = -1;
+        foreach (var i in order)
+        {
+            var t = runs[i].TemperatureK!.Value;
+            if (c < 0 || t - last > 0.05) { c++; start = t; }
+            else if (t - start > 0.05) return null; // a chain: the pairwise rule is not a partition here
+            last = t;
+            cls[i] = c;
+        }
+        return cls;
+    }
+
+    /// <summary>True when, for every species, distinct values lie further apart than the 10⁻⁹ relative tolerance.</summary>
+    private static bool ClearConcentrationClasses(double[] conc, int n, int k)
+    {
+        for (var j = 0; j < k; j++)
+        {
+            var values = Enumerable.Range(0, n).Select(r => conc[r * k + j]).Distinct().Order().ToArray();
+            for (var i = 1; i < values.Length; i++)
+                if (Math.Abs(values[i] - values[i - 1]) <= 1e-9 * Math.Max(values[i], values[i - 1])) return false;
+        }
+        return true;
+    }
+
+    private static PairRatio Pair(RunPoint a, RunPoint b, string differing)
+    {
+        var cr = b.InitialConcentrations[differing] / a.InitialConcentrations[differing];
+        var rr = b.Rate / a.Rate;
+        var lnc = Math.Log(cr);
+        var rel = Math.Sqrt(Math.Pow(a.RateStdError / a.Rate, 2) + Math.Pow(b.RateStdError / b.Rate, 2));
+        return new PairRatio(a.RunId, b.RunId, differing, cr, rr, Math.Log(rr) / lnc, rel / Math.Abs(lnc));
+    }
+
+    /// <summary>Every pair visited: the rule as stated, for series whose classes are not clear-cut.</summary>
+    internal static (IReadOnlyList<PairRatio> Pairs, long Count) AllPairs(IReadOnlyList<RunPoint> runs, IReadOnlyList<string> varied, double[] conc)
     {
         var list = new List<PairRatio>();
-        var count = 0;
-        // Every pair is visited (the count is reported), so the starting concentrations are looked up once per run.
+        long count = 0;
         var k = varied.Count;
-        var conc = new double[runs.Count * k];
-        for (var r = 0; r < runs.Count; r++)
-            for (var j = 0; j < k; j++) conc[r * k + j] = runs[r].InitialConcentrations[varied[j]];
         for (var a = 0; a < runs.Count; a++)
             for (var b = a + 1; b < runs.Count; b++)
             {
@@ -292,14 +395,9 @@ public static class OrderAnalysis
                     differingIndex = j;
                 }
                 if (!ok || differingIndex < 0) continue;
-                var differing = varied[differingIndex];
                 if (runs[a].TemperatureK is { } ta && runs[b].TemperatureK is { } tb && Math.Abs(ta - tb) > 0.05) continue;
                 if (++count > MaxPairRatios) continue;
-                var cr = runs[b].InitialConcentrations[differing] / runs[a].InitialConcentrations[differing];
-                var rr = runs[b].Rate / runs[a].Rate;
-                var lnc = Math.Log(cr);
-                var rel = Math.Sqrt(Math.Pow(runs[a].RateStdError / runs[a].Rate, 2) + Math.Pow(runs[b].RateStdError / runs[b].Rate, 2));
-                list.Add(new PairRatio(runs[a].RunId, runs[b].RunId, differing, cr, rr, Math.Log(rr) / lnc, rel / Math.Abs(lnc)));
+                list.Add(Pair(runs[a], runs[b], varied[differingIndex]));
             }
         return (list, count);
     }
