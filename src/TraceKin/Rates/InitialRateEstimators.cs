@@ -67,16 +67,7 @@ public static class InitialRateEstimators
         var p = f.Parameters.Select(x => x.Value).ToArray();
         var slope = model.InitialSlope(p);
         var np = p.Length;
-        var g = new double[np];
-        for (var j = 0; j < np; j++)
-        {
-            if (!f.Parameters[j].Varied) continue;
-            var se = f.Parameters[j].StdError;
-            var h = double.IsFinite(se) && se > 0 ? 1e-4 * se : 1e-7 * Math.Max(Math.Abs(p[j]), 1e-300);
-            var pp = (double[])p.Clone(); pp[j] += h;
-            var pm = (double[])p.Clone(); pm[j] -= h;
-            g[j] = (model.InitialSlope(pp) - model.InitialSlope(pm)) / (2 * h);
-        }
+        var g = SlopeGradient(model, f);
         double v = 0;
         for (var a = 0; a < np; a++)
             for (var b = 0; b < np; b++) v += g[a] * f.Covariance[a, b] * g[b];
@@ -86,6 +77,24 @@ public static class InitialRateEstimators
         {
             FittedBy = () => law.Fitted,
         };
+    }
+
+    /// <summary>∂(d y/dt at t0)/∂p_j of a fit by central differences, steps of 10⁻⁴ of each parameter's standard error
+    /// (0 for fixed parameters and for a drift, which the slope excludes); the gradient of the delta method.</summary>
+    internal static double[] SlopeGradient(LawModel model, FitResult f)
+    {
+        var p = f.Parameters.Select(x => x.Value).ToArray();
+        var g = new double[p.Length];
+        for (var j = 0; j < p.Length; j++)
+        {
+            if (!f.Parameters[j].Varied) continue;
+            var se = f.Parameters[j].StdError;
+            var h = double.IsFinite(se) && se > 0 ? 1e-4 * se : 1e-7 * Math.Max(Math.Abs(p[j]), 1e-300);
+            var pp = (double[])p.Clone(); pp[j] += h;
+            var pm = (double[])p.Clone(); pm[j] -= h;
+            g[j] = (model.InitialSlope(pp) - model.InitialSlope(pm)) / (2 * h);
+        }
+        return g;
     }
 
     /// <summary>

@@ -277,18 +277,8 @@ public static class IntegratedLawFitter
         var c = fit.Covariance;
         var d = model.DriftIndex;
         if (c is null || d < 0 || !(c[d, d] > 0)) return double.NaN;
-        var p = fit.Parameters.Select(x => x.Value).ToArray();
-        var np = p.Length;
-        var g = new double[np];
-        for (var j = 0; j < np; j++)
-        {
-            if (!fit.Parameters[j].Varied || j == d) continue;
-            var se = fit.Parameters[j].StdError;
-            var h = double.IsFinite(se) && se > 0 ? 1e-4 * se : 1e-7 * Math.Max(Math.Abs(p[j]), 1e-300);
-            var pp = (double[])p.Clone(); pp[j] += h;
-            var pm = (double[])p.Clone(); pm[j] -= h;
-            g[j] = (model.InitialSlope(pp) - model.InitialSlope(pm)) / (2 * h);
-        }
+        var np = fit.Parameters.Count;
+        var g = InitialRateEstimators.SlopeGradient(model, fit);
         double cov = 0, v = 0;
         for (var a = 0; a < np; a++)
         {
@@ -633,13 +623,15 @@ public static class IntegratedLawFitter
         return start;
     }
 
-    /// <summary>The lack-of-fit rule of <see cref="Describe"/> on a bare fit.</summary>
-    private static bool LacksFit(FitResult f, double[] w, double noise)
+    private static bool LacksFit(FitResult f, double[] w, double noise) =>
+        LacksFit(f, f.Residuals.Length == w.Length ? RunsTest.Of(f.Residuals, w) : null, noise);
+
+    /// <summary>Lack of fit: a residual pattern (runs test P &lt; 0.001) or, converged, scatter above 4× the trace's own
+    /// noise variance. Residuals at the level of rounding (a noise-free trace) carry no pattern worth testing.</summary>
+    private static bool LacksFit(FitResult f, RunsTest? runs, double noise)
     {
-        var runs = f.Residuals.Length == w.Length ? RunsTest.Of(f.Residuals, w) : null;
-        var y0 = f.Parameters[LawModel.Y0].Value; var yEnd = f.Parameters[LawModel.YEnd].Value;
-        var rounding = f.ResidualStdDev <= 1e-10 * Math.Abs(y0 - yEnd);
-        return !rounding && (runs is { PValue: < 1e-3 } || (noise > 0 && f.ReducedChiSquare > 4 * noise * noise));
+        var rounding = f.Converged && f.ResidualStdDev <= 1e-10 * Math.Abs(f.Parameters[LawModel.Y0].Value - f.Parameters[LawModel.YEnd].Value);
+        return !rounding && (runs is { PValue: < 1e-3 } || (noise > 0 && f.Converged && f.ReducedChiSquare > 4 * noise * noise));
     }
 
     private static LawFit Describe(LawModel m, FitResult f, bool chosen, double minAicc, double sumW, double[] w, double noise)
@@ -648,9 +640,7 @@ public static class IntegratedLawFitter
         var k = f.Parameters[LawModel.K];
         var shape = p.AsSpan(LawModel.FirstShape, m.Law.ShapeNames.Count);
         var runs = f.Residuals.Length == w.Length ? RunsTest.Of(f.Residuals, w) : null;
-        // Residuals at the level of rounding (a noise-free trace) carry no pattern worth testing.
-        var rounding = f.Converged && f.ResidualStdDev <= 1e-10 * Math.Abs(p[LawModel.Y0] - p[LawModel.YEnd]);
-        var lack = !rounding && (runs is { PValue: < 1e-3 } || (noise > 0 && f.Converged && f.ReducedChiSquare > 4 * noise * noise));
+        var lack = LacksFit(f, runs, noise);
         var converged = f.Converged;
         var hl = converged ? m.HalfLife(p) : double.NaN;
         var (lo, hi) = converged && double.IsFinite(k.StdError) ? f.Ci95("k") : (double.NaN, double.NaN);

@@ -63,7 +63,7 @@ public static class RateAnalysis
         // against the chosen law's whole change |y0 − y_end| (its plateau), not against the part the trace shows.
         var chosenFit = selection.Fits.FirstOrDefault(f => f.Chosen);
         var total = referenceConcentration;
-        if (total is null && chosenFit is { Fit.Converged: true } && selection.ChosenModel is { } cm0)
+        if (total is null && chosenFit is { Fit.Converged: true } && selection.ChosenModel is not null)
         {
             var span = Math.Abs(chosenFit.Fit.Parameters[LawModel.Y0].Value - chosenFit.Fit.Parameters[LawModel.YEnd].Value);
             if (double.IsFinite(span) && span > 0) total = span;

@@ -52,9 +52,9 @@ public static class LawChoiceUncertainty
 
     private static double[,]? Invert(double[,] a, int p)
     {
-        var m = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(a);
-        if (Math.Abs(m.Determinant()) < 1e-300) return null;
-        var inv = m.Inverse();
+        // A singular design gives non-finite entries (the determinant's size says nothing here: it scales with the
+        // weights), which the check below turns into "no systematic part".
+        var inv = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(a).Inverse();
         var r = new double[p, p];
         for (var i = 0; i < p; i++)
             for (var j = 0; j < p; j++) r[i, j] = inv[i, j];

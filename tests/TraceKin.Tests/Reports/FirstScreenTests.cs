@@ -1,4 +1,3 @@
-using System.Diagnostics;
 using System.Text.Json;
 using System.Text.RegularExpressions;
 using SkiaSharp;
@@ -52,7 +51,7 @@ public sealed class FirstScreenTests(ITestOutputHelper output)
                 """;
             var probed = Path.Combine(outDir, "probed.html");
             File.WriteAllText(probed, html.Replace("</body>", probe + "</body>", StringComparison.Ordinal));
-            var dom = Run(chromium, outDir, "dom", [$"--window-size={Width},{Height}", "--virtual-time-budget=10000", "--dump-dom", new Uri(probed).AbsoluteUri]);
+            var dom = ReportBrowserTests.Run(chromium, outDir, "dom", [$"--window-size={Width},{Height}", "--virtual-time-budget=10000", "--dump-dom", new Uri(probed).AbsoluteUri]);
             var m = Regex.Match(dom, "data-first-screen=\"([^\"]*)\"");
             Assert.True(m.Success, "the layout probe did not run");
             var boxes = JsonSerializer.Deserialize<Dictionary<string, int>>(System.Net.WebUtility.HtmlDecode(m.Groups[1].Value))!;
@@ -62,7 +61,7 @@ public sealed class FirstScreenTests(ITestOutputHelper output)
             if (temperatures) Assert.InRange(boxes["temperature"], 1, Height);
 
             var png = Path.Combine(outDir, "first-screen.png");
-            Run(chromium, outDir, "png", ["--hide-scrollbars", $"--window-size={Width},{Height}", $"--screenshot={png}", new Uri(Path.Combine(outDir, "report.html")).AbsoluteUri]);
+            ReportBrowserTests.Run(chromium, outDir, "png", ["--hide-scrollbars", $"--window-size={Width},{Height}", $"--screenshot={png}", new Uri(Path.Combine(outDir, "report.html")).AbsoluteUri]);
             using var shot = SKBitmap.Decode(png);
             long dark = 0;
             for (var y = 0; y < shot.Height; y++)
@@ -71,26 +70,5 @@ public sealed class FirstScreenTests(ITestOutputHelper output)
             Assert.True(dark > 2000, $"the first screen is nearly blank ({dark} dark pixels)");
         }
         finally { Directory.Delete(outDir, recursive: true); }
-    }
-
-    private static string Run(string chromium, string work, string tag, string[] args)
-    {
-        var psi = new ProcessStartInfo(chromium) { RedirectStandardError = true, RedirectStandardOutput = true, UseShellExecute = false };
-        foreach (var f in new[] { "--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking",
-                     "--disable-component-update", "--disable-sync", "--disable-extensions", "--host-resolver-rules=MAP * ~NOTFOUND" })
-            psi.ArgumentList.Add(f);
-        psi.ArgumentList.Add($"--user-data-dir={Path.Combine(work, "profile-" + tag)}");
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        psi.Environment["DBUS_SESSION_BUS_ADDRESS"] = "disabled:";
-        using var p = Process.Start(psi)!;
-        var stdout = p.StandardOutput.ReadToEndAsync();
-        var stderr = p.StandardError.ReadToEndAsync();
-        if (!p.WaitForExit(TimeSpan.FromSeconds(120)))
-        {
-            p.Kill(entireProcessTree: true);
-            Assert.Fail("chromium did not finish within 120 s");
-        }
-        Assert.True(p.ExitCode == 0, $"chromium exited {p.ExitCode}: {stderr.Result}");
-        return stdout.Result;
     }
 }

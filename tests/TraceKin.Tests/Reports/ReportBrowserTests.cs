@@ -91,7 +91,15 @@ public sealed class ReportBrowserTests(AnalysedSample sample, ITestOutputHelper 
     private static bool Near(SKColor c, byte r, byte g, byte b) =>
         Math.Abs(c.Red - r) <= 6 && Math.Abs(c.Green - g) <= 6 && Math.Abs(c.Blue - b) <= 6;
 
-    private static (Process P, Task<string> Err) Start(string chromium, string work, string tag, string[] args)
+    /// <summary>Runs headless Chromium to the end with the test flags (no network) and returns what it printed.</summary>
+    internal static string Run(string chromium, string work, string tag, string[] args)
+    {
+        var run = Start(chromium, work, tag, args);
+        Finish(run);
+        return run.Out.Result;
+    }
+
+    private static (Process P, Task<string> Out, Task<string> Err) Start(string chromium, string work, string tag, string[] args)
     {
         var psi = new ProcessStartInfo(chromium) { RedirectStandardError = true, RedirectStandardOutput = true, UseShellExecute = false };
         foreach (var f in Flags) psi.ArgumentList.Add(f);
@@ -99,11 +107,10 @@ public sealed class ReportBrowserTests(AnalysedSample sample, ITestOutputHelper 
         foreach (var a in args) psi.ArgumentList.Add(a);
         psi.Environment["DBUS_SESSION_BUS_ADDRESS"] = "disabled:";
         var p = Process.Start(psi)!;
-        _ = p.StandardOutput.ReadToEndAsync();
-        return (p, p.StandardError.ReadToEndAsync());
+        return (p, p.StandardOutput.ReadToEndAsync(), p.StandardError.ReadToEndAsync());
     }
 
-    private static void Finish((Process P, Task<string> Err) run)
+    private static void Finish((Process P, Task<string> Out, Task<string> Err) run)
     {
         using var p = run.P;
         if (!p.WaitForExit(TimeSpan.FromSeconds(120)))
@@ -112,5 +119,7 @@ public sealed class ReportBrowserTests(AnalysedSample sample, ITestOutputHelper 
             Assert.Fail("chromium did not finish within 120 s");
         }
         Assert.True(p.ExitCode == 0, $"chromium exited {p.ExitCode}: {run.Err.Result}");
+        // What it printed is read to the end before the process is released.
+        Assert.True(run.Out.Wait(TimeSpan.FromSeconds(30)), "chromium's output did not close");
     }
 }
