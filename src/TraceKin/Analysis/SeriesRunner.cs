@@ -196,7 +196,7 @@ public static class SeriesRunner
 
     /// <summary>A problem with the file a plan row names, located at that row's file cell in plan.csv.</summary>
     private static Problem AtFileCell(PlanRow row, string found, string expected, string hint) =>
-        new(PlanFile, row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
+        new(PlanFile, row.FileLine > 0 ? row.FileLine : row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
 
     /// <summary>plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).</summary>
     private static string ReadSetup(string folder, string name, AnalysisOptions options)
