@@ -1,3 +1,4 @@
+using System.Collections.Concurrent;
 using System.Reflection;
 using System.Security.Cryptography;
 using TraceKin.Ingest;
@@ -53,7 +54,10 @@ public static class SeriesRunner
         options.Planned?.Invoke(plan.Rows.Count);
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         options.RunSink?.Begin(plan);
-        Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
+        // Rows are handed to the workers one at a time in plan order (not in a block per worker), so runs finish
+        // close to plan order and a sink that writes in plan order (RunTables) holds only a few runs back.
+        var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
+        Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
             var (run, problem) = AnalyseRun(folder, row, config, options.AllowOutsideFiles);
@@ -71,7 +75,11 @@ public static class SeriesRunner
                     run = options.Retention == TraceRetention.None ? RunThinning.Strip(run) : RunThinning.Thin(run, options.RetainedColumns);
                 }
             }
-            else options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
+            else
+            {
+                options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
+                options.RunSink?.Rejected(row);
+            }
             slots[i] = (run, problem, fitTrace);
         });
 

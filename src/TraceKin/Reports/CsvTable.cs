@@ -45,6 +45,13 @@ public sealed class CsvTable : IDisposable
     /// <summary>The culture to read this style's numbers back with (tests, users' scripts).</summary>
     public static NumberFormatInfo NumberFormat(CsvStyle style) => style == CsvStyle.DecimalComma ? CommaDecimals : NumberFormatInfo.InvariantInfo;
 
+    /// <summary>A header row: every name a text cell.</summary>
+    public void Header(IEnumerable<string> names)
+    {
+        foreach (var n in names) Text(n);
+        EndRow();
+    }
+
     /// <summary>A text cell, neutralised against formula injection.</summary>
     public CsvTable Text(string? s)
     {
