@@ -9,7 +9,8 @@ using TraceKin.Ingest;
 /// (comma, decimal point, header `time (s),absorbance`, about 170 kB, like the files bench/batch.sh analyses).
 /// Both read the same bytes from memory into arrays of doubles; CsvHelper's numbers are parsed with
 /// double.TryParse(span, NumberStyles.Float, invariant) as TraceKin must (its Parse&lt;double&gt; accepts group
-/// separators), and, for reference, with its own Parse&lt;double&gt;. Best of N passes of M reads each, in process CPU time
+/// separators), with our own exact parser (Ingest/NumberCell) as an export reader built on CsvHelper would use, and,
+/// for reference, with CsvHelper's own Parse&lt;double&gt;. Best of N passes of M reads each, in process CPU time
 /// and wall time per file.
 /// </summary>
 static class CsvHelperComparison
@@ -18,11 +19,12 @@ static class CsvHelperComparison
     {
         var bytes = Export(rows);
         Console.WriteLine($"file: {rows:N0} rows, 2 columns, {bytes.Length / 1e3:F1} kB; {repeats} passes of {readsPerPass} reads; runtime {Environment.Version}, {Environment.ProcessorCount} cores, {DateTime.UtcNow:yyyy-MM-dd HH:mm} UTC");
-        double ours = 0, helper = 0, helperOwn = 0;
+        double ours = 0, helper = 0, helperCell = 0, helperOwn = 0;
         var cases = new (string Name, Func<byte[], double> Read, Action<double> Keep)[]
         {
             ("TraceKin ExportReader.FromBytes (detection, checks, located errors)", Ours, v => ours = v),
             ("CsvHelper 34 CsvReader + double.TryParse(span, Float, invariant)", Helper, v => helper = v),
+            ("CsvHelper 34 CsvReader + TraceKin's NumberCell (exact, no group separators)", HelperCell, v => helperCell = v),
             ("CsvHelper 34 CsvReader + its Parse<double> (not usable: group separators)", HelperParse, v => helperOwn = v),
         };
         var checksums = cases.Select(c => c.Read(bytes)).ToArray(); // warm-up, and every reader must read the same numbers
@@ -45,7 +47,7 @@ static class CsvHelperComparison
             keep(bestCpu);
             Console.WriteLine($"{name}: {bestCpu:F3} ms CPU per file ({bytes.Length / bestCpu / 1e3:F0} MB/s), {bestWall:F3} ms wall");
         }
-        Console.WriteLine($"CsvHelper (TryParse) / TraceKin: {helper / ours:F2}× the CPU time; CsvHelper (Parse<double>) / TraceKin: {helperOwn / ours:F2}×");
+        Console.WriteLine($"CPU time against TraceKin's reader: CsvHelper + double.TryParse {helper / ours:F2}×, CsvHelper + NumberCell {helperCell / ours:F2}×, CsvHelper + Parse<double> {helperOwn / ours:F2}×");
     }
 
     private static double Ours(byte[] bytes)
@@ -66,6 +68,22 @@ static class CsvHelperComparison
         {
             if (!double.TryParse(reader.GetSpan(0), NumberStyles.Float, CultureInfo.InvariantCulture, out var a)
                 || !double.TryParse(reader.GetSpan(1), NumberStyles.Float, CultureInfo.InvariantCulture, out var b))
+                throw new FormatException($"row {reader.RowNumber}");
+            t.Add(a);
+            y.Add(b);
+        }
+        return t[^1] + y[^1] + t.Count;
+    }
+
+    private static double HelperCell(byte[] bytes)
+    {
+        var t = new List<double>(10_000);
+        var y = new List<double>(10_000);
+        using var reader = CsvReader.Create(bytes, Options);
+        while (reader.Read())
+        {
+            if (NumberCell.TryParse(reader.GetSpan(0), (byte)'.', out var a) != NumberStatus.Ok
+                || NumberCell.TryParse(reader.GetSpan(1), (byte)'.', out var b) != NumberStatus.Ok)
                 throw new FormatException($"row {reader.RowNumber}");
             t.Add(a);
             y.Add(b);
