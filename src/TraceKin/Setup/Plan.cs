@@ -230,7 +230,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
     }
 
     /// <summary>Decimal commas when the first cell that looks numeric has a comma and no point (and a point, no comma, says decimal points).</summary>
-    internal static bool LooksDecimalComma(IEnumerable<SetupRecord> rows)
+    private static bool LooksDecimalComma(IEnumerable<SetupRecord> rows)
     {
         foreach (var rec in rows)
             foreach (var cell in rec.Cells)
