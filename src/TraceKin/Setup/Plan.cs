@@ -31,6 +31,10 @@ public sealed record PlanRow(
 
     /// <summary>1-based column number of each parameter column's cell on this row (filled or not), to locate an empty one.</summary>
     public IReadOnlyDictionary<string, int> ConditionCells { get; init; } = new Dictionary<string, int>();
+
+    /// <summary>1-based line number of each parameter column's cell on this row (differs from <see cref="Line"/> only
+    /// after a quoted cell that spans lines).</summary>
+    public IReadOnlyDictionary<string, int> ConditionLines { get; init; } = new Dictionary<string, int>();
 }
 
 /// <summary>One run's value of a conversion parameter read from plan.csv, in internal units, with its cell.</summary>
@@ -172,10 +176,12 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             }
             var cond = new Dictionary<string, PlanCondition>(StringComparer.Ordinal);
             var condCells = new Dictionary<string, int>(StringComparer.Ordinal);
+            var condLines = new Dictionary<string, int>(StringComparer.Ordinal);
             foreach (var (cn, ch, col, unit) in conditions)
             {
                 var cell = rec[col];
                 condCells[cn] = cell.Column;
+                condLines[cn] = cell.Line;
                 if (cell.Trimmed.Length == 0) continue;
                 var v = unit.ToInternal(Number(cell, culture, file));
                 var ok = cn switch
@@ -216,7 +222,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
             rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
             {
-                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells,
+                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
             });
         }
         if (rows.Count == 0)

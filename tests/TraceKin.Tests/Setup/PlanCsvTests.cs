@@ -33,6 +33,16 @@ public class PlanCsvTests
     }
 
     [Fact]
+    public void File_and_parameter_cells_after_a_multi_line_cell_keep_their_own_line()
+    {
+        // Line 3 is `b",r1.csv,`: the file cell starts at character 4 and the empty blank cell at 11.
+        var plan = Plan.FromText("run,note,file,blank\nR1,\"a\nb\",r1.csv,\n", "plan.csv");
+        var row = plan.Rows[0];
+        Assert.Equal((2, 3, 4), (row.Line, row.FileLine, row.FileColumn));
+        Assert.Equal((3, 11), (row.ConditionLines["blank"], row.ConditionCells["blank"]));
+    }
+
+    [Fact]
     public void Cell_after_a_quoted_cell_holding_the_delimiter_is_located_at_its_own_start()
     {
         // `R1,"a, b",x.csv,lots`: the [A]0 cell starts at character 17 (the old line splitter ignored quotes for columns).
