@@ -56,6 +56,7 @@ public static class SeriesRunner
         options.RunSink?.Begin(plan);
         // Rows are handed to the workers one at a time in plan order (not in a block per worker), so runs finish
         // close to plan order and a sink that writes in plan order (RunTables) holds only a few runs back.
+        var sinkFailures = new ConcurrentQueue<Warning>();
         var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
@@ -78,7 +79,12 @@ public static class SeriesRunner
             else
             {
                 options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
-                options.RunSink?.Rejected(row);
+                // A rejected row has no run to carry the sink's failure: it becomes a series warning, never a stop.
+                try { options.RunSink?.Rejected(row); }
+                catch (Exception ex) when (ex is not OperationCanceledException)
+                {
+                    sinkFailures.Enqueue(new Warning("run-output-failed", row.File, $"an output could not note this rejected run ({ex.GetType().Name}: {ex.Message})"));
+                }
             }
             slots[i] = (run, problem, fitTrace);
         });
@@ -87,6 +93,7 @@ public static class SeriesRunner
         var runs = analysed.Select(s => s.Run!).ToList();
         rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
         var warnings = new List<Warning>();
+        warnings.AddRange(sinkFailures.OrderBy(w => w.Where, StringComparer.Ordinal));
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
