@@ -6,6 +6,13 @@ using TraceKin.Traces;
 
 // Ingest benchmark: writes a synthetic export, then times ExportReader.FromFile against File.ReadAllBytes in the same run.
 // Usage: dotnet run -c Release --project bench/TraceKin.Bench.Ingest -- [rows=1000000] [repeats=5] [--memory]
+//        dotnet run -c Release --project bench/TraceKin.Bench.Ingest -- csvhelper [rows=10000] [repeats=7] [reads=300]
+if (args.Length > 0 && args[0] == "csvhelper")
+{
+    CsvHelperComparison.Run(args.Length > 1 ? int.Parse(args[1], CultureInfo.InvariantCulture) : 10_000,
+        args.Length > 2 ? int.Parse(args[2], CultureInfo.InvariantCulture) : 7, args.Length > 3 ? int.Parse(args[3], CultureInfo.InvariantCulture) : 300);
+    return;
+}
 var rows = args.Length > 0 && int.TryParse(args[0], out var r) ? r : 1_000_000;
 var repeats = args.Length > 1 && int.TryParse(args[1], out var k) ? k : 5;
 var memoryOnly = args.Contains("--memory");

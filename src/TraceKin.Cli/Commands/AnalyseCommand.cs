@@ -15,20 +15,23 @@ public static class AnalyseCommand
         var noPlots = new Option<bool>("--no-plots") { Description = "Skip the PNG plots (numbers only)." };
         var workers = new Option<int>("--workers") { Description = "Runs analysed at once (default: number of cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
         var outside = new Option<bool>("--allow-outside-files") { Description = "Also read files that plan.csv or series.toml name outside the series folder (after following links)." };
+        var decimalComma = new Option<bool>("--decimal-comma") { Description = "Write the CSV tables with ';' between cells and decimal commas (for spreadsheets in such locales)." };
         var cmd = new Command("analyse", "Analyse one series folder: initial rates, fits, orders, rate constant, plots.")
         {
-            series, output, noPlots, workers, outside,
+            series, output, noPlots, workers, outside, decimalComma,
         };
-        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers), allowOutsideFiles: pr.GetValue(outside)));
+        cmd.SetAction(pr => Run(pr.GetValue(series)!, pr.GetValue(output)!, !pr.GetValue(noPlots), pr.GetValue(workers), allowOutsideFiles: pr.GetValue(outside),
+            csv: pr.GetValue(decimalComma) ? CsvStyle.DecimalComma : CsvStyle.Standard));
         return cmd;
     }
 
     /// <summary>The files `analyse` writes directly into --out (plots/ holds the pictures).</summary>
-    public static readonly string[] OutputFiles = [SummaryJson.FileName, RunsCsv.FileName, ReportHtml.FileName, LogFile];
+    public static readonly string[] OutputFiles = [SummaryJson.FileName, RunsCsv.FileName, .. RunTables.FileNames, ReportHtml.FileName, LogFile];
 
     public const string LogFile = "tracekin.log";
 
-    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers, TextWriter? error = null, bool allowOutsideFiles = false)
+    public static int Run(DirectoryInfo series, DirectoryInfo output, bool plots, int workers, TextWriter? error = null, bool allowOutsideFiles = false,
+        CsvStyle csv = CsvStyle.Standard)
     {
         error ??= Console.Error;
         if (!series.Exists)
@@ -74,7 +77,7 @@ public static class AnalyseCommand
                     log.Information("TraceKin {Version}: analysing {Series}", SeriesRunner.ToolVersion, series.FullName);
                     if (removed > 0)
                         log.Information("removed {Count} file(s) of an earlier analysis from {Out} (summary, tables, report, log and plots are replaced as a whole)", removed, outDir);
-                    (result, failures) = Analyse(series.FullName, outDir, plots, workers, log, allowOutsideFiles);
+                    (result, failures) = Analyse(series.FullName, outDir, plots, workers, log, allowOutsideFiles, csv);
                 }
                 if (failures > 0)
                 {
@@ -133,18 +136,21 @@ public static class AnalyseCommand
     }
 
     /// <summary>Analyses and writes every output; returns the result and how many output files could not be written.</summary>
-    public static (SeriesResult Result, int Failures) Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false)
+    public static (SeriesResult Result, int Failures) Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false,
+        CsvStyle csv = CsvStyle.Standard)
     {
         var failures = 0;
         // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
         using var plotFiles = new OutputQueue();
         var progress = new BatchProgress(log);
         using var runPlot = plots ? new RunPlot(outDir, plotFiles) : null;
+        // The per-run tables are written as the runs finish and renamed into place with the other numbers.
+        using var tables = new RunTables(outDir, csv);
         var options = new AnalysisOptions
         {
             AllowOutsideFiles = allowOutsideFiles,
             Workers = workers,
-            RunSink = runPlot,
+            RunSink = RunSinks.Combine(runPlot, tables),
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
             Progress = progress.Report,
@@ -162,7 +168,7 @@ public static class AnalyseCommand
                 log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
             }
         }
-        var writers = ReportSet.SeriesWriters(plots);
+        var writers = ReportSet.SeriesWriters(plots, csv, tables);
         var isPlot = ReportSet.DrawsPlot;
         // Numbers first, in the background; the plots side by side; the report once every plot file is on disk.
         var numbers = writers.Where(w => w is not ReportHtml && !isPlot(w)).Select(w => Task.Run(() => Write(w))).ToArray();

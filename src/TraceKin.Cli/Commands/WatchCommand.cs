@@ -22,10 +22,11 @@ public static class WatchCommand
         var jobs = new Option<int>("--jobs") { Description = "Series analysed at once (default 2).", DefaultValueFactory = _ => 2 };
         var workers = new Option<int>("--workers") { Description = "Runs of one series analysed at once (default: number of cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
         var noPlots = new Option<bool>("--no-plots") { Description = "Skip the PNG plots (numbers only)." };
+        var decimalComma = new Option<bool>("--decimal-comma") { Description = "Write the CSV tables with ';' between cells and decimal commas (for spreadsheets in such locales)." };
         var verbose = new Option<bool>("--verbose") { Description = "Log each run's progress to the log file." };
         var cmd = new Command("watch", "Watch an inbox of series folders: analyse each export once it has settled, re-analyse on change, never lose or repeat work.")
         {
-            inbox, output, once, settle, rescan, jobs, workers, noPlots, verbose,
+            inbox, output, once, settle, rescan, jobs, workers, noPlots, decimalComma, verbose,
         };
         cmd.SetAction(pr =>
         {
@@ -44,6 +45,7 @@ public static class WatchCommand
                 Jobs = pr.GetValue(jobs),
                 Workers = pr.GetValue(workers),
                 Plots = !pr.GetValue(noPlots),
+                Csv = pr.GetValue(decimalComma) ? TraceKin.Reports.CsvStyle.DecimalComma : TraceKin.Reports.CsvStyle.Standard,
             };
             return Run(options, pr.GetValue(verbose));
         });

@@ -282,10 +282,12 @@ public sealed class SeriesWatch
             RemoveOrphanTemporaries();
             _cleaned = true;
         }
+        // The per-run tables are streamed as the runs finish and renamed into place with the other outputs.
+        using var tables = new RunTables(_outDir, _options.Csv, root: _options.Out);
         var options = new AnalysisOptions
         {
             Workers = Math.Max(1, _options.Workers),
-            RunSink = plots,
+            RunSink = RunSinks.Combine(plots, tables),
             Progress = (run, status) => _log.Debug("{Series} {Run}: {Status}", Name, run, status),
         };
         var clock = System.Diagnostics.Stopwatch.StartNew();
@@ -307,7 +309,7 @@ public sealed class SeriesWatch
         };
 
         var failures = plots?.Failures ?? 0;
-        foreach (var writer in ReportSet.SeriesWriters(_options.Plots))
+        foreach (var writer in ReportSet.SeriesWriters(_options.Plots, _options.Csv, tables))
         {
             try { writer.Write(result, _outDir); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)

@@ -14,6 +14,8 @@ public sealed record WatchOptions
     /// <summary>Runs of one series analysed at once.</summary>
     public int Workers { get; init; } = Environment.ProcessorCount;
     public bool Plots { get; init; } = true;
+    /// <summary>How the CSV tables separate cells and write decimals.</summary>
+    public TraceKin.Reports.CsvStyle Csv { get; init; } = TraceKin.Reports.CsvStyle.Standard;
     /// <summary>Process what is in the inbox, then stop.</summary>
     public bool Once { get; init; }
 }

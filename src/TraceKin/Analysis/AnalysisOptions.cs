@@ -9,6 +9,10 @@ public interface IRunSink
     void Begin(Plan plan) { }
 
     void Accept(RunResult run);
+
+    /// <summary>Called instead of <see cref="Accept"/> for a plan row whose run was rejected (so a sink that keeps
+    /// plan order knows the row is done).</summary>
+    void Rejected(PlanRow row) { }
 }
 
 /// <summary>How a series is analysed. Results never depend on <see cref="Workers"/>.</summary>

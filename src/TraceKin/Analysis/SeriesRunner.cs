@@ -1,3 +1,4 @@
+using System.Collections.Concurrent;
 using System.Reflection;
 using System.Security.Cryptography;
 using TraceKin.Ingest;
@@ -53,7 +54,11 @@ public static class SeriesRunner
         options.Planned?.Invoke(plan.Rows.Count);
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         options.RunSink?.Begin(plan);
-        Parallel.For(0, plan.Rows.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
+        // Rows are handed to the workers one at a time in plan order (not in a block per worker), so runs finish
+        // close to plan order and a sink that writes in plan order (RunTables) holds only a few runs back.
+        var sinkFailures = new ConcurrentQueue<Warning>();
+        var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
+        Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
             var (run, problem) = AnalyseRun(folder, row, config, options.AllowOutsideFiles);
@@ -71,7 +76,16 @@ public static class SeriesRunner
                     run = options.Retention == TraceRetention.None ? RunThinning.Strip(run) : RunThinning.Thin(run, options.RetainedColumns);
                 }
             }
-            else options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
+            else
+            {
+                options.Progress?.Invoke(row.Run, $"rejected: {problem!.Message}");
+                // A rejected row has no run to carry the sink's failure: it becomes a series warning, never a stop.
+                try { options.RunSink?.Rejected(row); }
+                catch (Exception ex) when (ex is not OperationCanceledException)
+                {
+                    sinkFailures.Enqueue(new Warning("run-output-failed", row.File, $"an output could not note this rejected run ({ex.GetType().Name}: {ex.Message})"));
+                }
+            }
             slots[i] = (run, problem, fitTrace);
         });
 
@@ -79,6 +93,7 @@ public static class SeriesRunner
         var runs = analysed.Select(s => s.Run!).ToList();
         rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
         var warnings = new List<Warning>();
+        warnings.AddRange(sinkFailures.OrderBy(w => w.Where, StringComparer.Ordinal));
         foreach (var unused in UnplannedExports(folder, plan))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
@@ -196,7 +211,7 @@ public static class SeriesRunner
 
     /// <summary>A problem with the file a plan row names, located at that row's file cell in plan.csv.</summary>
     private static Problem AtFileCell(PlanRow row, string found, string expected, string hint) =>
-        new(PlanFile, row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
+        new(PlanFile, row.FileLine > 0 ? row.FileLine : row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
 
     /// <summary>plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).</summary>
     private static string ReadSetup(string folder, string name, AnalysisOptions options)

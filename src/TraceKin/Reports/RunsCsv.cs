@@ -1,53 +1,48 @@
-using System.Globalization;
-using System.Text;
 using TraceKin.Analysis;
 
 namespace TraceKin.Reports;
 
 /// <summary>
-/// runs.csv: one row per analysed run, comma-separated, decimal point, RFC 4180 quoting. Text cells that a spreadsheet
-/// would run as a formula (starting with = + - @, tab or CR) are prefixed with an apostrophe (OWASP, "CSV Injection");
-/// numeric cells are plain numbers written by TraceKin itself.
+/// runs.csv: one row per analysed run, written with <see cref="CsvTable"/> (CsvHelper): comma-separated, decimal
+/// point, RFC 4180 quoting, or semicolons and decimal commas in <see cref="CsvStyle.DecimalComma"/>. Text cells that
+/// a spreadsheet would run as a formula are prefixed with an apostrophe; numeric cells are plain round-trip numbers.
 /// </summary>
-public sealed class RunsCsv : ISeriesReportWriter
+public sealed class RunsCsv(CsvStyle style = CsvStyle.Standard) : ISeriesReportWriter
 {
     public const string FileName = "runs.csv";
 
     public void Write(SeriesResult result, string outDir) =>
-        AtomicFile.WriteAllText(Path.Combine(outDir, FileName), ToText(result), root: outDir);
+        AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s, style), root: outDir);
 
-    public static string ToText(SeriesResult r)
+    public static string ToText(SeriesResult r, CsvStyle style = CsvStyle.Standard)
     {
-        var ci = CultureInfo.InvariantCulture;
+        using var ms = new MemoryStream();
+        WriteTo(r, ms, style);
+        return new System.Text.UTF8Encoding(false).GetString(ms.ToArray());
+    }
+
+    public static void WriteTo(SeriesResult r, Stream stream, CsvStyle style = CsvStyle.Standard)
+    {
         var species = r.Plan?.Species ?? [];
         var extra = r.Plan?.Rows.SelectMany(x => x.Extra.Keys).Distinct().ToList() ?? [];
-        var sb = new StringBuilder();
+        using var csv = new CsvTable(stream, style, leaveOpen: true);
         var header = new List<string> { "run", "file", "temperature (K)" };
         header.AddRange(species.Select(s => $"[{s}]0 (mol/L)"));
         header.AddRange(extra);
         header.AddRange(["initial rate (mol/(L·s))", "std error (mol/(L·s))", "dof", "method", "window start (s)", "window end (s)", "k per run", "k per run std error", "warnings"]);
-        sb.AppendLine(string.Join(",", header.Select(Text)));
+        foreach (var h in header) csv.Text(h);
+        csv.EndRow();
         var perRunK = r.Findings?.PerRunK.ToDictionary(k => k.RunId) ?? [];
         foreach (var run in r.Runs)
         {
-            var cells = new List<string> { Text(run.Id), Text(run.File), Num(run.Plan.TemperatureK) };
-            cells.AddRange(species.Select(s => Num(run.Plan.InitialConcentrations.TryGetValue(s, out var c) ? c : null)));
-            cells.AddRange(extra.Select(e => Text(run.Plan.Extra.GetValueOrDefault(e, ""))));
+            csv.Text(run.Id).Text(run.File).Number(run.Plan.TemperatureK);
+            foreach (var s in species) csv.Number(run.Plan.InitialConcentrations.TryGetValue(s, out var c) ? c : null);
+            foreach (var e in extra) csv.Text(run.Plan.Extra.GetValueOrDefault(e, ""));
             var h = run.Rates.Headline;
             var k = perRunK.GetValueOrDefault(run.Id);
-            cells.AddRange([Num(h.Value), Num(h.StdError), h.Dof.ToString(ci), Text(h.Method), Num(h.WindowStart), Num(h.WindowEnd),
-                Num(k?.Value), Num(k?.StdError), Text(string.Join("; ", run.Warnings.Select(w => w.Message)))]);
-            sb.AppendLine(string.Join(",", cells));
+            csv.Number(h.Value).Number(h.StdError).Integer(h.Dof).Text(h.Method).Number(h.WindowStart).Number(h.WindowEnd)
+                .Number(k?.Value).Number(k?.StdError).Text(string.Join("; ", run.Warnings.Select(w => w.Message)));
+            csv.EndRow();
         }
-        return sb.ToString();
-    }
-
-    private static string Num(double? v) => v is { } d && double.IsFinite(d) ? d.ToString("R", CultureInfo.InvariantCulture) : "";
-
-    /// <summary>A text cell: neutralised against formula injection, then quoted when it holds a comma, quote or line break.</summary>
-    public static string Text(string s)
-    {
-        if (s.Length > 0 && s[0] is '=' or '+' or '-' or '@' or '\t' or '\r') s = "'" + s;
-        return s.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + s.Replace("\"", "\"\"") + "\"" : s;
     }
 }

@@ -16,6 +16,10 @@ public sealed record PlanRow(
     /// <summary>1-based column number where the row's file cell starts (for messages about the file it names).</summary>
     public int FileColumn { get; init; } = 1;
 
+    /// <summary>1-based line number where the row's file cell starts (0: the row's <see cref="Line"/>; they differ
+    /// only when a quoted cell before it spans lines).</summary>
+    public int FileLine { get; init; }
+
     /// <summary>
     /// The run's own conversion parameters from plan.csv columns (see <see cref="Plan.ConditionNames"/>), keyed by the
     /// series.toml key they override, in internal units (Pa, AU, cm, L, K).
@@ -27,6 +31,10 @@ public sealed record PlanRow(
 
     /// <summary>1-based column number of each parameter column's cell on this row (filled or not), to locate an empty one.</summary>
     public IReadOnlyDictionary<string, int> ConditionCells { get; init; } = new Dictionary<string, int>();
+
+    /// <summary>1-based line number of each parameter column's cell on this row (differs from <see cref="Line"/> only
+    /// after a quoted cell that spans lines).</summary>
+    public IReadOnlyDictionary<string, int> ConditionLines { get; init; } = new Dictionary<string, int>();
 }
 
 /// <summary>One run's value of a conversion parameter read from plan.csv, in internal units, with its cell.</summary>
@@ -42,6 +50,7 @@ public sealed record PlanColumn(string Header, int Column);
 /// <summary>
 /// plan.csv: the series' run table. Columns `run`, `file`, `temperature (unit)` and one `[X]0 (unit)` per species;
 /// other columns are kept as text. Comma or semicolon delimited; decimal point, or decimal comma with semicolons.
+/// Read with <see cref="SetupTable"/> (CsvHelper): quoted cells, a byte order mark, # comments.
 /// </summary>
 public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IReadOnlyList<string> Species)
 {
@@ -77,13 +86,12 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
 
     public static Plan FromText(string text, string file)
     {
-        var lines = text.Replace("\r\n", "\n").Replace('\r', '\n').Split('\n');
-        var headerIndex = Array.FindIndex(lines, l => l.Trim().Length > 0 && !l.TrimStart().StartsWith('#'));
-        if (headerIndex < 0)
-            throw Fail.At(file, 1, 1, "an empty file", "a header line: run,file,temperature (°C),[A]0 (mmol/L)", "see docs/formats.md");
-        var headerLine = lines[headerIndex].TrimStart('\uFEFF');
-        var delimiter = headerLine.Contains(';') ? ';' : headerLine.Contains('\t') ? '\t' : ',';
-        var header = Split(headerLine, delimiter);
+        var table = SetupTable.FromText(text, file)
+            ?? throw Fail.At(file, 1, 1, "an empty file", "a header line: run,file,temperature (°C),[A]0 (mmol/L)", "see docs/formats.md");
+        var delimiter = table.Delimiter;
+        var head = table.Header;
+        var header = head.Cells.Select(c => c.Text).ToArray();
+        var headerText = string.Join(delimiter, header);
 
         int runCol = -1, fileCol = -1, tempCol = -1;
         UnitInfo? tempUnit = null;
@@ -93,17 +101,17 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         for (var c = 0; c < header.Length; c++)
         {
             var h = header[c].Trim();
+            var (hl, at) = (head[c].Line, head[c].Column);
             var sm = SpeciesHeader().Match(h);
             if (sm.Success)
             {
                 var unitText = sm.Groups["unit"].Success ? sm.Groups["unit"].Value : "";
-                var at = Col(headerLine, delimiter, c);
                 if (unitText.Length == 0)
-                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), "a concentration or pressure unit in the header, e.g. \"[A]0 (mmol/L)\" or \"[A]0 (kPa)\"");
+                    throw Fail.At(file, hl, at, Fail.Quote(h), "a concentration or pressure unit in the header, e.g. \"[A]0 (mmol/L)\" or \"[A]0 (kPa)\"");
                 // A gas-phase series may be planned in partial pressures: [X]0 = p/(R·T) with the run's temperature.
                 var su = Units.Find(unitText);
                 if (su is not { Quantity: Quantity.Concentration or Quantity.Pressure })
-                    throw Fail.At(file, headerIndex + 1, at, $"unit {Fail.Quote(unitText)}",
+                    throw Fail.At(file, hl, at, $"unit {Fail.Quote(unitText)}",
                         $"a concentration unit ({string.Join(", ", Units.Examples(Quantity.Concentration))}) or a partial pressure unit ({string.Join(", ", Units.Examples(Quantity.Pressure))})",
                         "e.g. \"[A]0 (mmol/L)\", or \"[A]0 (kPa)\" for a gas converted with the run's temperature");
                 species.Add((sm.Groups["sp"].Value.Trim(), c, su));
@@ -115,12 +123,11 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             if (ConditionNames.TryGetValue(conditionName, out var cq))
             {
                 var u = um.Groups["unit"].Success ? um.Groups["unit"].Value.Trim() : "";
-                var at = Col(headerLine, delimiter, c);
                 if (conditions.Any(x => x.Name == conditionName))
-                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), $"one column \"{conditionName}\" only");
+                    throw Fail.At(file, hl, at, Fail.Quote(h), $"one column \"{conditionName}\" only");
                 if (u.Length == 0 && cq != Quantity.Absorbance)
-                    throw Fail.At(file, headerIndex + 1, at, Fail.Quote(h), $"a {Units.Describe(cq)} unit in the header, e.g. \"{conditionName} ({Units.Examples(cq).First()})\"");
-                conditions.Add((conditionName, h, c, Units.Require(u, cq, file, headerIndex + 1, at)));
+                    throw Fail.At(file, hl, at, Fail.Quote(h), $"a {Units.Describe(cq)} unit in the header, e.g. \"{conditionName} ({Units.Examples(cq).First()})\"");
+                conditions.Add((conditionName, h, c, Units.Require(u, cq, file, hl, at)));
                 continue;
             }
             switch (name)
@@ -131,49 +138,52 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                     tempCol = c;
                     var u = um.Groups["unit"].Success ? um.Groups["unit"].Value : "";
                     if (u.Length == 0)
-                        throw Fail.At(file, headerIndex + 1, Col(headerLine, delimiter, c), Fail.Quote(h), "a temperature unit in the header, e.g. \"temperature (°C)\" or \"temperature (K)\"");
-                    tempUnit = Units.Require(u, Quantity.Temperature, file, headerIndex + 1, Col(headerLine, delimiter, c));
+                        throw Fail.At(file, hl, at, Fail.Quote(h), "a temperature unit in the header, e.g. \"temperature (°C)\" or \"temperature (K)\"");
+                    tempUnit = Units.Require(u, Quantity.Temperature, file, hl, at);
                     break;
                 default: extra.Add((h, c)); break;
             }
         }
-        if (runCol < 0) throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine), "a column named \"run\"");
-        if (fileCol < 0) throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine), "a column named \"file\"");
+        if (runCol < 0) throw Fail.At(file, head.Line, 1, Fail.Quote(headerText), "a column named \"run\"");
+        if (fileCol < 0) throw Fail.At(file, head.Line, 1, Fail.Quote(headerText), "a column named \"file\"");
 
         // A semicolon-delimited plan may use decimal commas; a comma-delimited one cannot.
-        var culture = delimiter == ';' && LooksDecimalComma(lines, headerIndex + 1, delimiter) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
+        var culture = delimiter == ';' && LooksDecimalComma(table.Rows) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
         var rows = new List<PlanRow>();
         var seenRuns = new Dictionary<string, int>(StringComparer.Ordinal);
-        for (var i = headerIndex + 1; i < lines.Length; i++)
+        foreach (var rec in table.Rows)
         {
-            var line = lines[i];
-            if (line.Trim().Length == 0 || line.TrimStart().StartsWith('#')) continue;
-            var cells = Split(line, delimiter);
-            if (cells.Length != header.Length)
-                throw Fail.At(file, i + 1, Col(line, delimiter, Math.Min(cells.Length, header.Length)), $"{cells.Length} cells", $"{header.Length} cells, as in the header", "check for a missing or extra delimiter");
-            var run = cells[runCol].Trim();
-            if (run.Length == 0) throw Fail.At(file, i + 1, Col(line, delimiter, runCol), "an empty run id", "a run id");
-            if (seenRuns.TryGetValue(run, out var firstLine))
-                throw Fail.At(file, i + 1, Col(line, delimiter, runCol), $"run id {Fail.Quote(run)} again (first on line {firstLine})", "a unique run id per row");
-            seenRuns[run] = i + 1;
-            var fileName = cells[fileCol].Trim();
-            if (fileName.Length == 0) throw Fail.At(file, i + 1, Col(line, delimiter, fileCol), "an empty file name", "the export's file name");
-            double? temp = null;
-            if (tempCol >= 0 && cells[tempCol].Trim().Length > 0)
+            if (rec.Count != header.Length)
             {
-                var t = tempUnit!.ToInternal(Number(cells[tempCol], culture, file, i + 1, Col(line, delimiter, tempCol)));
+                var (ml, mc) = rec.At(Math.Min(rec.Count, header.Length));
+                throw Fail.At(file, ml, mc, $"{rec.Count} cells", $"{header.Length} cells, as in the header", "check for a missing or extra delimiter");
+            }
+            var run = rec[runCol].Trimmed;
+            if (run.Length == 0) throw Fail.At(file, rec[runCol].Line, rec[runCol].Column, "an empty run id", "a run id");
+            if (seenRuns.TryGetValue(run, out var firstLine))
+                throw Fail.At(file, rec[runCol].Line, rec[runCol].Column, $"run id {Fail.Quote(run)} again (first on line {firstLine})", "a unique run id per row");
+            seenRuns[run] = rec.Line;
+            var fileName = rec[fileCol].Trimmed;
+            if (fileName.Length == 0) throw Fail.At(file, rec[fileCol].Line, rec[fileCol].Column, "an empty file name", "the export's file name");
+            double? temp = null;
+            if (tempCol >= 0 && rec[tempCol].Trimmed.Length > 0)
+            {
+                var cell = rec[tempCol];
+                var t = tempUnit!.ToInternal(Number(cell, culture, file));
                 if (!(t > 0 && t < 1000))
-                    throw Fail.At(file, i + 1, Col(line, delimiter, tempCol), Fail.Quote(cells[tempCol]), "a temperature between 0 K and 1000 K");
+                    throw Fail.At(file, cell.Line, cell.Column, Fail.Quote(cell.Text), "a temperature between 0 K and 1000 K");
                 temp = t;
             }
             var cond = new Dictionary<string, PlanCondition>(StringComparer.Ordinal);
             var condCells = new Dictionary<string, int>(StringComparer.Ordinal);
+            var condLines = new Dictionary<string, int>(StringComparer.Ordinal);
             foreach (var (cn, ch, col, unit) in conditions)
             {
-                var at = Col(line, delimiter, col);
-                condCells[cn] = at;
-                if (cells[col].Trim().Length == 0) continue;
-                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, at));
+                var cell = rec[col];
+                condCells[cn] = cell.Column;
+                condLines[cn] = cell.Line;
+                if (cell.Trimmed.Length == 0) continue;
+                var v = unit.ToInternal(Number(cell, culture, file));
                 var ok = cn switch
                 {
                     "blank" => true,
@@ -182,98 +192,67 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                     _ => v > 0,
                 };
                 if (!ok)
-                    throw Fail.At(file, i + 1, at, Fail.Quote(cells[col].Trim()), cn switch
+                    throw Fail.At(file, cell.Line, cell.Column, Fail.Quote(cell.Trimmed), cn switch
                     {
                         "zero_offset" => "a volume ≥ 0",
                         "gas_temperature" => "a temperature between 0 K and 1000 K",
                         _ => $"a positive {Units.Describe(ConditionNames[cn])}",
                     });
-                cond[cn] = new PlanCondition(v, ch, i + 1, at);
+                cond[cn] = new PlanCondition(v, ch, cell.Line, cell.Column);
             }
             var conc = new Dictionary<string, double>(StringComparer.Ordinal);
             var pressures = new Dictionary<string, double>(StringComparer.Ordinal);
             foreach (var (sp, col, unit) in species)
             {
-                if (cells[col].Trim().Length == 0) continue;
-                var at = Col(line, delimiter, col);
-                var v = unit.ToInternal(Number(cells[col], culture, file, i + 1, at));
-                if (v < 0) throw Fail.At(file, i + 1, at, Fail.Quote(cells[col]), unit.Quantity == Quantity.Pressure ? "a partial pressure ≥ 0" : "a concentration ≥ 0");
+                var cell = rec[col];
+                if (cell.Trimmed.Length == 0) continue;
+                var v = unit.ToInternal(Number(cell, culture, file));
+                if (v < 0) throw Fail.At(file, cell.Line, cell.Column, Fail.Quote(cell.Text), unit.Quantity == Quantity.Pressure ? "a partial pressure ≥ 0" : "a concentration ≥ 0");
                 if (unit.Quantity == Quantity.Pressure)
                 {
                     // Perfect-gas equation c = n/V = p/(R·T) (IUPAC Green Book, 3rd ed., §2.11, from memory); /1000 for mol/L.
                     var tGas = cond.TryGetValue("gas_temperature", out var gt) ? gt.Value : temp
-                        ?? throw Fail.At(file, i + 1, at, Fail.Quote(cells[col].Trim()) + " (a partial pressure)",
+                        ?? throw Fail.At(file, cell.Line, cell.Column, Fail.Quote(cell.Trimmed) + " (a partial pressure)",
                             "a temperature for this run to turn the pressure into a concentration", "fill the row's \"temperature (°C)\" or \"gas_temperature (°C)\" cell");
                     pressures[sp] = v;
                     v = v / (PhysicalConstants.GasConstant * tGas) / 1000;
                 }
                 conc[sp] = v;
             }
-            var ex = extra.ToDictionary(e => e.Name, e => cells[e.Col].Trim(), StringComparer.Ordinal);
-            rows.Add(new PlanRow(run, fileName, temp, conc, ex, i + 1) { FileColumn = Col(line, delimiter, fileCol), Conditions = cond, InitialPressures = pressures, ConditionCells = condCells });
+            var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
+            rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
+            {
+                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
+            });
         }
         if (rows.Count == 0)
-            throw Fail.At(file, headerIndex + 2, 1, "no run rows", "one row per run under the header");
+            throw Fail.At(file, head.EndLine + 1, 1, "no run rows", "one row per run under the header");
         return new Plan(file, rows, species.Select(s => s.Name).ToArray())
         {
-            HeaderLine = headerIndex + 1,
-            SpeciesColumns = species.ToDictionary(s => s.Name, s => new PlanColumn(header[s.Col].Trim(), Col(headerLine, delimiter, s.Col)), StringComparer.Ordinal),
-            ConditionColumns = conditions.ToDictionary(c => c.Name, c => new PlanColumn(c.Header, Col(headerLine, delimiter, c.Col)), StringComparer.Ordinal),
+            HeaderLine = head.Line,
+            SpeciesColumns = species.ToDictionary(s => s.Name, s => new PlanColumn(header[s.Col].Trim(), head[s.Col].Column), StringComparer.Ordinal),
+            ConditionColumns = conditions.ToDictionary(c => c.Name, c => new PlanColumn(c.Header, head[c.Col].Column), StringComparer.Ordinal),
         };
     }
 
-    private static bool LooksDecimalComma(string[] lines, int from, char delimiter)
+    /// <summary>Decimal commas when the first cell that looks numeric has a comma and no point (and a point, no comma, says decimal points).</summary>
+    private static bool LooksDecimalComma(IEnumerable<SetupRecord> rows)
     {
-        for (var i = from; i < lines.Length; i++)
-            foreach (var cell in Split(lines[i], delimiter))
+        foreach (var rec in rows)
+            foreach (var cell in rec.Cells)
             {
-                var t = cell.Trim();
+                var t = cell.Trimmed;
                 if (t.Length > 0 && (char.IsDigit(t[0]) || t[0] == '-') && t.Contains(',') && !t.Contains('.')) return true;
                 if (t.Length > 0 && char.IsDigit(t[0]) && t.Contains('.') && !t.Contains(',')) return false;
             }
         return false;
     }
 
-    /// <summary>1-based character position where cell <paramref name="index"/> starts (quotes ignored: plan cells rarely hold delimiters).</summary>
-    internal static int Col(string line, char delimiter, int index)
+    /// <summary>A number cell, parsed here with the plan's culture (never by the CSV reader, whose parser accepts group separators).</summary>
+    internal static double Number(SetupCell cell, CultureInfo culture, string file)
     {
-        var pos = 0;
-        for (var k = 0; k < index; k++)
-        {
-            var next = line.IndexOf(delimiter, pos);
-            if (next < 0) return line.Length + 1;
-            pos = next + 1;
-        }
-        return pos + 1;
-    }
-
-    private static double Number(string cell, CultureInfo culture, string file, int line, int col)
-    {
-        var t = cell.Trim();
+        var t = cell.Trimmed;
         if (double.TryParse(t, NumberStyles.Float, culture, out var v) && double.IsFinite(v)) return v;
-        throw Fail.At(file, line, col, Fail.Quote(t), culture == CultureInfo.InvariantCulture ? "a number with a decimal point" : "a number with a decimal comma");
-    }
-
-    /// <summary>Split one line on the delimiter, honouring double quotes ("" inside quotes is a quote).</summary>
-    internal static string[] Split(string line, char delimiter)
-    {
-        var cells = new List<string>();
-        var sb = new System.Text.StringBuilder();
-        var quoted = false;
-        for (var i = 0; i < line.Length; i++)
-        {
-            var ch = line[i];
-            if (quoted)
-            {
-                if (ch == '"' && i + 1 < line.Length && line[i + 1] == '"') { sb.Append('"'); i++; }
-                else if (ch == '"') quoted = false;
-                else sb.Append(ch);
-            }
-            else if (ch == '"') quoted = true;
-            else if (ch == delimiter) { cells.Add(sb.ToString()); sb.Clear(); }
-            else sb.Append(ch);
-        }
-        cells.Add(sb.ToString());
-        return cells.ToArray();
+        throw Fail.At(file, cell.Line, cell.Column, Fail.Quote(t), culture.Equals(CultureInfo.InvariantCulture) ? "a number with a decimal point" : "a number with a decimal comma");
     }
 }

@@ -59,6 +59,6 @@ public static class SeriesCheck
             throw Fail.Setting(config.File, $"signal.{name}", "nothing", $"{what}: signal.{name} in series.toml or a column \"{name} ({unit})\" in {plan.File}");
         foreach (var row in plan.Rows)
             if (!row.Conditions.ContainsKey(name))
-                throw Fail.At(plan.File, row.Line, row.ConditionCells.GetValueOrDefault(name, column.Column), "an empty cell", $"{what} for run {Fail.Quote(row.Run)}, since series.toml sets no signal.{name}");
+                throw Fail.At(plan.File, row.ConditionLines.GetValueOrDefault(name, row.Line), row.ConditionCells.GetValueOrDefault(name, column.Column), "an empty cell", $"{what} for run {Fail.Quote(row.Run)}, since series.toml sets no signal.{name}");
     }
 }

@@ -1,4 +1,5 @@
 using System.Globalization;
+using TraceKin.Setup;
 using TraceKin.Traces;
 
 namespace TraceKin.Signal;
@@ -26,19 +27,17 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
     /// </summary>
     public static CalibrationStandards FromCsvText(string text, string file, string species, IReadOnlyList<(string Species, double Coefficient)> others)
     {
-        var lines = text.Replace("\r\n", "\n").Replace('\r', '\n').Split('\n');
-        var headerIndex = Array.FindIndex(lines, l => l.Trim().Length > 0 && !l.TrimStart().StartsWith('#'));
-        if (headerIndex < 0)
-            throw Fail.At(file, 1, 1, "an empty file", $"a header line such as: signal,[{species}] (mmol/L)");
-        var headerLine = lines[headerIndex].TrimStart('\uFEFF');
-        var delimiter = headerLine.Contains(';') ? ';' : headerLine.Contains('\t') ? '\t' : ',';
-        var header = Setup.Plan.Split(headerLine, delimiter).Select(h => h.Trim()).ToArray();
+        var table = SetupTable.FromText(text, file)
+            ?? throw Fail.At(file, 1, 1, "an empty file", $"a header line such as: signal,[{species}] (mmol/L)");
+        var header = table.Header.Cells.Select(h => h.Trimmed).ToArray();
+        var headerLine = string.Join(table.Delimiter, header);
+        var headerIndex = table.Header.Line - 1;
         // 1-based character position where header cell c starts.
-        int HeaderAt(int c) => Setup.Plan.Col(headerLine, delimiter, c);
+        int HeaderAt(int c) => table.Header[c].Column;
         var signalCol = Array.FindIndex(header, h => h.StartsWith("signal", StringComparison.OrdinalIgnoreCase));
         var concentrationCol = Array.FindIndex(header, h => h.StartsWith("concentration", StringComparison.OrdinalIgnoreCase));
         if (signalCol < 0 && concentrationCol >= 0)
-            return FromWideCsv(lines, headerIndex, headerLine, delimiter, header, concentrationCol, file, species, others);
+            return FromWideCsv(table, header, concentrationCol, file, species, others);
         if (signalCol < 0)
             throw Fail.At(file, headerIndex + 1, 1, Fail.Quote(headerLine),
                 "a column whose header starts with \"signal\" (one signal per standard), or one \"concentration (unit)\" column with a signal column per species",
@@ -78,16 +77,16 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
                 "a known signal unit in the header, e.g. \"signal (mS/cm)\", \"signal (AU)\" or \"signal (kPa)\", or plain \"signal\" for the unit of the export's channel");
         var main = Column(species);
         var otherCols = others.Select(o => Column(o.Species)).ToArray();
-        var culture = delimiter == ';' && lines.Skip(headerIndex + 1).Any(l => l.Contains(',')) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
+        var culture = CultureOf(table);
         var signals = new List<double>();
         var conc = new List<double>();
         var otherConc = others.Select(_ => new List<double>()).ToArray();
-        foreach (var (i, cells) in DataRows(lines, headerIndex, delimiter, header.Length, file))
+        foreach (var cells in DataRows(table, file))
         {
-            signals.Add(Number(cells[signalCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, signalCol)));
-            conc.Add(main.Unit.ToInternal(Number(cells[main.Col], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, main.Col))));
+            signals.Add(Setup.Plan.Number(cells[signalCol], culture, file));
+            conc.Add(main.Unit.ToInternal(Setup.Plan.Number(cells[main.Col], culture, file)));
             for (var k = 0; k < otherCols.Length; k++)
-                otherConc[k].Add(otherCols[k].Unit.ToInternal(Number(cells[otherCols[k].Col], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, otherCols[k].Col))));
+                otherConc[k].Add(otherCols[k].Unit.ToInternal(Setup.Plan.Number(cells[otherCols[k].Col], culture, file)));
         }
         return new CalibrationStandards(signals.ToArray(), conc.ToArray(),
             others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = signalUnit };
@@ -99,11 +98,11 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
     /// standard of that species alone at that concentration. Read as one standard per species and row, the others at
     /// zero, so the multi-species calibration learns each species' response from its own standards.
     /// </summary>
-    private static CalibrationStandards FromWideCsv(string[] lines, int headerIndex, string headerLine, char delimiter, string[] header, int concentrationCol,
+    private static CalibrationStandards FromWideCsv(SetupTable table, string[] header, int concentrationCol,
         string file, string species, IReadOnlyList<(string Species, double Coefficient)> others)
     {
-        int HeaderAt(int c) => Setup.Plan.Col(headerLine, delimiter, c);
-        var line = headerIndex + 1;
+        int HeaderAt(int c) => table.Header[c].Column;
+        var line = table.Header.Line;
         var concHeader = header[concentrationCol];
         var concUnitText = concHeader["concentration".Length..].Trim().Trim('(', ')', '[', ']', ' ');
         if (concUnitText.Length == 0)
@@ -145,16 +144,16 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
                 throw Fail.At(file, line, HeaderAt(cols[k]), $"signals in {u.Symbol} ({Units.Describe(u.Quantity)})",
                     $"the quantity of column {HeaderAt(cols[0])}, in {unit.Symbol} ({Units.Describe(unit.Quantity)})");
         }
-        var culture = delimiter == ';' && lines.Skip(headerIndex + 1).Any(l => l.Contains(',')) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
+        var culture = CultureOf(table);
         var signals = new List<double>();
         var conc = new List<double>();
         var otherConc = others.Select(_ => new List<double>()).ToArray();
-        foreach (var (i, cells) in DataRows(lines, headerIndex, delimiter, header.Length, file))
+        foreach (var cells in DataRows(table, file))
         {
-            var c = concUnit.ToInternal(Number(cells[concentrationCol], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, concentrationCol)));
+            var c = concUnit.ToInternal(Setup.Plan.Number(cells[concentrationCol], culture, file));
             for (var k = 0; k < names.Length; k++)
             {
-                var v = Number(cells[cols[k]], culture, file, i + 1, Setup.Plan.Col(lines[i], delimiter, cols[k]));
+                var v = Setup.Plan.Number(cells[cols[k]], culture, file);
                 signals.Add(units[k] is { } uk ? unit!.FromInternal(uk.ToInternal(v)) : v);
                 conc.Add(k == 0 ? c : 0);
                 for (var o = 0; o < others.Count; o++) otherConc[o].Add(k == o + 1 ? c : 0);
@@ -196,24 +195,23 @@ public sealed record CalibrationStandards(double[] Signals, double[] Concentrati
             others.Select((o, k) => new CalibrationOther(o.Species, o.Coefficient, otherConc[k].ToArray())).ToArray()) { SignalUnit = unit };
     }
 
-    /// <summary>The data rows after the header (blank and # lines skipped), each with its 0-based line index; a row
-    /// with another number of cells than the header is a located error.</summary>
-    private static IEnumerable<(int Index, string[] Cells)> DataRows(string[] lines, int headerIndex, char delimiter, int cellsPerRow, string file)
+    /// <summary>The data rows after the header (blank and # lines skipped); a row with another number of cells than
+    /// the header is a located error.</summary>
+    private static IEnumerable<SetupRecord> DataRows(SetupTable table, string file)
     {
-        for (var i = headerIndex + 1; i < lines.Length; i++)
+        var cellsPerRow = table.Header.Count;
+        foreach (var rec in table.Rows)
         {
-            if (lines[i].Trim().Length == 0 || lines[i].TrimStart().StartsWith('#')) continue;
-            var cells = Setup.Plan.Split(lines[i], delimiter);
-            if (cells.Length != cellsPerRow)
-                throw Fail.At(file, i + 1, Setup.Plan.Col(lines[i], delimiter, Math.Min(cells.Length, cellsPerRow)), $"{cells.Length} cells", $"{cellsPerRow} cells, as in the header");
-            yield return (i, cells);
+            if (rec.Count != cellsPerRow)
+            {
+                var (line, column) = rec.At(Math.Min(rec.Count, cellsPerRow));
+                throw Fail.At(file, line, column, $"{rec.Count} cells", $"{cellsPerRow} cells, as in the header");
+            }
+            yield return rec;
         }
     }
 
-    private static double Number(string cell, CultureInfo culture, string file, int line, int col)
-    {
-        var t = cell.Trim();
-        if (double.TryParse(t, NumberStyles.Float, culture, out var v) && double.IsFinite(v)) return v;
-        throw Fail.At(file, line, col, Fail.Quote(t), culture.Equals(CultureInfo.InvariantCulture) ? "a number with a decimal point" : "a number with a decimal comma");
-    }
+    /// <summary>With semicolons, a comma in any data cell means decimal commas (a comma-delimited file cannot have them).</summary>
+    private static CultureInfo CultureOf(SetupTable table) =>
+        table.Delimiter == ';' && table.Rows.Any(r => r.Cells.Any(c => c.Text.Contains(','))) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
 }

@@ -14,7 +14,7 @@ public class DeterminismTests
     private static readonly string Sample = RepoPaths.Sample("violet-complex-acid");
 
     [Fact]
-    public void One_worker_and_four_workers_write_byte_identical_summary_runs_csv_and_plots()
+    public void One_worker_and_four_workers_write_byte_identical_summary_tables_and_plots()
     {
         using var one = new RepoPaths.TempDir();
         using var four = new RepoPaths.TempDir();
@@ -23,7 +23,7 @@ public class DeterminismTests
 
         Assert.Equal(8, a.Runs.Count);
         Assert.Equal(a.Runs.Select(r => r.Id), b.Runs.Select(r => r.Id));
-        foreach (var file in new[] { SummaryJson.FileName, RunsCsv.FileName })
+        foreach (var file in (string[])[SummaryJson.FileName, RunsCsv.FileName, .. RunTables.FileNames])
             Assert.Equal(File.ReadAllBytes(Path.Combine(one.Path, file)), File.ReadAllBytes(Path.Combine(four.Path, file)));
         var plots = Directory.GetFiles(Path.Combine(one.Path, "plots")).Select(Path.GetFileName).Order(StringComparer.Ordinal).ToList();
         Assert.Equal(8, plots.Count(p => p!.StartsWith("run-", StringComparison.Ordinal))); // and the series plots
@@ -59,7 +59,7 @@ public class DeterminismTests
         Assert.All(b.Runs, r => Assert.Equal(0, r.Converted.Concentration.Count));
         Assert.All(b.Runs, r => Assert.All(r.Rates.Fits, f => Assert.Empty(f.Fitted)));
         Assert.Equal(a.Findings!.GlobalFit!.Fit.ChiSquare, b.Findings!.GlobalFit!.Fit.ChiSquare);
-        foreach (var file in new[] { SummaryJson.FileName, RunsCsv.FileName, ReportHtml.FileName })
+        foreach (var file in (string[])[SummaryJson.FileName, RunsCsv.FileName, ReportHtml.FileName, .. RunTables.FileNames])
             Assert.Equal(File.ReadAllBytes(Path.Combine(full.Path, file)), File.ReadAllBytes(Path.Combine(none.Path, file)));
         foreach (var png in Directory.EnumerateFiles(Path.Combine(full.Path, "plots")).Select(Path.GetFileName))
             Assert.Equal(File.ReadAllBytes(Path.Combine(full.Path, "plots", png!)), File.ReadAllBytes(Path.Combine(none.Path, "plots", png!)));
@@ -117,8 +117,10 @@ public class DeterminismTests
     private static SeriesResult Write(string outDir, int workers, TraceRetention retention = TraceRetention.Display, int retainedColumns = 200, string? folder = null)
     {
         using var plot = new RunPlot(outDir);
-        var result = SeriesRunner.Analyse(folder ?? Sample, new AnalysisOptions { Workers = workers, RunSink = plot, Retention = retention, RetainedColumns = retainedColumns });
-        foreach (var writer in ReportSet.SeriesWriters(plots: true)) writer.Write(result, outDir);
+        // The per-run tables streamed as the runs finish, as analyse writes them.
+        using var tables = new RunTables(outDir);
+        var result = SeriesRunner.Analyse(folder ?? Sample, new AnalysisOptions { Workers = workers, RunSink = RunSinks.Combine(plot, tables), Retention = retention, RetainedColumns = retainedColumns });
+        foreach (var writer in ReportSet.SeriesWriters(plots: true, tables: tables)) writer.Write(result, outDir);
         return result;
     }
 }

@@ -94,4 +94,41 @@ public sealed class AtomicFileTests : IDisposable
         // The runtime's own recursive listing does go through the link, which is why FilesBelow exists.
         Assert.Contains(Path.Combine(_out.Path, "linked", "b.png"), Directory.EnumerateFiles(_out.Path, "*", SearchOption.AllDirectories));
     }
+
+    [Fact]
+    public void A_file_written_over_time_appears_only_when_committed_and_an_abandoned_one_leaves_the_old_file()
+    {
+        var path = Path.Combine(_out.Path, "law-fits.csv");
+        File.WriteAllText(path, "old");
+        using (var pending = AtomicFile.Begin(path, _out.Path))
+        {
+            pending.Stream.Write("new rows"u8);
+            pending.Stream.Flush();
+            Assert.Equal("old", File.ReadAllText(path)); // readers see the old file while rows are streamed
+        }
+        Assert.Equal("old", File.ReadAllText(path)); // disposed without a commit: nothing replaced
+        Assert.Single(Directory.EnumerateFiles(_out.Path)); // and no temporary file left
+        using (var pending = AtomicFile.Begin(path, _out.Path))
+        {
+            pending.Stream.Write("new rows"u8);
+            pending.Commit();
+        }
+        Assert.Equal("new rows", File.ReadAllText(path));
+        Assert.Single(Directory.EnumerateFiles(_out.Path));
+    }
+
+    [Fact]
+    public void Streamed_tables_that_cannot_be_written_fail_their_write_without_stopping_the_analysis()
+    {
+        // A link where a table goes is refused when the tables are opened; the runs are still analysed and the failure
+        // comes out of Write as an IOException, which analyse logs and counts like any output's.
+        File.CreateSymbolicLink(Path.Combine(_out.Path, RunTables.FitsFile), Path.Combine(_elsewhere.Path, "target.csv"));
+        using var tables = new RunTables(_out.Path);
+        var result = TraceKin.Analysis.SeriesRunner.Analyse(RepoPaths.Sample("violet-complex-acid"), new TraceKin.Analysis.AnalysisOptions { Workers = 2, RunSink = tables });
+        Assert.Equal(8, result.Runs.Count);
+        Assert.All(result.Runs, r => Assert.DoesNotContain(r.Warnings, w => w.Code == "run-output-failed"));
+        Assert.Throws<IOException>(() => tables.Write(result, _out.Path));
+        Assert.Empty(Elsewhere());
+        Assert.Empty(Directory.EnumerateFiles(_out.Path, ".*.tmp"));
+    }
 }
