@@ -419,6 +419,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var units = r.Runs.Select(x => x.Rates.Headline.Unit).Distinct().ToList();
         var rateUnit = units.Count == 1 ? units[0] : "";
 
+        if (r.Findings?.PerRunK is { Count: >= MinHistogramRuns } ks) KHistogram(h, ks, kUnit);
         h.Element("p", "Initial conditions are taken from plan.csv; the rate columns come from each run's headline estimate.", "class=\"note\"");
         h.Raw("<table class=\"runs\">\n<thead><tr><th>run</th><th>file</th><th>T (°C)</th>");
         foreach (var s in species) h.Element("th", $"[{s}]0 ({scales[s].Unit})");
@@ -427,9 +428,15 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("<th>dof</th><th>method</th><th>window (s)</th>");
         if (perRunK.Count > 0) h.Element("th", "k for this run" + (kUnit.Length > 0 ? $" ({kUnit})" : ""));
         h.Raw("<th>warnings</th></tr></thead>\n<tbody>\n");
-        foreach (var run in r.Runs)
+        bool Flagged(RunResult run) => run.Warnings.Any(w => !WarningTiers.IsNote(w)) || run.Rates.Fits.Any(f => f.Chosen && !f.Fit.Converged);
+        // A large series lists the runs that need attention (flagged, or left out of the order fit) first, then the
+        // others in plan order up to MaxListedRuns; runs.csv holds every run.
+        var listed = r.Runs.Count <= MaxListedRuns ? r.Runs
+            : r.Runs.Where(x => Flagged(x) || (used.Count > 0 && !used.Contains(x.Id)))
+                .Concat(r.Runs.Where(x => !(Flagged(x) || (used.Count > 0 && !used.Contains(x.Id))))).Take(MaxListedRuns).ToList();
+        foreach (var run in listed)
         {
-            var flagged = run.Warnings.Any(w => !WarningTiers.IsNote(w)) || run.Rates.Fits.Any(f => f.Chosen && !f.Fit.Converged);
+            var flagged = Flagged(run);
             var cls = (flagged ? "flagged" : "") + (used.Count > 0 && !used.Contains(run.Id) ? " not-used" : "");
             h.Raw($"<tr {Html.Attr("data-run", run.Id)}{(cls.Trim().Length > 0 ? $" class=\"{cls.Trim()}\"" : "")}>")
                 .Element("td", run.Id, "class=\"name\"").Element("td", run.File)
@@ -448,10 +455,67 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             h.Raw("</tr>\n");
         }
         h.Raw("</tbody>\n</table>\n");
+        if (listed.Count < r.Runs.Count)
+            h.Raw("<p class=\"note\">").Text($"{listed.Count} of {r.Runs.Count} runs listed (those that need attention first); every run is in ")
+                .Raw("<a href=\"runs.csv\">runs.csv</a>").Text(".").Raw("</p>\n");
         if (used.Count > 0 && r.Runs.Any(x => !used.Contains(x.Id)))
             h.Element("p", "Rows marked as not used were left out of the order fit.", "class=\"note\"");
         h.Raw("</section>\n");
     }
+
+    /// <summary>Runs up to which the report lists every run, every fit and every export's hash; beyond, it lists the
+    /// runs that need attention first and links the tables that hold the rest, so the page stays small.</summary>
+    public const int MaxListedRuns = 200;
+
+    /// <summary>Fewest runs for which the distribution of k per run is drawn.</summary>
+    public const int MinHistogramRuns = 20;
+
+    /// <summary>
+    /// The distribution of k per run as a bar table: 20 equal bins between the 1st and 99th percentiles (runs beyond
+    /// them counted apart, so one wild run does not squeeze the rest into a bin), with the median and the spread
+    /// 1.4826·MAD (a normal distribution's SD; Rousseeuw &amp; Croux 1993, from memory). A narrow, single-peaked
+    /// distribution says the rate law holds across the conditions; a skewed or two-peaked one says it does not.
+    /// </summary>
+    private static void KHistogram(Html h, IReadOnlyList<Series.RunRateConstant> ks, string unit)
+    {
+        var v = ks.Select(k => k.Value).Where(double.IsFinite).Order().ToArray();
+        if (v.Length < MinHistogramRuns) return;
+        double Q(double p) { var x = p * (v.Length - 1); var i = (int)Math.Floor(x); return i + 1 < v.Length ? v[i] + (x - i) * (v[i + 1] - v[i]) : v[i]; }
+        var (lo, hi, median) = (Q(0.01), Q(0.99), Q(0.5));
+        var mad = 1.4826 * Q2(v.Select(x => Math.Abs(x - median)).Order().ToArray());
+        h.Raw("<figure class=\"k-distribution\">\n");
+        h.Element("figcaption", $"k for each run ({v.Length} runs{(unit.Length > 0 ? $", {unit}" : "")}): median {ReportNumber.Plain(median)}, spread 1.4826·MAD {ReportNumber.Plain(mad)}");
+        if (!(hi > lo))
+        {
+            h.Element("p", "Every run gives the same k to the digits shown.", "class=\"note\"");
+            h.Raw("</figure>\n");
+            return;
+        }
+        const int bins = 20;
+        var counts = new int[bins];
+        int below = 0, above = 0;
+        foreach (var x in v)
+        {
+            if (x < lo) { below++; continue; }
+            if (x > hi) { above++; continue; }
+            counts[Math.Min(bins - 1, (int)((x - lo) / (hi - lo) * bins))]++;
+        }
+        var max = Math.Max(1, counts.Max());
+        h.Raw("<table class=\"hist\">\n<thead><tr><th>k from</th><th>to</th><th>runs</th><th></th></tr></thead>\n<tbody>\n");
+        if (below > 0) h.Raw("<tr>").Element("td", "", "class=\"num\"").Element("td", ReportNumber.Plain(lo), "class=\"num\"").Element("td", below.ToString(CultureInfo.InvariantCulture), "class=\"num\"").Raw("<td></td></tr>\n");
+        for (var b = 0; b < bins; b++)
+        {
+            var width = (100.0 * counts[b] / max).ToString("0.#", CultureInfo.InvariantCulture);
+            h.Raw("<tr>").Element("td", ReportNumber.Plain(lo + (hi - lo) * b / bins), "class=\"num\"").Element("td", ReportNumber.Plain(lo + (hi - lo) * (b + 1) / bins), "class=\"num\"")
+                .Element("td", counts[b].ToString(CultureInfo.InvariantCulture), "class=\"num\"")
+                .Raw($"<td class=\"bar\"><span style=\"width:{width}%\"></span></td></tr>\n");
+        }
+        if (above > 0) h.Raw("<tr>").Element("td", ReportNumber.Plain(hi), "class=\"num\"").Element("td", "", "class=\"num\"").Element("td", above.ToString(CultureInfo.InvariantCulture), "class=\"num\"").Raw("<td></td></tr>\n");
+        h.Raw("</tbody>\n</table>\n</figure>\n");
+    }
+
+    private static double Q2(double[] sorted) => sorted.Length == 0 ? double.NaN
+        : sorted.Length % 2 == 1 ? sorted[sorted.Length / 2] : (sorted[sorted.Length / 2 - 1] + sorted[sorted.Length / 2]) / 2;
 
     private static void LawFits(Html h, SeriesResult r)
     {
@@ -460,6 +524,13 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("<section id=\"law-fits\">\n").Element("h2", "Integrated-law fits");
         // Folded: the chosen law of each run is in the runs table above; this is every candidate, for whoever checks.
         var count = withFits.Sum(x => x.Rates.Fits.Count);
+        if (r.Runs.Count > MaxListedRuns)
+        {
+            h.Raw("<p>").Text($"Every candidate fit of every run ({count} fits in {withFits.Count} runs; the chosen one marked) is in ")
+                .Raw("<a href=\"law-fits.csv\">law-fits.csv</a>").Text(" and its parameters in ").Raw("<a href=\"law-parameters.csv\">law-parameters.csv</a>")
+                .Text(", one row each (docs/formats.md, \"Per-run tables\").").Raw("</p>\n</section>\n");
+            return;
+        }
         h.Raw("<details class=\"fits\">\n").Element("summary", $"Every candidate fit of every run ({count} fits in {withFits.Count} runs; the chosen one is marked)");
         h.Raw("<table class=\"fits\">\n<thead><tr><th>run</th><th>model</th><th>chosen</th><th>converged</th><th>parameters (value ± SE)</th><th>reduced χ²</th><th>AICc</th></tr></thead>\n<tbody>\n");
         foreach (var run in withFits)
@@ -619,8 +690,12 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException) { hash = "unreadable"; }
             h.Raw("<tr>").Element("td", file).Element("td", role + " (hashed when the report was written)").Element("td", hash, "class=\"hash\"").Raw("</tr>\n");
         }
-        foreach (var run in r.Runs)
-            h.Raw("<tr>").Element("td", run.File).Element("td", $"export of run {run.Id}").Element("td", run.InputSha256, "class=\"hash\"").Raw("</tr>\n");
-        h.Raw("</tbody>\n</table>\n</section>\n");
+        if (r.Runs.Count <= MaxListedRuns)
+            foreach (var run in r.Runs)
+                h.Raw("<tr>").Element("td", run.File).Element("td", $"export of run {run.Id}").Element("td", run.InputSha256, "class=\"hash\"").Raw("</tr>\n");
+        h.Raw("</tbody>\n</table>\n");
+        if (r.Runs.Count > MaxListedRuns)
+            h.Element("p", $"The SHA-256 of each of the {r.Runs.Count} exports is in summary.json (runs[].sha256).", "class=\"note\"");
+        h.Raw("</section>\n");
     }
 }

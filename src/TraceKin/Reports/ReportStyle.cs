@@ -25,6 +25,8 @@ thead th { background: var(--soft); font-weight: 600; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 td.hash { font-family: "DejaVu Sans Mono", Menlo, Consolas, monospace; font-size: 11px; word-break: break-all; }
 tr.flagged td { background: var(--warn-bg); }
+table.hist td.bar { width: 60%; }
+table.hist td.bar span { display: block; height: 10px; background: var(--muted); }
 tr.not-used td { color: var(--muted); }
 td.warn-cell { color: var(--warn); }
 tr.source-default td { color: var(--muted); }

@@ -11,7 +11,8 @@ namespace TraceKin.Reports;
 /// <list type="bullet">
 /// <item><c>law-fits.csv</c>: one row per run and fitted integrated law (fit quality, AICc, Akaike weight, chosen, exit);</item>
 /// <item><c>law-parameters.csv</c>: one row per run, law and parameter (value, standard error, unit, varied);</item>
-/// <item><c>initial-rates.csv</c>: one row per run and initial-rate estimator (rate, standard errors, window, dof, chosen).</item>
+/// <item><c>initial-rates.csv</c>: one row per run and initial-rate estimator (rate, standard errors, window, dof, chosen);</item>
+/// <item><c>spikes.csv</c>: one row per sample excluded as a spike (time, concentration).</item>
 /// </list>
 /// Used as a run sink (<see cref="Begin"/>, <see cref="Accept"/>), the rows are written as the runs finish: each
 /// run's rows are formatted on its worker, then appended in plan order to temporary files (a run that finishes early
@@ -24,7 +25,8 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
     public const string FitsFile = "law-fits.csv";
     public const string ParametersFile = "law-parameters.csv";
     public const string RatesFile = "initial-rates.csv";
-    public static readonly string[] FileNames = [FitsFile, ParametersFile, RatesFile];
+    public const string SpikesFile = "spikes.csv";
+    public static readonly string[] FileNames = [FitsFile, ParametersFile, RatesFile, SpikesFile];
 
     private static readonly string RateHeaderUnit = $"({Units.RateUnit})";
 
@@ -39,6 +41,7 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
         "run", "estimator", "method", "chosen", $"initial rate {RateHeaderUnit}", $"std error {RateHeaderUnit}",
         $"model std error {RateHeaderUnit}", $"systematic std error {RateHeaderUnit}", "dof", "points", "window start (s)", "window end (s)",
     ];
+    public static readonly string[] SpikesHeader = ["run", "time (s)", "concentration (mol/L)"];
 
     private readonly CsvStyle _style;
     private readonly string? _outDir, _root;
@@ -204,6 +207,7 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
         Bytes(style, t => t.Header(FitsHeader)),
         Bytes(style, t => t.Header(ParametersHeader)),
         Bytes(style, t => t.Header(RatesHeader)),
+        Bytes(style, t => t.Header(SpikesHeader)),
     ];
 
     /// <summary>One run's rows of each table, as the bytes they take in the file.</summary>
@@ -244,7 +248,16 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
                 t.EndRow();
             }
         });
-        return [fits, parameters, estimates];
+        // The rates stage works on the concentration trace in mol/L (Rates/RateAnalysis), so a spike's value is one.
+        var spikes = Bytes(style, t =>
+        {
+            foreach (var sp in rates.Spikes)
+            {
+                t.Text(run.Id).Number(sp.Time).Number(sp.Value);
+                t.EndRow();
+            }
+        });
+        return [fits, parameters, estimates, spikes];
     }
 
     /// <summary>The short name of an estimator, as <c>rates.method</c> names it: law, polynomial or line.</summary>

@@ -75,49 +75,34 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
             w.WritePropertyName("initialRate");
             var relSys = run.Converted.RelativeSystematicUncertainty;
             InitialRate(w, h, relSys);
-            w.WriteStartArray("initialRateEstimates");
-            foreach (var e in run.Rates.Estimates) InitialRate(w, e, relSys);
-            w.WriteEndArray();
-            w.WriteStartArray("fits");
-            foreach (var f in run.Rates.Fits)
+            // Each run's headline only: every estimator and every law's fit are in the per-run tables (RunTables), so
+            // summary.json stays about a kilobyte per run however many runs and laws there are.
+            if (run.Rates.Fits.FirstOrDefault(f => f.Chosen) is { } chosen)
             {
-                w.WriteStartObject();
-                w.WriteString("model", f.Law);
-                w.WriteBoolean("chosen", f.Chosen);
-                Fit(w, f.Fit);
-                w.WriteBoolean("drift", f.Drift);
-                Num(w, "deltaAicc", f.DeltaAicc);
-                Num(w, "akaikeWeight", f.AkaikeWeight);
+                w.WriteStartObject("chosenLaw");
+                w.WriteString("model", chosen.Law);
+                w.WriteBoolean("drift", chosen.Drift);
+                w.WriteBoolean("converged", chosen.Fit.Converged);
+                Num(w, "akaikeWeight", chosen.AkaikeWeight);
                 w.WriteStartObject("rateConstant");
-                Num(w, "value", f.RateConstant);
-                Num(w, "stdError", f.RateConstantStdError);
-                w.WriteString("unit", f.RateConstantUnit);
-                Pair(w, "ci95", f.Ci95Low, f.Ci95High);
+                Num(w, "value", chosen.RateConstant);
+                Num(w, "stdError", chosen.RateConstantStdError);
+                w.WriteString("unit", chosen.RateConstantUnit);
+                Pair(w, "ci95", chosen.Ci95Low, chosen.Ci95High);
                 w.WriteEndObject();
-                Num(w, "halfLife", f.HalfLife);
-                Num(w, "halfLifeStdError", f.HalfLifeStdError);
-                Num(w, "runsTestP", f.Runs?.PValue);
-                w.WriteBoolean("lackOfFit", f.LackOfFit);
-                if (f.ExcludedBecause is { } excluded) w.WriteString("excludedBecause", excluded);
-                else w.WriteNull("excludedBecause");
+                Num(w, "halfLife", chosen.HalfLife);
+                Num(w, "halfLifeStdError", chosen.HalfLifeStdError);
+                w.WriteBoolean("lackOfFit", chosen.LackOfFit);
                 w.WriteEndObject();
             }
-            w.WriteEndArray();
+            else w.WriteNull("chosenLaw");
             w.WriteString("headlineRule", run.Rates.HeadlineRule);
             w.WriteBoolean("rateResolved", run.Rates.IsResolved);
             if (run.Rates.Unresolved is { } why) w.WriteString("unresolvedBecause", why);
             else w.WriteNull("unresolvedBecause");
             Num(w, "deadTime", run.Rates.DeadTime);
             w.WriteBoolean("noIntegerLawFits", run.Rates.NoIntegerLawFits);
-            w.WriteStartArray("spikes");
-            foreach (var sp in run.Rates.Spikes)
-            {
-                w.WriteStartObject();
-                Num(w, "time", sp.Time);
-                Num(w, "value", sp.Value);
-                w.WriteEndObject();
-            }
-            w.WriteEndArray();
+            w.WriteNumber("spikeCount", run.Rates.Spikes.Count);
             Num(w, "systematicRelativeUncertainty", run.Converted.RelativeSystematicUncertainty);
             Warnings(w, run.Warnings);
             w.WriteEndObject();
@@ -208,30 +193,6 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
         Num(w, "systematicStdError", Math.Abs(h.Value) * relativeSystematic);
         Num(w, "modelStdError", h.ModelStdError);
         w.WriteEndObject();
-    }
-
-    private static void Fit(Utf8JsonWriter w, FitResult f)
-    {
-        w.WriteString("exit", f.Exit.ToString());
-        w.WriteBoolean("converged", f.Converged);
-        w.WriteStartArray("parameters");
-        foreach (var p in f.Parameters)
-        {
-            w.WriteStartObject();
-            w.WriteString("name", p.Name);
-            Num(w, "value", p.Value);
-            Num(w, "stdError", p.StdError);
-            w.WriteBoolean("varied", p.Varied);
-            w.WriteEndObject();
-        }
-        w.WriteEndArray();
-        w.WriteNumber("points", f.PointCount);
-        w.WriteNumber("dof", f.DegreesOfFreedom);
-        Num(w, "chiSquare", f.ChiSquare);
-        Num(w, "reducedChiSquare", f.ReducedChiSquare);
-        Num(w, "rSquared", f.RSquared);
-        Num(w, "aicc", f.AicC);
-        Num(w, "bic", f.Bic);
     }
 
     private static void Warnings(Utf8JsonWriter w, IReadOnlyList<Warning> warnings)

@@ -27,6 +27,15 @@ public sealed class CsvTablesRoundTripTests : IDisposable
         for (var i = 1; i < plan.Length; i++)
             plan[i] = plan[i][..plan[i].LastIndexOf(',')] + "," + Quote(Operators[i - 1]);
         File.WriteAllText(Path.Combine(_series.Path, "plan.csv"), string.Join("\n", plan) + "\n");
+        // Two spikes in run R2 (+0.2 absorbance, far beyond its noise), so the spikes table has rows to check.
+        var r2 = File.ReadAllLines(Path.Combine(_series.Path, "r2.csv"));
+        foreach (var line in new[] { 120, 240 })
+        {
+            var cells = r2[line].Split(',');
+            cells[1] = (double.Parse(cells[1], CultureInfo.InvariantCulture) + 0.2).ToString("0.000000", CultureInfo.InvariantCulture);
+            r2[line] = string.Join(",", cells);
+        }
+        File.WriteAllText(Path.Combine(_series.Path, "r2.csv"), string.Join("\n", r2) + "\n");
         Assert.Equal(ExitCodes.Ok, Program.BuildRoot().Parse(["analyse", _series.Path, "--out", _out.Path, "--no-plots", "--workers", "2"]).Invoke());
         Assert.Equal(ExitCodes.Ok, Program.BuildRoot().Parse(["analyse", _series.Path, "--out", _outComma.Path, "--no-plots", "--decimal-comma"]).Invoke());
     }
@@ -99,8 +108,18 @@ public sealed class CsvTablesRoundTripTests : IDisposable
         Assert.DoesNotContain(File.ReadAllText(Path.Combine(_out.Path, RunsCsv.FileName)), "'0");
     }
 
+    /// <summary>The same series analysed in memory: the reference for the values only the tables carry.</summary>
+    private TraceKin.Analysis.SeriesResult InMemory() => TraceKin.Analysis.SeriesRunner.Analyse(_series.Path, new TraceKin.Analysis.AnalysisOptions { Workers = 1 });
+
+    private static void SameNumber(double? expected, string cell)
+    {
+        if (expected is not { } x || !double.IsFinite(x)) { Assert.Equal("", cell); return; }
+        var v = double.Parse(cell, NumberStyles.Float, CultureInfo.InvariantCulture);
+        Assert.Equal(BitConverter.DoubleToInt64Bits(x), BitConverter.DoubleToInt64Bits(v));
+    }
+
     [Fact]
-    public void Law_fits_and_their_parameters_hold_every_fit_of_summary_json()
+    public void Law_fits_and_their_parameters_hold_every_fit_and_summary_json_names_the_chosen_one()
     {
         var (fh, fits) = Read(Path.Combine(_out.Path, RunTables.FitsFile));
         var (ph, pars) = Read(Path.Combine(_out.Path, RunTables.ParametersFile));
@@ -108,46 +127,56 @@ public sealed class CsvTablesRoundTripTests : IDisposable
         Assert.Equal(RunTables.ParametersHeader, ph);
         var f = Columns(fh);
         var p = Columns(ph);
+        var summary = Summary().GetProperty("runs").EnumerateArray().ToDictionary(r => r.GetProperty("id").GetString()!);
         int fi = 0, pi = 0;
-        foreach (var run in Summary().GetProperty("runs").EnumerateArray())
+        foreach (var run in InMemory().Runs)
         {
-            var id = run.GetProperty("id").GetString();
-            foreach (var fit in run.GetProperty("fits").EnumerateArray())
+            var chosenRows = 0;
+            foreach (var fit in run.Rates.Fits)
             {
                 var row = fits[fi++];
-                var law = fit.GetProperty("model").GetString();
-                Assert.Equal(id, row[f["run"]]);
-                Assert.Equal(law, row[f["law"]]);
-                Assert.Equal(Bool(fit.GetProperty("drift")), row[f["drift term"]]);
-                Assert.Equal(Bool(fit.GetProperty("chosen")), row[f["chosen"]]);
-                Assert.Equal(fit.GetProperty("exit").GetString(), row[f["exit"]]);
-                Assert.Equal(Bool(fit.GetProperty("converged")), row[f["converged"]]);
-                Assert.Equal(fit.GetProperty("points").GetInt32().ToString(CultureInfo.InvariantCulture), row[f["points"]]);
-                Assert.Equal(fit.GetProperty("dof").GetInt32().ToString(CultureInfo.InvariantCulture), row[f["dof"]]);
-                SameNumber(fit.GetProperty("rSquared"), row[f["r squared"]]);
-                SameNumber(fit.GetProperty("aicc"), row[f["AICc"]]);
-                SameNumber(fit.GetProperty("bic"), row[f["BIC"]]);
-                SameNumber(fit.GetProperty("deltaAicc"), row[f["delta AICc"]]);
-                SameNumber(fit.GetProperty("akaikeWeight"), row[f["Akaike weight"]]);
-                SameNumber(fit.GetProperty("halfLife"), row[f["half-life (s)"]]);
-                SameNumber(fit.GetProperty("halfLifeStdError"), row[f["half-life std error (s)"]]);
-                SameNumber(fit.GetProperty("runsTestP"), row[f["runs test p"]]);
-                Assert.Equal(Bool(fit.GetProperty("lackOfFit")), row[f["lack of fit"]]);
-                Assert.Equal(fit.GetProperty("excludedBecause").GetString() ?? "", row[f["excluded because"]]);
-                var k = fit.GetProperty("rateConstant");
-                foreach (var par in fit.GetProperty("parameters").EnumerateArray())
+                Assert.Equal(run.Id, row[f["run"]]);
+                Assert.Equal(fit.Law, row[f["law"]]);
+                Assert.Equal(fit.Drift ? "true" : "false", row[f["drift term"]]);
+                Assert.Equal(fit.Chosen ? "true" : "false", row[f["chosen"]]);
+                Assert.Equal(fit.Fit.Exit.ToString(), row[f["exit"]]);
+                Assert.Equal(fit.Fit.Converged ? "true" : "false", row[f["converged"]]);
+                Assert.Equal(fit.Fit.PointCount.ToString(CultureInfo.InvariantCulture), row[f["points"]]);
+                Assert.Equal(fit.Fit.DegreesOfFreedom.ToString(CultureInfo.InvariantCulture), row[f["dof"]]);
+                SameNumber(fit.Fit.RSquared, row[f["r squared"]]);
+                SameNumber(fit.Fit.AicC, row[f["AICc"]]);
+                SameNumber(fit.Fit.Bic, row[f["BIC"]]);
+                SameNumber(fit.DeltaAicc, row[f["delta AICc"]]);
+                SameNumber(fit.AkaikeWeight, row[f["Akaike weight"]]);
+                SameNumber(fit.HalfLife, row[f["half-life (s)"]]);
+                SameNumber(fit.HalfLifeStdError, row[f["half-life std error (s)"]]);
+                SameNumber(fit.Runs?.PValue, row[f["runs test p"]]);
+                Assert.Equal(fit.LackOfFit ? "true" : "false", row[f["lack of fit"]]);
+                Assert.Equal(fit.ExcludedBecause ?? "", row[f["excluded because"]]);
+                foreach (var par in fit.Fit.Parameters)
                 {
                     var pr = pars[pi++];
-                    var name = par.GetProperty("name").GetString();
-                    Assert.Equal((id, law, name), (pr[p["run"]], pr[p["law"]], pr[p["parameter"]]));
-                    SameNumber(par.GetProperty("value"), pr[p["value"]]);
-                    SameNumber(par.GetProperty("stdError"), pr[p["std error"]]);
-                    Assert.Equal(Bool(par.GetProperty("varied")), pr[p["varied"]]);
-                    // k in the unit summary.json gives the fit's rate constant; the trace is in mol/L (docs/formats.md).
-                    Assert.Equal(name switch { "k" => k.GetProperty("unit").GetString(), "drift" => "mol/(L·s)", "n" => "1", _ => "mol/L" }, pr[p["unit"]]);
-                    if (name == "k" && fit.GetProperty("converged").GetBoolean()) SameNumber(k.GetProperty("value"), pr[p["value"]]);
+                    Assert.Equal((run.Id, fit.Law, par.Name), (pr[p["run"]], pr[p["law"]], pr[p["parameter"]]));
+                    SameNumber(par.Value, pr[p["value"]]);
+                    SameNumber(par.StdError, pr[p["std error"]]);
+                    Assert.Equal(par.Varied ? "true" : "false", pr[p["varied"]]);
+                    // The trace is in mol/L (docs/formats.md): levels in mol/L, drift in mol/(L·s), k in the law's unit.
+                    Assert.Equal(par.Name switch { "k" => fit.RateConstantUnit, "drift" => "mol/(L·s)", "n" => "1", _ => "mol/L" }, pr[p["unit"]]);
                 }
+                if (!fit.Chosen) continue;
+                // summary.json carries the chosen law only, with the numbers of its row here.
+                chosenRows++;
+                var c = summary[run.Id].GetProperty("chosenLaw");
+                Assert.Equal(fit.Law, c.GetProperty("model").GetString());
+                Assert.Equal(row[f["drift term"]], Bool(c.GetProperty("drift")));
+                SameNumber(c.GetProperty("akaikeWeight"), row[f["Akaike weight"]]);
+                SameNumber(c.GetProperty("halfLife"), row[f["half-life (s)"]]);
+                Assert.Equal(row[f["lack of fit"]], Bool(c.GetProperty("lackOfFit")));
+                var k = pars.Single(x => x[p["run"]] == run.Id && x[p["law"]] == fit.Law && x[p["parameter"]] == "k");
+                SameNumber(c.GetProperty("rateConstant").GetProperty("value"), k[p["value"]]);
+                Assert.Equal(c.GetProperty("rateConstant").GetProperty("unit").GetString(), k[p["unit"]]);
             }
+            Assert.Equal(1, chosenRows);
         }
         Assert.Equal(fits.Count, fi);
         Assert.Equal(pars.Count, pi);
@@ -155,37 +184,62 @@ public sealed class CsvTablesRoundTripTests : IDisposable
     }
 
     [Fact]
-    public void Initial_rates_table_holds_every_estimate_and_marks_the_headline()
+    public void Initial_rates_table_holds_every_estimate_and_marks_the_headline_of_summary_json()
     {
         var (header, rows) = Read(Path.Combine(_out.Path, RunTables.RatesFile));
         Assert.Equal(RunTables.RatesHeader, header);
         var c = Columns(header);
+        var summary = Summary().GetProperty("runs").EnumerateArray().ToDictionary(r => r.GetProperty("id").GetString()!);
         var i = 0;
-        foreach (var run in Summary().GetProperty("runs").EnumerateArray())
+        foreach (var run in InMemory().Runs)
         {
-            var headline = run.GetProperty("initialRate");
+            var headline = summary[run.Id].GetProperty("initialRate");
             var chosen = 0;
-            foreach (var e in run.GetProperty("initialRateEstimates").EnumerateArray())
+            foreach (var e in run.Rates.Estimates)
             {
                 var row = rows[i++];
-                Assert.Equal(run.GetProperty("id").GetString(), row[c["run"]]);
-                Assert.Equal("mol/(L·s)", e.GetProperty("unit").GetString()); // the unit the columns' headers name
-                var method = e.GetProperty("method").GetString()!;
-                Assert.Equal(method, row[c["method"]]);
-                Assert.Equal(method.StartsWith("integrated", StringComparison.Ordinal) ? "law" : method.StartsWith("polynomial", StringComparison.Ordinal) ? "polynomial" : "line", row[c["estimator"]]);
-                SameNumber(e.GetProperty("value"), row[c["initial rate (mol/(L·s))"]]);
-                SameNumber(e.GetProperty("stdError"), row[c["std error (mol/(L·s))"]]);
-                SameNumber(e.GetProperty("modelStdError"), row[c["model std error (mol/(L·s))"]]);
-                SameNumber(e.GetProperty("systematicStdError"), row[c["systematic std error (mol/(L·s))"]]);
-                Assert.Equal(e.GetProperty("dof").GetInt32().ToString(CultureInfo.InvariantCulture), row[c["dof"]]);
-                Assert.Equal(e.GetProperty("points").GetInt32().ToString(CultureInfo.InvariantCulture), row[c["points"]]);
-                SameNumber(e.GetProperty("windowStart"), row[c["window start (s)"]]);
-                SameNumber(e.GetProperty("windowEnd"), row[c["window end (s)"]]);
-                var isHeadline = method == headline.GetProperty("method").GetString() && e.GetProperty("value").GetDouble() == headline.GetProperty("value").GetDouble();
-                Assert.Equal(isHeadline ? "true" : "false", row[c["chosen"]]);
-                if (isHeadline) chosen++;
+                Assert.Equal(run.Id, row[c["run"]]);
+                Assert.Equal("mol/(L·s)", e.Unit); // the unit the columns' headers name
+                Assert.Equal(e.Method, row[c["method"]]);
+                Assert.Equal(e.Method.StartsWith("integrated", StringComparison.Ordinal) ? "law" : e.Method.StartsWith("polynomial", StringComparison.Ordinal) ? "polynomial" : "line", row[c["estimator"]]);
+                SameNumber(e.Value, row[c["initial rate (mol/(L·s))"]]);
+                SameNumber(e.StdError, row[c["std error (mol/(L·s))"]]);
+                SameNumber(e.ModelStdError, row[c["model std error (mol/(L·s))"]]);
+                SameNumber(Math.Abs(e.Value) * run.Converted.RelativeSystematicUncertainty, row[c["systematic std error (mol/(L·s))"]]);
+                Assert.Equal(e.Dof.ToString(CultureInfo.InvariantCulture), row[c["dof"]]);
+                Assert.Equal(e.PointsUsed.ToString(CultureInfo.InvariantCulture), row[c["points"]]);
+                SameNumber(e.WindowStart, row[c["window start (s)"]]);
+                SameNumber(e.WindowEnd, row[c["window end (s)"]]);
+                if (row[c["chosen"]] != "true") continue;
+                chosen++;
+                // The chosen row is summary.json's headline, bit for bit.
+                Assert.Equal(headline.GetProperty("method").GetString(), row[c["method"]]);
+                SameNumber(headline.GetProperty("value"), row[c["initial rate (mol/(L·s))"]]);
+                SameNumber(headline.GetProperty("stdError"), row[c["std error (mol/(L·s))"]]);
             }
             Assert.Equal(1, chosen);
+        }
+        Assert.Equal(rows.Count, i);
+    }
+
+    [Fact]
+    public void Spikes_table_lists_every_excluded_sample_and_summary_json_counts_them()
+    {
+        var (header, rows) = Read(Path.Combine(_out.Path, RunTables.SpikesFile));
+        Assert.Equal(RunTables.SpikesHeader, header);
+        var summary = Summary().GetProperty("runs").EnumerateArray().ToDictionary(r => r.GetProperty("id").GetString()!);
+        var i = 0;
+        foreach (var run in InMemory().Runs)
+        {
+            Assert.Equal(run.Rates.Spikes.Count, summary[run.Id].GetProperty("spikeCount").GetInt32());
+            if (run.Id == "R2") Assert.Equal(2, run.Rates.Spikes.Count);
+            foreach (var sp in run.Rates.Spikes)
+            {
+                var row = rows[i++];
+                Assert.Equal(run.Id, row[0]);
+                SameNumber(sp.Time, row[1]);
+                SameNumber(sp.Value, row[2]);
+            }
         }
         Assert.Equal(rows.Count, i);
     }
@@ -232,7 +286,7 @@ public sealed class CsvTablesRoundTripTests : IDisposable
         using var outDir = new RepoPaths.TempDir();
         File.WriteAllText(Path.Combine(series.Path, "r3.csv"), "");
         Assert.Equal(ExitCodes.SomeRejected, Program.BuildRoot().Parse(["analyse", series.Path, "--out", outDir.Path, "--no-plots", "--workers", "2"]).Invoke());
-        foreach (var file in RunTables.FileNames)
+        foreach (var file in RunTables.FileNames.Where(f => f != RunTables.SpikesFile)) // the demo has no spikes
         {
             var (_, rows) = Read(Path.Combine(outDir.Path, file));
             Assert.Equal(["R1", "R2", "R4", "R5", "R6", "R7", "R8"], rows.Select(r => r[0]).Distinct());
