@@ -1,0 +1,74 @@
+using TraceKin.Planning;
+using TraceKin.Series;
+using TraceKin.Traces;
+using Xunit;
+using Xunit.Abstractions;
+
+namespace TraceKin.Tests.Planning;
+
+/// <summary>
+/// Ea is pinned by the spread of 1/T (the Arrhenius slope; var(Ea) ∝ 1/Σ(1/T − mean)², Draper &amp; Smith §2.4, from
+/// memory), so with a 10 K span measured, new runs belong at the ends of the allowed range. The invented series:
+/// first order in A, k(25 °C) = 1.0·10⁻³ s⁻¹, Ea = 60 kJ/mol, runs at 25, 30 and 35 °C, 2 % noise. The simulation
+/// check runs the Series stage's own two-stage fit (k per temperature, then Arrhenius on k) 200 times.
+/// </summary>
+public class ArrheniusDesignTests(ITestOutputHelper output)
+{
+    private static List<RunPoint> TenKelvinSeries()
+    {
+        var rng = new Random(5);
+        var runs = new List<RunPoint>();
+        var i = 0;
+        foreach (var tc in new[] { 25.0, 30.0, 35.0 })
+            foreach (var a in new[] { 1e-3, 2e-3, 4e-3 })
+            {
+                var t = tc + 273.15;
+                var k = 1e-3 * Math.Exp(-60e3 / PhysicalConstants.GasConstant * (1 / t - 1 / 298.15));
+                var v = k * a;
+                var se = 0.02 * v;
+                runs.Add(new RunPoint($"T{++i}", v + se * (rng.NextDouble() * 2 - 1), se, new Dictionary<string, double> { ["A"] = a }, t));
+            }
+        return runs;
+    }
+
+    [Fact]
+    public void Suggestion_extends_a_10_K_span_within_the_limits_and_the_Ea_interval_shrinks_as_simulated()
+    {
+        var runs = TenKelvinSeries();
+        var settings = ModelSettings.Default;
+        var series = new AnalysedSeries("warm", runs, OrderAnalysis.Analyse(runs, settings), settings, null);
+        Assert.NotNull(series.Findings.Temperature?.Arrhenius);
+        var (law, theta) = PlanningSetup.FromSeries(series, null, new Dictionary<string, double>(), true, "summary.json");
+        var limits = new PlanningLimits([new ConcentrationRange("A", 0.5e-3, 5e-3)], 15 + 273.15, 50 + 273.15, 4);
+        var space = PlanningSetup.Space(limits, law, runs, null);
+        var s = RunPlanner.Suggest(new PlanningRequest(law, theta, RateNoise.FromRuns(runs), runs, space, 4, DesignCriterion.D) { Settings = settings, Seed = 3 });
+
+        var temps = s.NewRuns.Select(r => r.TemperatureK!.Value).ToArray();
+        foreach (var r in s.NewRuns) output.WriteLine($"  T {r.TemperatureK - 273.15:0.##} °C  [A]0 {r.Concentrations["A"]:G4}");
+        Assert.All(temps, t => Assert.InRange(t, 288.15 - 1e-9, 323.15 + 1e-9));
+        var all = runs.Select(r => r.TemperatureK!.Value).Concat(temps).ToArray();
+        Assert.True(all.Max() - all.Min() > 30, $"span {all.Max() - all.Min():0.#} K");
+        Assert.Contains(temps, t => t < 288.2);
+        Assert.Contains(temps, t => t > 323.1);
+
+        var ea = s.Predicted.Single(p => p.Parameter == "Ea");
+        var now = Sim(s, "now");
+        var proposed = Sim(s, "with the proposed runs");
+        var replicated = Sim(s, "with as many replicates");
+        output.WriteLine($"Ea se predicted (kJ/mol): now {ea.Now:G3}, proposed {ea.Proposed:G3}, replicates {ea.Replicated:G3}");
+        output.WriteLine($"Ea simulated spread: now {now.Spread:G3}, proposed {proposed.Spread:G3}, replicates {replicated.Spread:G3}");
+        output.WriteLine($"Ea median 95 % width: now {now.MedianWidth:G3}, proposed {proposed.MedianWidth:G3}, replicates {replicated.MedianWidth:G3}");
+        Assert.Equal(200, proposed.Fitted);
+        Assert.True(proposed.MedianWidth < 0.5 * now.MedianWidth);
+        Assert.True(proposed.MedianWidth < replicated.MedianWidth);
+        // The predicted shrinkage of se(Ea) and the simulated one agree within 30 %.
+        var predictedRatio = ea.Proposed / ea.Now;
+        var simulatedRatio = proposed.Spread / now.Spread;
+        Assert.InRange(simulatedRatio / predictedRatio, 0.7, 1.3);
+        Assert.Contains(s.Explanation, line => line.Contains("licensed practice"));
+        Assert.Contains(s.Weaknesses, w => w.Contains("span only 10 K"));
+    }
+
+    private static SimulatedInterval Sim(RunSuggestion s, string design) =>
+        s.Simulated.Single(d => d.Name == design).Intervals.Single(x => x.Parameter == "Ea");
+}
