@@ -1,3 +1,4 @@
+using TraceKin.Reports;
 using TraceKin.Series;
 
 namespace TraceKin.Planning;
@@ -34,8 +35,8 @@ public sealed record RateNoise(double Scale, double Exponent)
 
     public string Describe() => Exponent switch
     {
-        0 => FormattableString.Invariant($"constant standard error {Scale:G3} mol/(L·s)"),
-        1 => FormattableString.Invariant($"constant relative standard error {100 * Scale:G3} %"),
-        _ => FormattableString.Invariant($"se(v0) = {Scale:G3}·v0^{Exponent:0.00} (fitted to the runs' standard errors)"),
+        0 => $"constant standard error {ReportNumber.Plain(Scale, 3)} mol/(L·s)",
+        1 => $"constant relative standard error {ReportNumber.Plain(100 * Scale, 3)} %",
+        _ => $"se(v0) = {ReportNumber.Plain(Scale, 3)}·v0^{ReportNumber.Plain(Exponent, 2)} (fitted to the runs' standard errors)",
     };
 }

@@ -1,5 +1,6 @@
 using System.Globalization;
 using TraceKin.Fitting;
+using TraceKin.Reports;
 using TraceKin.Series;
 
 namespace TraceKin.Planning;
@@ -91,7 +92,7 @@ public static class RunPlanner
             {
                 var c = p.Conditions.Concentrations[r.Species];
                 var pos = Near(c, r.High) ? "at the upper limit" : Near(c, r.Low) ? "at the lower limit" : "inside the range";
-                where.Add(string.Format(ci, "[{0}]0 = {1:G4} mol/L {2}", r.Species, c, pos));
+                where.Add(string.Format(ci, "[{0}]0 = {1:G4} mmol/L {2}", r.Species, c * 1000, pos));
             }
             if (q.Space.MovesTemperature && p.Conditions.TemperatureK is { } t)
                 where.Add(string.Format(ci, "T = {0:0.##} K {1}", t, Near(t, q.Space.TemperatureHighK!.Value) ? "at the upper limit" : Near(t, q.Space.TemperatureLowK!.Value) ? "at the lower limit" : "inside the range"));
@@ -100,14 +101,14 @@ public static class RunPlanner
         if (q.Law is SaturationDesign s && q.Space.Ranges.FirstOrDefault(r => r.Species == s.Substrate) is { } sr)
         {
             var km = q.Theta[1];
-            lines.Add(string.Format(ci, "For the hyperbola with a constant error the two-level D-optimum is the largest [{0}]0 and Km·Smax/(2·Km + Smax) = {1:G4} mol/L at Km = {2:G4} mol/L; the search found its levels without that formula.",
-                s.Substrate, km * sr.High / (2 * km + sr.High), km));
+            lines.Add(string.Format(ci, "For comparison: with a constant error and no earlier runs the D-optimal levels are the largest [{0}]0 and Km·Smax/(2·Km + Smax) = {1:G4} mmol/L at Km = {2:G4} mmol/L (Duggleby 1979); earlier runs and a rate-dependent error move them.",
+                s.Substrate, 1000 * km * sr.High / (2 * km + sr.High), 1000 * km));
         }
         if (q.Law.HasTemperature)
             lines.Add("Runs at the ends of the temperature range spread 1/T most and pin Ea; before running hotter than before, check the reaction's thermal safety (onset of decomposition, gas evolution, pressure) with calorimetry and defer to local codes and licensed practice.");
         foreach (var e in predicted.Where(e => double.IsFinite(e.Now) && double.IsFinite(e.Proposed)))
-            lines.Add(string.Format(ci, "Expected standard error of {0}: {1:G3} now, {2:G3} with the proposed runs{3}.", e.Parameter, e.Now, e.Proposed,
-                double.IsFinite(e.Replicated) ? string.Format(ci, ", {0:G3} with as many replicates of the current runs", e.Replicated) : ""));
+            lines.Add($"Expected standard error of {e.Parameter}: {ReportNumber.Plain(e.Now, 3)} now, {ReportNumber.Plain(e.Proposed, 3)} with the proposed runs" +
+                (double.IsFinite(e.Replicated) ? $", {ReportNumber.Plain(e.Replicated, 3)} with as many replicates of the current runs." : "."));
         lines.Add("The design is optimal only if the law and its parameters are right; a run that does not fit it is worth more than any design.");
         return lines;
     }

@@ -75,6 +75,10 @@ public static partial class SuggestedPlan
         return ids;
     }
 
+    /// <summary>The unit of the species' [X]0 column in the plan's header, or null when it has none (or no plan).</summary>
+    public static UnitInfo? ConcentrationUnit(string? planText, string species) =>
+        planText is null ? null : Columns(planText, []).FirstOrDefault(c => c.Kind == Kind.Species && c.Species == species)?.Unit;
+
     private enum Kind { Run, File, Temperature, Species, Other }
 
     private sealed record Column(string Header, Kind Kind, UnitInfo? Unit = null, string? Species = null);
