@@ -43,6 +43,18 @@ public static class DesignSimulation
             values[d] = new double[targets.Count];
             widths[d] = new double[targets.Count];
             for (var j = 0; j < targets.Count; j++) (values[d][j], widths[d][j]) = Read(f, targets[j]);
+            if (law is SaturationDesign sd && f.Saturation is null)
+            {
+                // The Series stage fits the saturation law only on three or more [S]0 levels; a two-level design is
+                // then checked by the same weighted fit of the same model, done here directly.
+                var direct = DirectSaturation(sd, points, theta);
+                if (direct is not null)
+                    for (var j = 0; j < targets.Count; j++)
+                    {
+                        var q = direct.Parameters[j];
+                        (values[d][j], widths[d][j]) = (q.Value, 2 * direct.T95 * q.StdError);
+                    }
+            }
             if (lawsInPlay)
             {
                 var sat = f.Saturation;
@@ -100,6 +112,23 @@ public static class DesignSimulation
                 return f.Saturation?.Km is { } km ? (km.Value, km.Ci95High - km.Ci95Low) : (double.NaN, double.NaN);
         }
         return (double.NaN, double.NaN);
+    }
+
+    /// <summary>The saturation law fitted as <see cref="SaturationAnalysis"/> fits it (untransformed rates, weights
+    /// 1/se², Vmax and Km bounded below by 0), started at the planning parameters; null unless it converged with finite errors.</summary>
+    private static Fitting.FitResult? DirectSaturation(SaturationDesign law, IReadOnlyList<RunPoint> runs, double[] theta)
+    {
+        var x = runs.Select(r => r.InitialConcentrations[law.Substrate]).ToArray();
+        var lny = new double[runs.Count, law.CoReactants.Count];
+        for (var i = 0; i < runs.Count; i++)
+            for (var j = 0; j < law.CoReactants.Count; j++) lny[i, j] = Math.Log(runs[i].InitialConcentrations[law.CoReactants[j]]);
+        var model = new SaturationModel(x, lny, law.CoReactants);
+        var lower = Enumerable.Repeat(double.NegativeInfinity, theta.Length).ToArray();
+        lower[0] = 0;
+        lower[1] = 0;
+        var fit = Fitting.NonlinearLeastSquares.Fit(model, runs.Select(r => r.Rate).ToArray(), (double[])theta.Clone(),
+            new Fitting.FitOptions { Weights = OrderAnalysis.RateWeights(runs), Lower = lower });
+        return fit.HasUsableErrors ? fit : null;
     }
 
     /// <summary>Standard normal deviate by the Box–Muller transform (Box &amp; Muller 1958).</summary>

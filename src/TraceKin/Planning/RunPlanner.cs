@@ -104,6 +104,13 @@ public static class RunPlanner
             lines.Add(string.Format(ci, "For comparison: with a constant error and no earlier runs the D-optimal levels are the largest [{0}]0 and Km·Smax/(2·Km + Smax) = {1:G4} mmol/L at Km = {2:G4} mmol/L (Duggleby 1979); earlier runs and a rate-dependent error move them.",
                 s.Substrate, 1000 * km * sr.High / (2 * km + sr.High), 1000 * km));
         }
+        if (q.Law is SaturationDesign sl)
+        {
+            var levels = q.Existing.Select(r => r.InitialConcentrations.GetValueOrDefault(sl.Substrate))
+                .Concat(points.Select(p => p.Conditions.Concentrations[sl.Substrate])).Distinct().Count();
+            if (levels < 3)
+                lines.Add($"These runs give {levels} distinct [{sl.Substrate}]0 levels; TraceKin's report fits the saturation law only on three or more (the simulation fitted it directly), and a third level also shows whether the hyperbola is the right shape: add a run between the two.");
+        }
         if (q.Law.HasTemperature)
             lines.Add("Runs at the ends of the temperature range spread 1/T most and pin Ea; before running hotter than before, check the reaction's thermal safety (onset of decomposition, gas evolution, pressure) with calorimetry and defer to local codes and licensed practice.");
         foreach (var e in predicted.Where(e => double.IsFinite(e.Now) && double.IsFinite(e.Proposed)))

@@ -61,7 +61,10 @@ public class ArrheniusDesignTests(ITestOutputHelper output)
         Assert.Equal(200, proposed.Fitted);
         Assert.True(proposed.MedianWidth < 0.5 * now.MedianWidth);
         Assert.True(proposed.MedianWidth < replicated.MedianWidth);
-        // The predicted shrinkage of se(Ea) and the simulated one agree within 30 %.
+        // Measured when written (seed 3, 200 draws): se(Ea) predicted 1.25 → 0.42 kJ/mol (1.06 with replicates); simulated
+        // spread of Ea 1.32 → 0.54 (1.10); median 95 % width 20.8 → 2.15 (17.9; few temperature groups make t large now).
+        // The predicted shrinkage of se(Ea) and the simulated one agree within 30 % (the report's two-stage Arrhenius fit
+        // keeps a little less information than the one-stage design model).
         var predictedRatio = ea.Proposed / ea.Now;
         var simulatedRatio = proposed.Spread / now.Spread;
         Assert.InRange(simulatedRatio / predictedRatio, 0.7, 1.3);

