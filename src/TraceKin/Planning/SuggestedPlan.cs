@@ -37,8 +37,10 @@ public static partial class SuggestedPlan
         sb.Append(string.Join(",", columns.Select(c => Cell(c.Header)))).Append('\n');
         for (var i = 0; i < runs.Count; i++)
         {
-            var file = ids[i].ToLowerInvariant() + ".csv";
-            for (var n = 2; !files.Add(file); n++) file = $"{ids[i].ToLowerInvariant()}-{n}.csv";
+            // Only ASCII letters, digits, '-', '_' (and '.' after the first character) from the id: a plain file name.
+            var stem = new string(ids[i].ToLowerInvariant().Select((ch, k) => ch is (>= 'a' and <= 'z') or (>= '0' and <= '9') or '-' or '_' || (ch == '.' && k > 0) ? ch : '_').ToArray());
+            var file = stem + ".csv";
+            for (var n = 2; !files.Add(file); n++) file = $"{stem}-{n}.csv";
             var cells = columns.Select(c => c.Kind switch
             {
                 Kind.Run => ids[i],

@@ -77,3 +77,28 @@ public sealed class SuggestCommandTests : IDisposable
         Assert.False(Directory.Exists(outDir));
     }
 }
+
+/// <summary>The written plan reads back through the plan reader whatever the computer's language (de-DE decimal
+/// commas must not leak into the file; common practice, no source).</summary>
+public class SuggestedPlanTests
+{
+    [Theory]
+    [InlineData("de-DE")]
+    [InlineData("fr-FR")]
+    public void Plan_text_uses_a_decimal_point_under_any_culture_and_continues_ids(string culture)
+    {
+        var old = System.Globalization.CultureInfo.CurrentCulture;
+        try
+        {
+            System.Globalization.CultureInfo.CurrentCulture = new System.Globalization.CultureInfo(culture);
+            var runs = new[] { new TraceKin.Planning.RunConditions(new Dictionary<string, double> { ["A"] = 1.25e-3, ["B"] = 0.5 }, 313.15) };
+            var header = "run,file,temperature (°C),[A]0 (mmol/L),[B]0 (mol/L),operator\nW1,w1.csv,25,1,0.5,LK\nW2,w2.csv,25,2,0.5,LK\n";
+            var text = TraceKin.Planning.SuggestedPlan.Text(runs, ["W1", "W2", "X/7"], ["w1.csv", "w2.csv", "w3.csv"], ["A", "B"], header);
+            Assert.Equal("run,file,temperature (°C),[A]0 (mmol/L),[B]0 (mol/L),operator\nW3,w3-2.csv,40,1.25,0.5,\n", text);
+            var plan = Plan.FromText(text, "plan.csv");
+            Assert.Equal(1.25e-3, plan.Rows[0].InitialConcentrations["A"], 12);
+            Assert.Equal(313.15, plan.Rows[0].TemperatureK!.Value, 9);
+        }
+        finally { System.Globalization.CultureInfo.CurrentCulture = old; }
+    }
+}
