@@ -77,4 +77,26 @@ public class SaturationDesignTests(Xunit.Abstractions.ITestOutputHelper output)
         Assert.True(p["with the proposed runs"] > 0.5, string.Join(", ", p));
         Assert.True(p["with the proposed runs"] > p["with as many replicates"] + 0.3, string.Join(", ", p));
     }
+
+    [Fact]
+    public void A_series_the_saturation_law_won_is_planned_on_that_law_at_its_fitted_parameters()
+    {
+        // Invented series: v0 = 1e-5·S/(2 mmol/L + S) from 0.2 to 20 mmol/L, 1 % noise; the Series stage prefers saturation.
+        var rng = new Random(3);
+        var runs = new[] { 0.2e-3, 0.5e-3, 1e-3, 2e-3, 5e-3, 10e-3, 20e-3 }.Select((x, i) =>
+        {
+            var v = 1e-5 * x / (2e-3 + x);
+            return new RunPoint($"E{i + 1}", v * (1 + 0.01 * (rng.NextDouble() * 2 - 1)), 0.01 * v, new Dictionary<string, double> { ["S"] = x }, 298.15);
+        }).ToList();
+        var settings = ModelSettings.Default;
+        var series = new AnalysedSeries("sat", runs, OrderAnalysis.Analyse(runs, settings), settings, null);
+        Assert.Equal(ModelSettings.Saturation, series.Findings.ChosenLaw);
+        var (law, theta) = PlanningSetup.FromSeries(series, null, new Dictionary<string, double>(), false, "summary.json");
+        Assert.IsType<SaturationDesign>(law);
+        Assert.InRange(theta[1] / 2e-3, 0.95, 1.05);
+        var space = PlanningSetup.Space(new PlanningLimits([new ConcentrationRange("S", 0.1e-3, 20e-3)], null, null, 2), law, runs, null);
+        var s = RunPlanner.Suggest(new PlanningRequest(law, theta, RateNoise.FromRuns(runs), runs, space, 2, DesignCriterion.D) { Simulate = false });
+        Assert.Equal(2, s.NewRuns.Count);
+        Assert.All(s.Predicted, p => Assert.True(p.Proposed < p.Now));
+    }
 }

@@ -64,6 +64,36 @@ public sealed class SuggestCommandTests : IDisposable
     }
 
     [Fact]
+    public void A_series_folder_is_analysed_in_memory_and_planned_on_without_writing_into_it()
+    {
+        using var copy = RepoPaths.CopyOf(RepoPaths.Sample("violet-complex-acid"));
+        var before = Directory.GetFiles(copy.Path).Order(StringComparer.Ordinal).ToArray();
+        var outDir = Path.Combine(_dir.Path, "from-folder");
+        var (code, text, error) = Suggest(new SuggestOptions(new DirectoryInfo(copy.Path), new DirectoryInfo(outDir), 2)
+        {
+            Ranges = ["complex=0.1..1.5"], Criterion = "variance:n(complex)",
+        });
+        Assert.True(code == ExitCodes.Ok, error);
+        Assert.Equal(before, Directory.GetFiles(copy.Path).Order(StringComparer.Ordinal).ToArray());
+        var plan = Plan.FromFile(Path.Combine(outDir, "plan.csv"));
+        Assert.Equal(["R9", "R10"], plan.Rows.Select(r => r.Run));
+        // [H+]0 has no range: held at the series' median level, 100 mmol/L.
+        Assert.All(plan.Rows, r => Assert.Equal(0.1, r.InitialConcentrations["H+"], 9));
+        Assert.Contains("smallest variance of n(complex)", text);
+    }
+
+    [Fact]
+    public void A_criterion_naming_no_parameter_of_the_law_is_refused_naming_the_option()
+    {
+        var (code, _, error) = Suggest(new SuggestOptions(null, new DirectoryInfo(Path.Combine(_dir.Path, "c")), 4)
+        {
+            Law = "saturation", Guesses = ["Vmax=1e-5", "Km=2 mmol/L"], Noise = 1e-7, Ranges = ["S=0.1..10 mmol/L"], Criterion = "variance:Ea",
+        });
+        Assert.Equal(ExitCodes.Usage, code);
+        Assert.Contains("[--criterion]", error);
+    }
+
+    [Fact]
     public void A_bad_option_is_one_located_message_and_exit_1_with_nothing_written()
     {
         var outDir = Path.Combine(_dir.Path, "bad");
