@@ -112,6 +112,14 @@ public static class RunPlanner
                 lines.Add($"These runs give {levels} distinct [{sl.Substrate}]0 levels; TraceKin's report fits the saturation law only on three or more (the simulation fitted it directly), and a third level also shows whether the hyperbola is the right shape: add a run between the two.");
         }
         if (q.Law.HasTemperature)
+        {
+            var levels = q.Existing.Where(r => r.TemperatureK is not null).Select(r => r.TemperatureK!.Value)
+                .Concat(points.Where(p => p.Conditions.TemperatureK is not null).Select(p => p.Conditions.TemperatureK!.Value))
+                .Select(t => Math.Round(t / 0.05)).Distinct().Count();
+            if (levels < 3)
+                lines.Add($"These runs give {levels} temperature level(s); TraceKin's Arrhenius fit needs at least 3 (k per temperature, then Ea), so the simulation could not fit Ea: add runs at a temperature in between (it also shows whether ln k is straight in 1/T).");
+        }
+        if (q.Law.HasTemperature)
             lines.Add("Runs at the ends of the temperature range spread 1/T most and pin Ea; before running hotter than before, check the reaction's thermal safety (onset of decomposition, gas evolution, pressure) with calorimetry and defer to local codes and licensed practice.");
         foreach (var e in predicted.Where(e => double.IsFinite(e.Now) && double.IsFinite(e.Proposed)))
             lines.Add($"Expected standard error of {e.Parameter}: {ReportNumber.Plain(e.Now, 3)} now, {ReportNumber.Plain(e.Proposed, 3)} with the proposed runs" +

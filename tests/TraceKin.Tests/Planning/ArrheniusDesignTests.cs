@@ -74,4 +74,15 @@ public class ArrheniusDesignTests(ITestOutputHelper output)
 
     private static SimulatedInterval Sim(RunSuggestion s, string design) =>
         s.Simulated.Single(d => d.Name == design).Intervals.Single(x => x.Parameter == "Ea");
+
+    [Fact]
+    public void A_new_study_over_temperature_at_two_levels_says_the_Arrhenius_fit_needs_a_third()
+    {
+        var (law, theta) = PlanningSetup.FromGuesses("power", ["A"], null, new Dictionary<string, double> { ["k"] = 1e-3, ["n(A)"] = 1, ["Ea"] = 60 }, true, 298.15);
+        var space = PlanningSetup.Space(new PlanningLimits([new ConcentrationRange("A", 0.1e-3, 2e-3)], 293.15, 323.15, 4), law, [], 298.15);
+        var s = RunPlanner.Suggest(new PlanningRequest(law, theta, RateNoise.Relative(0.02), [], space, 4, DesignCriterion.D) { Simulate = false });
+        // D-optimal for a law linear in 1/T on the log scale: the two ends of the range (common practice, no source).
+        Assert.All(s.NewRuns, r => Assert.True(Math.Abs(r.TemperatureK!.Value - 293.15) < 0.01 || Math.Abs(r.TemperatureK!.Value - 323.15) < 0.01));
+        Assert.Contains(s.Explanation, l => l.Contains("needs at least 3"));
+    }
 }
