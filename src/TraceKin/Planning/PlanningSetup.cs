@@ -184,7 +184,8 @@ public static class PlanningSetup
             var temps = existing.Where(r => r.TemperatureK is not null).Select(r => r.TemperatureK!.Value).ToArray();
             if (temps.Length > 0 && temps.Max() - temps.Min() > 0.05 && law.HasTemperature) { lo = temps.Min(); hi = temps.Max(); }
             else if (temps.Length > 0) lo = hi = temps.Order().ElementAt(temps.Length / 2);
-            else lo = hi = fallbackTemperatureK;
+            else if (existing.Count == 0) lo = hi = fallbackTemperatureK; // a new study: the reference temperature
+            // else a series planned without temperatures: the new runs have none either.
         }
         var space = new DesignSpace(limits.Ranges, held, lo, hi);
         if (space.Dimension == 0)
