@@ -1,20 +1,21 @@
 #!/usr/bin/env bash
 # Batch speed of `tracekin analyse` against the scripted baseline (bench/README.md, "Batch speed").
 #
-#   bench/batch.sh                      # 200 x 10,000 (with and without plots) and 1,000 x 10,000
+#   bench/batch.sh                      # 200 x 10,000 (with and without plots), 1,000 x 10,000 and 20,000 x 200
 #   BENCH_SIZES="20x2000" bench/batch.sh  # a quick smoke run
 #
 # Environment: BENCH_PEER (peer scripts; default ../shared/bench-peer from the repo root),
 # BENCH_WORK (batches and outputs; default $TMPDIR/tracekin-bench, reused between runs),
 # BENCH_SIZES (space-separated RUNSxPOINTS; the first size is also timed with plots against the baseline,
 # the others with plots for TraceKin alone),
-# BENCH_WORKERS (TraceKin workers; default: all cores).
+# BENCH_WORKERS (TraceKin workers; default: all cores),
+# BENCH_MORE_PLOTS (0: skip TraceKin's runs with PNGs on the sizes after the first; default 1).
 set -euo pipefail
 
 REPO=$(cd "$(dirname "$0")/.." && pwd)
 PEER=${BENCH_PEER:-$REPO/../shared/bench-peer}
 WORK=${BENCH_WORK:-${TMPDIR:-/tmp}/tracekin-bench}
-SIZES=${BENCH_SIZES:-"200x10000 1000x10000"}
+SIZES=${BENCH_SIZES:-"200x10000 1000x10000 20000x200"}
 WORKERS=${BENCH_WORKERS:-$(nproc)}
 PY=/usr/bin/python3
 
@@ -96,10 +97,16 @@ for size in $SIZES; do
     b_np=$WALL; b_np_mem=$PEAK
     timed "tracekin-noplots-$size" "${TRACEKIN[@]}" analyse "$batch" --out "$out/tracekin-noplots" --no-plots --workers "$WORKERS"
     t_np=$WALL; t_np_mem=$PEAK
-    printf '%-34s %8.2f s %6s MB\n' "baseline, no plots, 1 job" "$b_np" "$b_np_mem" | tee -a "$REPORT"
-    printf '%-34s %8.2f s %6s MB  %s runs/s\n' "TraceKin, no plots" "$t_np" "$t_np_mem" "$(rate "$runs" "$t_np")" | tee -a "$REPORT"
+    printf '%-34s %8.2f s %6s MB  %s runs/s, %s points/s\n' "baseline, no plots, 1 job" "$b_np" "$b_np_mem" "$(rate "$runs" "$b_np")" "$(rate $((runs * points)) "$b_np")" | tee -a "$REPORT"
+    printf '%-34s %8.2f s %6s MB  %s runs/s, %s points/s\n' "TraceKin, no plots" "$t_np" "$t_np_mem" "$(rate "$runs" "$t_np")" "$(rate $((runs * points)) "$t_np")" | tee -a "$REPORT"
     printf '%-34s %8s\n' "ratio baseline/TraceKin, no plots" "$(ratio "$b_np" "$t_np")" | tee -a "$REPORT"
-    printf '%-34s %8s   (target <= 2; process wall times)\n' "TraceKin no plots / parse only" "$(ratio "$t_np" "$parse_wall")" | tee -a "$REPORT"
+    printf '%-34s %8s   (diagnostic; process wall times)\n' "TraceKin no plots / parse only" "$(ratio "$t_np" "$parse_wall")" | tee -a "$REPORT"
+    # Where TraceKin's time went (its log's timing line) and how big the outputs are per run.
+    timing=$(sed -n 's/.*timing: //p' "$out/tracekin-noplots/tracekin.log" | tail -1)
+    series_s=$(sed -n 's/.*series stage \([0-9.]*\) s.*/\1/p' <<<"$timing")
+    printf '%-34s %s (series stage %s %% of the wall time)\n' "TraceKin stages" "$timing" "$(awk -v a="$series_s" -v b="$t_np" 'BEGIN { printf "%.1f", 100 * a / b }')" | tee -a "$REPORT"
+    printf '%-34s %8s B/run; report.html %s kB\n' "summary.json" "$(awk -v a="$(stat -c %s "$out/tracekin-noplots/summary.json")" -v n="$runs" 'BEGIN { printf "%.0f", a / n }')" \
+        "$(( $(stat -c %s "$out/tracekin-noplots/report.html") / 1024 ))" | tee -a "$REPORT"
     (( t_np_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
     $PY "$REPO/bench/compare_results.py" "$out/tracekin-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
         sed 's/^/  /' | tee -a "$REPORT" || STATUS=1
@@ -116,7 +123,7 @@ for size in $SIZES; do
         cmp -s "$out/tracekin-plots/summary.json" "$out/tracekin-noplots/summary.json" ||
             { echo "  summary.json differs between the runs with and without plots" | tee -a "$REPORT"; STATUS=1; }
         FIRST=0
-    else
+    elif [[ ${BENCH_MORE_PLOTS:-1} != 0 ]]; then
         # TraceKin alone with PNGs on the bigger batches: memory must stay bounded whatever the batch size.
         timed "tracekin-plots-$size" "${TRACEKIN[@]}" analyse "$batch" --out "$out/tracekin-plots" --workers "$WORKERS"
         printf '%-34s %8.2f s %6s MB  %s runs/s\n' "TraceKin, PNGs" "$WALL" "$PEAK" "$(rate "$runs" "$WALL")" | tee -a "$REPORT"

@@ -40,4 +40,8 @@ public sealed record SeriesResult(
     string ToolVersion)
 {
     public string Name => Config is { Name.Length: > 0 } c ? c.Name : Path.GetFileName(Path.TrimEndingDirectorySeparator(Folder));
+
+    /// <summary>Wall time of the per-run stages (all workers) and of the series stage; for the log, never in numeric outputs.</summary>
+    public TimeSpan RunsTime { get; init; }
+    public TimeSpan SeriesStageTime { get; init; }
 }

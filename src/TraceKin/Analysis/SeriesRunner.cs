@@ -52,6 +52,7 @@ public static class SeriesRunner
         }
 
         options.Planned?.Invoke(plan.Rows.Count);
+        var runsClock = System.Diagnostics.Stopwatch.StartNew();
         var slots = new (RunResult? Run, Problem? Problem, RunTrace? FitTrace)[plan.Rows.Count];
         options.RunSink?.Begin(plan);
         // Rows are handed to the workers one at a time in plan order (not in a block per worker), so runs finish
@@ -113,13 +114,18 @@ public static class SeriesRunner
             RateSystematicError = x.Run.Rates.Headline.ModelStdError,
         }).ToList();
         SeriesFindings? findings = null;
+        var seriesClock = System.Diagnostics.Stopwatch.StartNew();
         try { findings = OrderAnalysis.Analyse(points, config.Model); }
         catch (Exception ex) when (ex is not OperationCanceledException)
         {
             // A defect in the series analysis must not lose the per-run results: report it plainly instead.
             warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
         }
-        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
+        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion)
+        {
+            RunsTime = runsClock.Elapsed - seriesClock.Elapsed,
+            SeriesStageTime = seriesClock.Elapsed,
+        };
     }
 
     /// <summary>One run through Ingest → Signal → Rates; bad input becomes its located problem, never an exception.</summary>
