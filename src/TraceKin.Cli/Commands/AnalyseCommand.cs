@@ -153,6 +153,8 @@ public static class AnalyseCommand
             RunSink = RunSinks.Combine(runPlot, tables),
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
+            // The per-run tables hold every fit; beyond the runs the report lists fit by fit, the result keeps the chosen.
+            KeepEveryFitUpTo = ReportHtml.MaxListedRuns,
             Progress = progress.Report,
             Planned = progress.Planned,
         };

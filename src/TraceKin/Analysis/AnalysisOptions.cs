@@ -28,6 +28,12 @@ public sealed record AnalysisOptions
     public Action<int>? Planned { get; init; }
     /// <summary>What the result keeps of each run's traces; <see cref="TraceRetention.Display"/> bounds memory for big batches.</summary>
     public TraceRetention Retention { get; init; } = TraceRetention.Full;
+    /// <summary>
+    /// With <see cref="TraceRetention.None"/> and a run sink that writes every fit as the runs finish (the per-run
+    /// tables), a series planned with more runs than this keeps of each run, once the sink has seen it, only the chosen
+    /// law's fit and any that did not converge, so memory stays flat however many runs there are. Default: keep all.
+    /// </summary>
+    public int KeepEveryFitUpTo { get; init; } = int.MaxValue;
     /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>
     public int RetainedColumns { get; init; } = 200;
     /// <summary>

@@ -63,7 +63,9 @@ public static class RunThinning
     }
 
     /// <summary>The run without per-point arrays (see <see cref="TraceRetention.None"/>).</summary>
-    public static RunResult Strip(RunResult run)
+    /// <param name="keepEveryFit">False: only the chosen fit and the fits that did not converge are kept (their notes
+    /// are reported); the others were written by the run sink.</param>
+    public static RunResult Strip(RunResult run, bool keepEveryFit = true)
     {
         static Trace Empty(Trace t) => t with { Times = [], Values = [] };
         var export = run.Export with
@@ -71,14 +73,21 @@ public static class RunThinning
             Channels = run.Export.Channels.Select(Empty).ToArray(),
             Auxiliary = run.Export.Auxiliary.Select(Empty).ToArray(),
         };
-        var converted = run.Converted with { Concentration = Empty(run.Converted.Concentration) };
+        var converted = run.Converted with { Concentration = Empty(run.Converted.Concentration), StdErrors = null };
         var estimates = new Dictionary<InitialRate, InitialRate>(ReferenceEqualityComparer.Instance);
         InitialRate StripRate(InitialRate r) => estimates.TryGetValue(r, out var t) ? t : estimates[r] = r with { Fitted = [] };
         var rates = run.Rates with
         {
             Estimates = run.Rates.Estimates.Select(StripRate).ToArray(),
             Headline = StripRate(run.Rates.Headline),
-            Fits = run.Rates.Fits.Select(f => f with { Fitted = [], Fit = f.Fit with { Residuals = [] } }).ToArray(),
+            // The covariances served the initial-rate errors, already computed; the reasons a fit took no part repeat
+            // from run to run, so one copy of each text is kept (at 20,000 runs this is most of what a run retains).
+            Fits = run.Rates.Fits.Where(f => keepEveryFit || f.Chosen || !f.Fit.Converged).Select(f => f with
+            {
+                Fitted = [],
+                Fit = f.Fit with { Residuals = [], Covariance = null },
+                ExcludedBecause = f.ExcludedBecause is { } why ? string.Intern(why) : null,
+            }).ToArray(),
         };
         return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
     }

@@ -73,8 +73,11 @@ public static class SeriesRunner
                 // the series stage gets the points of the full trace its global fit uses, the rest a display copy.
                 if (options.Retention != TraceRetention.Full)
                 {
-                    fitTrace = GlobalFit.Thin(SeriesTrace(run));
-                    run = options.Retention == TraceRetention.None ? RunThinning.Strip(run) : RunThinning.Thin(run, options.RetainedColumns);
+                    // Only the global fit (model.global_fit) reads the traces again: without it, none is kept.
+                    if (config.Model.GlobalFit) fitTrace = GlobalFit.Thin(SeriesTrace(run));
+                    run = options.Retention == TraceRetention.None
+                        ? RunThinning.Strip(run, keepEveryFit: options.RunSink is null || plan.Rows.Count <= options.KeepEveryFitUpTo)
+                        : RunThinning.Thin(run, options.RetainedColumns);
                 }
             }
             else

@@ -526,7 +526,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var count = withFits.Sum(x => x.Rates.Fits.Count);
         if (r.Runs.Count > MaxListedRuns)
         {
-            h.Raw("<p>").Text($"Every candidate fit of every run ({count} fits in {withFits.Count} runs; the chosen one marked) is in ")
+            h.Raw("<p>").Text($"Every candidate fit of the {r.Runs.Count} runs (the chosen one marked) is in ")
                 .Raw("<a href=\"law-fits.csv\">law-fits.csv</a>").Text(" and its parameters in ").Raw("<a href=\"law-parameters.csv\">law-parameters.csv</a>")
                 .Text(", one row each (docs/formats.md, \"Per-run tables\").").Raw("</p>\n</section>\n");
             return;
