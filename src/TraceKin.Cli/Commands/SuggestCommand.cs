@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.CommandLine;
 using System.Globalization;
 using TraceKin.Planning;

@@ -1,5 +1,4 @@
 using TraceKin.Rates;
-using TraceKin.Reports;
 using TraceKin.Traces;
 
 namespace TraceKin.Analysis;

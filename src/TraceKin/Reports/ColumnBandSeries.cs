@@ -1,3 +1,4 @@
+using TraceKin.Traces;
 using OxyPlot;
 using OxyPlot.Series;
 

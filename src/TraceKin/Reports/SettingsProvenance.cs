@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Collections;
 using System.Globalization;
 using System.Reflection;

@@ -6,7 +6,7 @@ namespace TraceKin.Setup;
 
 /// <summary>
 /// Read access to one table of series.toml with errors that name the dotted key. Every key read is recorded,
-/// so <see cref="SeriesConfig"/> can reject misspelt keys instead of silently ignoring them.
+/// so SeriesConfig (Analysis) can reject misspelt keys instead of silently ignoring them.
 /// </summary>
 public sealed class TomlSection
 {

@@ -270,7 +270,7 @@ public sealed record SignalSettings
         return v;
     }
 
-    /// <summary>Sub-tables are not checked by <see cref="SeriesConfig"/>; a misspelt key in one must still be an error.</summary>
+    /// <summary>Sub-tables are not checked by SeriesConfig; a misspelt key in one must still be an error.</summary>
     internal static void RejectUnknown(TomlSection s)
     {
         foreach (var k in s.UnreadKeys)

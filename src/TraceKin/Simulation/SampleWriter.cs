@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Globalization;
 using System.Text;
 using TraceKin.Setup;

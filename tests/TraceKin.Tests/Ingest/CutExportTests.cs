@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Text;
 using TraceKin.Ingest;
 using TraceKin.Traces;
@@ -110,9 +111,9 @@ public class CutExportTests
     [Fact]
     public void The_cut_last_row_key_takes_error_or_drop_and_a_bad_value_is_located_at_it()
     {
-        Assert.Equal("drop", TraceKin.Setup.SeriesConfig.FromText("[ingest]\ncut_last_row = \"drop\"\n", "series.toml").Ingest.CutLastRow);
-        Assert.Equal("error", TraceKin.Setup.SeriesConfig.FromText("", "series.toml").Ingest.CutLastRow);
-        var p = Assert.Throws<InputException>(() => TraceKin.Setup.SeriesConfig.FromText("[ingest]\ncut_last_row = \"repair\"\n", "series.toml")).Problem;
+        Assert.Equal("drop", TraceKin.Analysis.SeriesConfig.FromText("[ingest]\ncut_last_row = \"drop\"\n", "series.toml").Ingest.CutLastRow);
+        Assert.Equal("error", TraceKin.Analysis.SeriesConfig.FromText("", "series.toml").Ingest.CutLastRow);
+        var p = Assert.Throws<InputException>(() => TraceKin.Analysis.SeriesConfig.FromText("[ingest]\ncut_last_row = \"repair\"\n", "series.toml")).Problem;
         Assert.Equal(("series.toml", 2, 1, "ingest.cut_last_row"), (p.File, p.Line, p.Column, p.Key));
     }
 

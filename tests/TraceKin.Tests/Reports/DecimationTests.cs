@@ -1,3 +1,4 @@
+using TraceKin.Traces;
 using TraceKin.Reports;
 
 namespace TraceKin.Tests.Reports;

@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Text;
 using TraceKin.Setup;
 using TraceKin.Tests.Support;

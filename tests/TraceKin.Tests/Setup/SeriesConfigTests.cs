@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using TraceKin.Setup;
 using TraceKin.Traces;
 

@@ -118,7 +118,7 @@ public sealed class CalibrationLayoutTests
     {
         var toml = "[signal]\nkind = \"calibrated\"\nspecies = \"X\"\n[signal.calibration]\nsignal = [0.05, 0.85, 1.65, 2.45]\nconcentration = [0, 1, 2, 3]\n" +
                    "[[signal.calibration.other]]\nspecies = \"Y\"\ncoefficient = 1\nfile = \"std-y.csv\"\n";
-        var ex = Assert.Throws<TraceKin.Traces.InputException>(() => TraceKin.Setup.SeriesConfig.FromText(toml, "series.toml"));
+        var ex = Assert.Throws<TraceKin.Traces.InputException>(() => TraceKin.Analysis.SeriesConfig.FromText(toml, "series.toml"));
         Assert.Equal("signal.calibration.file", ex.Problem.Key);
     }
 }

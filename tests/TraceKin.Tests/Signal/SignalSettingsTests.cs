@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Globalization;
 using TraceKin.Setup;
 using TraceKin.Signal;

@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Globalization;
 using System.Security.Cryptography;
 using System.Text;

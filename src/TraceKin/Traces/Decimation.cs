@@ -1,4 +1,4 @@
-namespace TraceKin.Reports;
+namespace TraceKin.Traces;
 
 /// <summary>
 /// Reduces a dense trace to what a plot can show: per pixel column, the first, minimum, maximum and last point,

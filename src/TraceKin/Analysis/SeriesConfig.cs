@@ -4,9 +4,10 @@ using TraceKin.Ingest;
 using TraceKin.Rates;
 using TraceKin.Series;
 using TraceKin.Signal;
+using TraceKin.Setup;
 using TraceKin.Traces;
 
-namespace TraceKin.Setup;
+namespace TraceKin.Analysis;
 
 /// <summary>
 /// series.toml: series-wide settings. Top-level keys `name` and `description`; tables [ingest], [signal], [rates], [model],

@@ -1,7 +1,8 @@
 using TraceKin.Signal;
+using TraceKin.Setup;
 using TraceKin.Traces;
 
-namespace TraceKin.Setup;
+namespace TraceKin.Analysis;
 
 /// <summary>
 /// What series.toml and plan.csv must agree on before any run is read: every species series.toml names exists as an
