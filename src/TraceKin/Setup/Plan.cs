@@ -32,6 +32,12 @@ public sealed record PlanRow(
     /// <summary>1-based column number of each parameter column's cell on this row (filled or not), to locate an empty one.</summary>
     public IReadOnlyDictionary<string, int> ConditionCells { get; init; } = new Dictionary<string, int>();
 
+    /// <summary>The export channel this run reads (plan column `channel`, e.g. a well "B7"); null: series.toml's signal.channel.</summary>
+    public string? Channel { get; init; }
+
+    /// <summary>1-based line and column of the row's channel cell (0 when the plan has no channel column).</summary>
+    public (int Line, int Column) ChannelCell { get; init; }
+
     /// <summary>1-based line number of each parameter column's cell on this row (differs from <see cref="Line"/> only
     /// after a quoted cell that spans lines).</summary>
     public IReadOnlyDictionary<string, int> ConditionLines { get; init; } = new Dictionary<string, int>();
@@ -93,7 +99,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         var header = head.Cells.Select(c => c.Text).ToArray();
         var headerText = string.Join(delimiter, header);
 
-        int runCol = -1, fileCol = -1, tempCol = -1;
+        int runCol = -1, fileCol = -1, tempCol = -1, channelCol = -1;
         UnitInfo? tempUnit = null;
         var species = new List<(string Name, int Col, UnitInfo Unit)>();
         var conditions = new List<(string Name, string Header, int Col, UnitInfo Unit)>();
@@ -134,6 +140,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             {
                 case "run": runCol = c; break;
                 case "file": fileCol = c; break;
+                case "channel": channelCol = c; break;
                 case "temperature" or "t" or "temp":
                     tempCol = c;
                     var u = um.Groups["unit"].Success ? um.Groups["unit"].Value : "";
@@ -151,6 +158,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         var culture = delimiter == ';' && LooksDecimalComma(table.Rows) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
         var rows = new List<PlanRow>();
         var seenRuns = new Dictionary<string, int>(StringComparer.Ordinal);
+        var seenChannels = new Dictionary<(string File, string Channel), int>();
         foreach (var rec in table.Rows)
         {
             if (rec.Count != header.Length)
@@ -165,6 +173,18 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             seenRuns[run] = rec.Line;
             var fileName = rec[fileCol].Trimmed;
             if (fileName.Length == 0) throw Fail.At(file, rec[fileCol].Line, rec[fileCol].Column, "an empty file name", "the export's file name");
+            string? channel = null;
+            if (channelCol >= 0 && rec[channelCol].Trimmed.Length > 0)
+            {
+                var cell = rec[channelCol];
+                channel = cell.Trimmed;
+                // Two runs reading the same channel of the same file are a typing slip (A1 and A01 are one well).
+                var key = (fileName, WellName.Normalise(channel) ?? channel.ToUpperInvariant());
+                if (seenChannels.TryGetValue(key, out var firstChannelLine))
+                    throw Fail.At(file, cell.Line, cell.Column, $"channel {Fail.Quote(channel)} of {Fail.Quote(fileName)} again (first on line {firstChannelLine})",
+                        "each channel of a file read by one run only", "check the channel column for a repeated well");
+                seenChannels[key] = cell.Line;
+            }
             double? temp = null;
             if (tempCol >= 0 && rec[tempCol].Trimmed.Length > 0)
             {
@@ -222,6 +242,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
             rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
             {
+                Channel = channel, ChannelCell = channelCol >= 0 ? (rec[channelCol].Line, rec[channelCol].Column) : (0, 0),
                 FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
             });
         }
