@@ -173,7 +173,7 @@ internal static class DelimitedReader
         return values.Length > 0;
     }
 
-    private static string InternalUnit(Quantity q, UnitInfo unit) => q switch
+    internal static string InternalUnit(Quantity q, UnitInfo unit) => q switch
     {
         Quantity.Absorbance => Units.Absorbance,
         Quantity.GasVolume => Units.Litre,

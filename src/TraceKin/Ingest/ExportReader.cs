@@ -46,7 +46,12 @@ public static class ExportReader
     }
 
     private static RunExport Read(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows) =>
-        JcampReader.Looks(utf8.Span)
-            ? JcampReader.Read(utf8, file, encoding, settings)
-            : DelimitedReader.Read(utf8, file, encoding, settings, fastRows);
+        settings.Layout switch
+        {
+            "grid" => GridReader.Read(utf8, file, encoding, settings),
+            "columns" => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
+            _ when JcampReader.Looks(utf8.Span) => JcampReader.Read(utf8, file, encoding, settings),
+            _ when GridReader.Looks(utf8.Span) => GridReader.Read(utf8, file, encoding, settings),
+            _ => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
+        };
 }
