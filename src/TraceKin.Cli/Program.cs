@@ -14,6 +14,7 @@ public static class Program
         root.Subcommands.Add(SimulateCommand.Create());
         root.Subcommands.Add(InspectCommand.Create());
         root.Subcommands.Add(WatchCommand.Create());
+        root.Subcommands.Add(PlatePlanCommand.Create());
         return root;
     }
 }
