@@ -62,7 +62,7 @@ public static class SeriesRunner
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            var (run, problem) = AnalyseRun(row, config, exports.Take(row));
+            var (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
             RunTrace? fitTrace = null;
             if (run is not null)
             {
@@ -108,7 +108,8 @@ public static class SeriesRunner
                 ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {listed}"
                 : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {listed}"));
         }
-        var points = analysed.Where(s => config.Model.UseUnresolved || s.Run!.Rates.IsResolved).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
+        // Blank runs are shown with their own (near-zero) rates but are no point of the rate law.
+        var points = analysed.Where(s => s.Run!.Plan.Role != "blank" && (config.Model.UseUnresolved || s.Run!.Rates.IsResolved)).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {
             Trace = x.FitTrace ?? SeriesTrace(x.Run),
             RateSystematicError = x.Run.Rates.Headline.ModelStdError,
@@ -164,7 +165,10 @@ public static class SeriesRunner
     }
 
     /// <summary>One run through Signal → Rates from its export as read (shared with the other runs of the file).</summary>
-    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read)
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read) => AnalyseRun(row, config, read, []);
+
+    /// <param name="blanks">The blank runs the row subtracts (<see cref="PlanRow.BlankRuns"/>) with their exports as read.</param>
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks)
     {
         if (read.AtFile is { } refused) return (null, AtFileCell(row, refused.Found, refused.Expected, refused.Hint));
         if (read.Defect is { } defect) return (null, Internal(row, defect));
@@ -181,6 +185,12 @@ public static class SeriesRunner
                         $"a channel of {Fail.Quote(row.File)}: {ChannelList(export)}", "check the plan's channel column against the export's column or well names") { Input = row.File });
                 config = config with { Signal = config.Signal with { Channel = own } };
             }
+            BlankSubtraction? blank = null;
+            if (blanks.Count > 0)
+            {
+                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config);
+                export = blank.Apply(export, config.Signal.Channel);
+            }
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
             double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
             // With exactly one other reacting species in the plan, its [B]0 lets the Rates stage also try the
@@ -188,6 +198,7 @@ public static class SeriesRunner
             var others = row.InitialConcentrations.Where(kv => kv.Key != converted.Species && kv.Value > 0).ToList();
             double? partner = reference is not null && others.Count == 1 ? others[0].Value : null;
             var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner);
+            if (blank is not null) (converted, rates) = blank.CarryUncertainty(converted, rates, export.Channel(config.Signal.Channel));
             var warnings = OwnWarnings(export, config.Signal.Channel).Concat(converted.Warnings).Concat(rates.Warnings).ToList();
             return (new RunResult(row, read.Hash!, OwnChannels(export, row, config.Signal), converted, rates, warnings), null);
         }
@@ -324,8 +335,16 @@ public static class SeriesRunner
     private sealed class SharedExports(string folder, Plan plan, SeriesConfig config, AnalysisOptions options)
     {
         private readonly ConcurrentDictionary<string, Lazy<ExportRead>> _reads = new(StringComparer.Ordinal);
-        private readonly ConcurrentDictionary<string, int> _left = new(plan.Rows.GroupBy(r => r.File, StringComparer.Ordinal)
+        // a file's uses: its own runs and every use of one of its runs as a blank
+        private readonly ConcurrentDictionary<string, int> _left = new(plan.Rows
+            .Concat(plan.Rows.SelectMany(r => r.BlankRuns).Select(id => plan.Rows.First(x => x.Run == id)))
+            .GroupBy(r => r.File, StringComparer.Ordinal)
             .Select(g => KeyValuePair.Create(g.Key, g.Count())), StringComparer.Ordinal);
+
+        private readonly Dictionary<string, PlanRow> _byRun = plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+
+        /// <summary>The export of a blank run another run subtracts (counted among its file's uses).</summary>
+        public (PlanRow Row, ExportRead Read) TakeBlank(string run) => (_byRun[run], Take(_byRun[run]));
 
         public ExportRead Take(PlanRow row)
         {

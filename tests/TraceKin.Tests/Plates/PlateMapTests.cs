@@ -28,7 +28,7 @@ public class PlateMapTests
         Assert.All(plan.Rows, r => Assert.Equal("plate.csv", r.File));
         Assert.Equal(["A1", "A2", "B1", "B2", "B3"], plan.Rows.Select(r => r.Channel));
         Assert.Equal(0.0005, plan.Rows[2].InitialConcentrations["S"], 12);
-        Assert.Equal("blank", plan.Rows[4].Extra["role"]);
+        Assert.Equal("blank", plan.Rows[4].Role);
     }
 
     [Fact]
