@@ -18,6 +18,8 @@ public static class SeriesRunner
 {
     public const string PlanFile = "plan.csv";
     public const string ConfigFile = "series.toml";
+    /// <summary>The plate map kept beside plan.csv (the grids `tracekin plate-plan` turns into plan rows); not an export.</summary>
+    public const string PlateMapFile = "plate-map.csv";
 
     public static string ToolVersion { get; } =
         typeof(SeriesRunner).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "0.0.0";
@@ -322,7 +324,7 @@ public static class SeriesRunner
         var planned = new HashSet<string>(plan.Rows.Select(r => r.File), StringComparer.Ordinal);
         foreach (var f in Directory.EnumerateFiles(folder).Select(Path.GetFileName).OfType<string>().Order(StringComparer.Ordinal))
         {
-            if (f is PlanFile or ConfigFile || f.StartsWith('.') || planned.Contains(f)) continue;
+            if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
             var ext = Path.GetExtension(f).ToLowerInvariant();
             if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx") yield return f;
         }
