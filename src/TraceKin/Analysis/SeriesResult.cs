@@ -39,5 +39,8 @@ public sealed record SeriesResult(
     IReadOnlyList<Warning> Warnings,
     string ToolVersion)
 {
+    /// <summary>Runs planned with the same conditions and the spread of their rates (sample runs only; blanks are not grouped).</summary>
+    public IReadOnlyList<ReplicateGroup> Replicates { get; init; } = [];
+
     public string Name => Config is { Name.Length: > 0 } c ? c.Name : Path.GetFileName(Path.TrimEndingDirectorySeparator(Folder));
 }

@@ -123,7 +123,13 @@ public static class SeriesRunner
             // A defect in the series analysis must not lose the per-run results: report it plainly instead.
             warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
         }
-        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion);
+        var replicates = ReplicateGroup.Find(runs.Where(r => r.Plan.Role != "blank")
+            .Select(r => new ReplicateRun(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList());
+        foreach (var g in replicates)
+            foreach (var (id, score) in g.Outliers)
+                warnings.Add(new Warning("replicate-outlier", id, string.Create(System.Globalization.CultureInfo.InvariantCulture,
+                    $"this run's initial rate lies apart from its replicates ({string.Join(", ", g.Runs)}; {g.Conditions()}): modified z-score {score:0.0}, beyond ±{ReplicateGroup.OutlierScore} (Iglewicz and Hoaglin)")));
+        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion) { Replicates = replicates };
     }
 
     /// <summary>One run through Ingest → Signal → Rates; bad input becomes its located problem, never an exception.</summary>

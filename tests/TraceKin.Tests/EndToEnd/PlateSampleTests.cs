@@ -31,5 +31,9 @@ public class PlateSampleTests
         var km = truth.RootElement.GetProperty("km").GetProperty("value").GetDouble() / 1000;   // mmol/L → mol/L
         Assert.InRange(vmax, sat.Vmax.Ci95Low, sat.Vmax.Ci95High);
         Assert.InRange(km, sat.Km.Ci95Low, sat.Km.Ci95High);
+        // eight substrate levels in triplicate; the blanks are not grouped
+        Assert.Equal(8, result.Replicates.Count);
+        Assert.All(result.Replicates, g => Assert.Equal(3, g.Runs.Count));
+        Assert.All(result.Replicates, g => Assert.True(g.StdDev > 0 && g.MeanStdError > 0));
     }
 }
