@@ -332,7 +332,7 @@ public static class SeriesRunner
         {
             if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
             var ext = Path.GetExtension(f).ToLowerInvariant();
-            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx") yield return f;
+            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx" or ".xlsx") yield return f;
         }
     }
 

@@ -43,6 +43,9 @@ public sealed record IngestSettings
     /// of wells per reading, the reading's time above it).</summary>
     public string Layout { get; init; } = "auto";
 
+    /// <summary>The sheet of an .xlsx workbook to read, by name or 1-based number; null: the first sheet holding a number.</summary>
+    public string? Sheet { get; init; }
+
     public static IngestSettings Default { get; } = new();
 
     public static IngestSettings FromToml(TomlSection s)
@@ -63,6 +66,7 @@ public sealed record IngestSettings
             IgnoreColumns = s.Strings("ignore_columns") ?? [],
             WellUnit = s.String("well_unit") ?? "AU",
             Layout = s.Choice("layout", "auto", "auto", "columns", "grid"),
+            Sheet = s.String("sheet"),
         };
         if (Units.Find(result.WellUnit) is not { Quantity: Quantity.Absorbance or Quantity.GasVolume or Quantity.Pressure or Quantity.Conductivity or Quantity.Concentration })
             throw Traces.Fail.Setting(s.File, s.KeyName("well_unit"), Traces.Fail.Quote(result.WellUnit), "a signal unit, e.g. \"AU\", \"mS/cm\", \"kPa\"");
