@@ -35,5 +35,8 @@ public class PlateSampleTests
         Assert.Equal(8, result.Replicates.Count);
         Assert.All(result.Replicates, g => Assert.Equal(3, g.Runs.Count));
         Assert.All(result.Replicates, g => Assert.True(g.StdDev > 0 && g.MeanStdError > 0));
+        var html = TraceKin.Reports.ReportHtml.Render(result, null);
+        Assert.Contains("<section id=\"replicates\">", html);
+        Assert.Contains("A1, A2, A3", html);
     }
 }
