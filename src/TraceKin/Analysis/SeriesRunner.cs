@@ -247,7 +247,16 @@ public static class SeriesRunner
     {
         if (channel is null || export.Channels.Count <= 1) return export.Warnings;
         var own = export.FindChannel(channel)!;
-        return export.Warnings.Where(w => !export.Channels.Any(c => !ReferenceEquals(c, own) && w.Message.StartsWith($"channel {Fail.Quote(c.Name)}", StringComparison.Ordinal)));
+        return export.Warnings.Where(w => NamedChannel(w.Message) is not { } named || WellName.SameChannel(named, own.Name));
+    }
+
+    /// <summary>The channel a reader's warning is about ("channel \"A01\" …"), or null when it names none.</summary>
+    private static string? NamedChannel(string message)
+    {
+        const string lead = "channel \"";
+        if (!message.StartsWith(lead, StringComparison.Ordinal)) return null;
+        var end = message.IndexOf('"', lead.Length);
+        return end > lead.Length ? message[lead.Length..end] : null;
     }
 
     /// <summary>

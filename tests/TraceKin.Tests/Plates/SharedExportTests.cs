@@ -95,4 +95,22 @@ public class SharedExportTests
         var run = Assert.Single(result.Runs);
         Assert.InRange(run.Rates.Headline.Value, 0.02 * 0.0008 * 0.97, 0.02 * 0.0008 * 1.03);
     }
+
+    [Fact]
+    public void A_reader_warning_about_one_well_stays_with_that_wells_run()
+    {
+        using var folder = new PlateFolder();
+        // well B01 reads the same value throughout (k = 0): the reader warns about that column only
+        var text = PlateFolder.Wide([("A1", 0.0004, 0.01), ("B01", 0.0004, 0.0)]).Split('\n')
+            .Select((l, i) => i == 0 || l.Length == 0 ? l : string.Join(',', l.Split(',')[..2].Append("0.44000"))).ToArray();
+        folder.Write("plate.csv", string.Join('\n', text));
+        folder.Write("plan.csv", "run,file,channel,[S]0 (mmol/L)\nw1,plate.csv,A1,0.4\nw2,plate.csv,B1,0.4\n");
+
+        var result = SeriesRunner.Analyse(folder.Path, new AnalysisOptions { Workers = 1 });
+
+        var w1 = result.Runs.Single(r => r.Id == "w1");
+        Assert.DoesNotContain(w1.Warnings, w => w.Code == "constant-signal");
+        var w2 = result.Runs.Single(r => r.Id == "w2");
+        Assert.Contains(w2.Warnings, w => w.Code == "constant-signal");
+    }
 }
