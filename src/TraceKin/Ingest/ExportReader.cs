@@ -27,7 +27,7 @@ public static class ExportReader
     internal static RunExport FromBytes(ReadOnlyMemory<byte> bytes, string file, IngestSettings settings, bool fastRows)
     {
         if (bytes.Length == 0) throw Fail.At(file, 1, 1, "an empty file", "a header line and data rows", "was the export saved completely?");
-        if (SpreadsheetReader.Looks(bytes.Span)) return SpreadsheetReader.Read(bytes, file, settings, fastRows);
+        if (SpreadsheetReader.Looks(bytes)) return SpreadsheetReader.Read(bytes, file, settings, fastRows);
         var decoded = TextDecoding.ToUtf8(bytes, file, settings.Encoding);
         return Read(decoded.Utf8, decoded.Encoding, file, settings, fastRows);
     }

@@ -18,8 +18,21 @@ internal static class SpreadsheetReader
     // code-pages provider. Registering it is process-wide but only adds encodings (nothing else changes), once.
     static SpreadsheetReader() => Encoding.RegisterProvider(CodePagesEncodingProvider.Instance);
 
-    /// <summary>A ZIP container ("PK\x03\x04", the ECMA-376 package), which no text export starts with.</summary>
-    public static bool Looks(ReadOnlySpan<byte> bytes) => bytes.Length >= 4 && bytes[0] == 0x50 && bytes[1] == 0x4B && bytes[2] == 3 && bytes[3] == 4;
+    /// <summary>
+    /// A ZIP container ("PK\x03\x04", the ECMA-376 package) holding a workbook part (xl/workbook.xml). Any other
+    /// file, a damaged or foreign ZIP included, goes on to the text readers (which reject a binary file at its first NUL).
+    /// </summary>
+    public static bool Looks(ReadOnlyMemory<byte> bytes)
+    {
+        var b = bytes.Span;
+        if (b.Length < 4 || b[0] != 0x50 || b[1] != 0x4B || b[2] != 3 || b[3] != 4) return false;
+        try
+        {
+            using var zip = new System.IO.Compression.ZipArchive(new MemoryStream(bytes.ToArray(), writable: false), System.IO.Compression.ZipArchiveMode.Read);
+            return zip.GetEntry("xl/workbook.xml") is not null;
+        }
+        catch (Exception ex) when (ex is InvalidDataException or IOException or NotSupportedException or ArgumentException) { return false; }
+    }
 
     public static RunExport Read(ReadOnlyMemory<byte> bytes, string file, IngestSettings settings, bool fastRows)
     {
