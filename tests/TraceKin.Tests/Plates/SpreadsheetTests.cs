@@ -64,4 +64,24 @@ public class SpreadsheetTests
         Assert.Equal((6, 3), (ex.Problem.Line, ex.Problem.Column));
         Assert.StartsWith("sheet \"Readings\", cell C6: ", ex.Problem.Found);
     }
+
+    [Fact]
+    public void A_plate_workbook_in_a_series_gives_each_well_the_rate_of_its_csv_twin()
+    {
+        var csv = PlateFolder.Wide([("A1", 0.0004, 0.01), ("A2", 0.0008, 0.01)]);
+        var rows = csv.TrimEnd('\n').Split('\n').Select((l, i) => l.Split(',').Select(c => i == 0 ? (object?)c : double.Parse(c, CultureInfo.InvariantCulture)).ToArray()).ToList();
+        const string plan = "run,file,channel,[S]0 (mmol/L)\nw1,{0},A1,0.4\nw2,{0},A2,0.8\n";
+        using var a = new PlateFolder();
+        a.Write("plate.csv", csv);
+        a.Write("plan.csv", string.Format(CultureInfo.InvariantCulture, plan, "plate.csv"));
+        using var b = new PlateFolder();
+        File.WriteAllBytes(Path.Combine(b.Path, "plate.xlsx"), MinimalXlsx.Write(("Plate", rows)));
+        b.Write("plan.csv", string.Format(CultureInfo.InvariantCulture, plan, "plate.xlsx"));
+
+        var fromCsv = TraceKin.Analysis.SeriesRunner.Analyse(a.Path, new() { Workers = 1 });
+        var fromXlsx = TraceKin.Analysis.SeriesRunner.Analyse(b.Path, new() { Workers = 1 });
+
+        Assert.Empty(fromXlsx.Rejected);
+        Assert.Equal(fromCsv.Runs.Select(r => r.Rates.Headline.Value), fromXlsx.Runs.Select(r => r.Rates.Headline.Value));
+    }
 }
