@@ -15,6 +15,7 @@ public static class Program
         root.Subcommands.Add(InspectCommand.Create());
         root.Subcommands.Add(WatchCommand.Create());
         root.Subcommands.Add(SuggestCommand.Create());
+        root.Subcommands.Add(PlatePlanCommand.Create());
         return root;
     }
 }

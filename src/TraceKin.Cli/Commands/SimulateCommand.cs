@@ -18,7 +18,10 @@ public static class SimulateCommand
     {
         var series = new Argument<DirectoryInfo>("series") { Description = "Series folder with plan.csv and series.toml; the exports are written there." };
         var k = new Option<double>("--rate-constant", "-k") { Description = "k at the reference temperature, in (mol/L)^(1−Σn)/s.", Required = true };
-        var orders = new Option<string[]>("--order") { Description = "Order of a species, e.g. --order A=1 --order H=1.", AllowMultipleArgumentsPerToken = true, Required = true };
+        var orders = new Option<string[]>("--order") { Description = "Order of a species, e.g. --order A=1 --order H=1 (needed unless --saturation is given).", AllowMultipleArgumentsPerToken = true };
+        var saturation = new Option<string?>("--saturation") { Description = "Make the law saturate in a species, SPECIES=Km with Km in mmol/L: v = k·Π[X]^n·[S]/(Km + [S]) (with no --order, k is Vmax in mol/(L·s))." };
+        var plate = new Option<int>("--plate") { Description = "Wells of the plate for exports that several plan rows share through their channel (96 or 384; default 96).", DefaultValueFactory = _ => 96 };
+        var drift = new Option<double>("--baseline-drift") { Description = "Drift common to every well of a plate export, in signal units per s (default 0).", DefaultValueFactory = _ => 0.0 };
         var coefficients = new Option<string[]>("--coefficient") { Description = "Stoichiometric coefficient ν of a species (default: signal.coefficient for the followed species, −1 for the others with an order).", AllowMultipleArgumentsPerToken = true };
         var force = new Option<bool>("--force") { Description = "Overwrite export files that already exist (by default simulate refuses, so a real export is never replaced)." };
         var ea = new Option<double>("--activation-energy") { Description = "Ea in kJ/mol for runs at other temperatures (default 0)." };
@@ -29,7 +32,7 @@ public static class SimulateCommand
         var seed = new Option<int>("--seed") { Description = "Random seed (default 1).", DefaultValueFactory = _ => 1 };
         var cmd = new Command("simulate", "Write simulated exports for a plan from a known rate law (to plan runs, or to check the analysis on known answers).")
         {
-            series, k, orders, coefficients, ea, tref, duration, interval, noise, seed, force,
+            series, k, orders, coefficients, ea, tref, duration, interval, noise, seed, force, saturation, plate, drift,
         };
         cmd.SetAction(pr =>
         {
@@ -44,6 +47,15 @@ public static class SimulateCommand
                 var nu = ord.Keys.ToDictionary(s => s, s => s == config.Signal.Species ? config.Signal.Coefficient : -1.0);
                 foreach (var (s, v) in Pairs(pr.GetValue(coefficients) ?? [], "--coefficient")) nu[s] = v;
                 var law = new SimulatedLaw(pr.GetValue(k), ord, nu, pr.GetValue(ea) * 1000, pr.GetValue(tref) + 273.15);
+                if (pr.GetValue(saturation) is { } satText)
+                {
+                    var (satSpecies, km) = Pairs([satText], "--saturation").Single();
+                    if (!(km > 0)) throw new FormatException("--saturation expects a positive Km in mmol/L");
+                    law = law with { SaturationSpecies = satSpecies, SaturationConstant = km / 1000 };
+                    if (!nu.ContainsKey(satSpecies)) nu[satSpecies] = satSpecies == config.Signal.Species ? config.Signal.Coefficient : -1.0;
+                }
+                else if (ord.Count == 0) throw new FormatException("give the law's orders (--order A=1) or a saturation (--saturation S=0.4)");
+                if (pr.GetValue(plate) is not (96 or 384)) throw new FormatException("--plate expects 96 or 384");
                 var sampling = new SamplingPlan(pr.GetValue(duration), pr.GetValue(interval), pr.GetValue(noise), pr.GetValue(seed));
                 if (!(sampling.Duration > 0 && sampling.Interval > 0 && sampling.Interval <= sampling.Duration))
                 {
@@ -56,10 +68,15 @@ public static class SimulateCommand
                     Console.Error.WriteLine($"tracekin simulate: {existing.Count} export file(s) named in plan.csv already exist in {dir} ({string.Join(", ", existing.Take(5))}{(existing.Count > 5 ? ", …" : "")}); nothing was written. Pass --force to overwrite them, or simulate into a copy of the plan and series.toml.");
                     return ExitCodes.Usage;
                 }
-                foreach (var row in plan.Rows)
+                // Rows that read a channel of a shared file are wells of one plate export (grid layout); others get a file each.
+                var (plateRows, plateColumns) = pr.GetValue(plate) == 384 ? (16, 24) : (8, 12);
+                foreach (var group in plan.Rows.GroupBy(r => r.File, StringComparer.Ordinal))
                 {
-                    AtomicFile.WriteAllText(Path.Combine(dir, row.File), SampleWriter.ExportText(row, config, law, sampling));
-                    Console.Error.WriteLine($"  wrote {row.File}");
+                    if (group.Any(r => r.Channel is not null))
+                        AtomicFile.WriteAllText(Path.Combine(dir, group.Key), SampleWriter.PlateText(group.ToList(), config, law, sampling, plateRows, plateColumns, pr.GetValue(drift)));
+                    else
+                        foreach (var row in group) AtomicFile.WriteAllText(Path.Combine(dir, row.File), SampleWriter.ExportText(row, config, law, sampling));
+                    Console.Error.WriteLine($"  wrote {group.Key}");
                 }
                 return ExitCodes.Ok;
             }

@@ -371,6 +371,12 @@ public sealed class SeriesWatch
                 _status(input.File is SeriesRunner.PlanFile or SeriesRunner.ConfigFile
                     ? $"{Name}/{input.File}: rejected, the series waits for a fix — {input.Message}"
                     : $"{Name}/{input.File}: rejected — {input.Message}");
+            else if (input.Status == LedgerInput.Analysed && result.Runs.Count(r => r.File == input.File) is var many and > 1)
+            {
+                // a plate export: one line for all its runs, not one per well
+                var ids = result.Runs.Where(r => r.File == input.File).Select(r => r.Id).ToList();
+                _status($"{Name}/{input.File}: analysed, {many} runs ({ids[0]} … {ids[^1]})");
+            }
             else if (input.Status == LedgerInput.Analysed && result.Runs.FirstOrDefault(r => r.File == input.File) is { } run)
             {
                 var h = run.Rates.Headline;

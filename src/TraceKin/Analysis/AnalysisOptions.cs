@@ -41,4 +41,6 @@ public sealed record AnalysisOptions
     /// folder. Off by default: every input must lie inside the folder (see <see cref="Setup.SeriesInputs"/>).
     /// </summary>
     public bool AllowOutsideFiles { get; init; }
+    /// <summary>Called each time an export is parsed, with its file name (once per file, however many runs read it).</summary>
+    public Action<string>? ExportParsed { get; init; }
 }

@@ -39,6 +39,9 @@ public sealed record SeriesResult(
     IReadOnlyList<Warning> Warnings,
     string ToolVersion)
 {
+    /// <summary>Runs planned with the same conditions and the spread of their rates (sample runs only; blanks are not grouped).</summary>
+    public IReadOnlyList<ReplicateGroup> Replicates { get; init; } = [];
+
     public string Name => Config is { Name.Length: > 0 } c ? c.Name : Path.GetFileName(Path.TrimEndingDirectorySeparator(Folder));
 
     /// <summary>Wall time of the per-run stages (all workers) and of the series stage; for the log, never in numeric outputs.</summary>

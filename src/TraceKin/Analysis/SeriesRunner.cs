@@ -18,6 +18,8 @@ public static class SeriesRunner
 {
     public const string PlanFile = "plan.csv";
     public const string ConfigFile = "series.toml";
+    /// <summary>The plate map kept beside plan.csv (the grids `tracekin plate-plan` turns into plan rows); not an export.</summary>
+    public const string PlateMapFile = "plate-map.csv";
 
     public static string ToolVersion { get; } =
         typeof(SeriesRunner).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "0.0.0";
@@ -59,10 +61,11 @@ public static class SeriesRunner
         // close to plan order and a sink that writes in plan order (RunTables) holds only a few runs back.
         var sinkFailures = new ConcurrentQueue<Warning>();
         var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
+        var exports = new SharedExports(folder, plan, config, options);
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            var (run, problem) = AnalyseRun(folder, row, config, options.AllowOutsideFiles);
+            var (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
             RunTrace? fitTrace = null;
             if (run is not null)
             {
@@ -111,7 +114,8 @@ public static class SeriesRunner
                 ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {listed}"
                 : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {listed}"));
         }
-        var points = analysed.Where(s => config.Model.UseUnresolved || s.Run!.Rates.IsResolved).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
+        // Blank runs are shown with their own (near-zero) rates but are no point of the rate law.
+        var points = analysed.Where(s => s.Run!.Plan.Role != "blank" && (config.Model.UseUnresolved || s.Run!.Rates.IsResolved)).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {
             Trace = x.FitTrace ?? SeriesTrace(x.Run),
             RateSystematicError = x.Run.Rates.Headline.ModelStdError,
@@ -124,8 +128,14 @@ public static class SeriesRunner
             // A defect in the series analysis must not lose the per-run results: report it plainly instead.
             warnings.Add(new Warning("series-analysis-failed", "series", $"the series analysis stopped with an internal error ({ex.GetType().Name}: {ex.Message}); per-run results are still written; please report this"));
         }
-        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion)
-        {
+        var replicates = ReplicateGroup.Find(runs.Where(r => r.Plan.Role != "blank")
+            .Select(r => new ReplicateRun(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList());
+        foreach (var g in replicates)
+            foreach (var (id, score) in g.Outliers)
+                warnings.Add(new Warning("replicate-outlier", id, string.Create(System.Globalization.CultureInfo.InvariantCulture,
+                    $"this run's initial rate lies apart from its replicates ({string.Join(", ", g.Runs)}; {g.Conditions()}): modified z-score {score:0.0}, beyond ±{ReplicateGroup.OutlierScore} (Iglewicz and Hoaglin)")));
+        return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion) {
+            Replicates = replicates,
             RunsTime = runsClock.Elapsed - seriesClock.Elapsed,
             SeriesStageTime = seriesClock.Elapsed,
         };
@@ -135,27 +145,68 @@ public static class SeriesRunner
     public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config) => AnalyseRun(folder, row, config, false);
 
     /// <param name="allowOutsideFiles">Read the export even when it resolves outside <paramref name="folder"/>.</param>
-    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config, bool allowOutsideFiles)
+    public static (RunResult? Run, Problem? Problem) AnalyseRun(string folder, PlanRow row, SeriesConfig config, bool allowOutsideFiles) =>
+        AnalyseRun(row, config, ReadExport(folder, row, config, allowOutsideFiles, null));
+
+    /// <summary>
+    /// One export read and parsed, or why not: a refusal or read failure (located at a plan row's file cell by
+    /// <see cref="AtFileCell"/>), a located parse problem, or a defect of ours. Shared by every run that names the file.
+    /// </summary>
+    internal sealed record ExportRead(RunExport? Export, string? Hash, (string Found, string Expected, string Hint)? AtFile, Problem? Parse, Exception? Defect);
+
+    /// <summary>Reads and parses the export a plan row names; never throws for bad input.</summary>
+    internal static ExportRead ReadExport(string folder, PlanRow row, SeriesConfig config, bool allowOutsideFiles, Action<string>? parsed)
     {
-        RunExport? export = null;
         try
         {
             // Only a regular file inside the series folder, checked from its metadata before anything is opened.
             if (SeriesInputs.Check(folder, row.File, allowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
-                return (null, AtFileCell(row, refusal.Found, refusal.Expected, refusal.Hint));
+                return new(null, null, (refusal.Found, refusal.Expected, refusal.Hint), null, null);
             // A pooled buffer, not a new large-object array per file: the bytes are not needed once parsed.
             ExportBytes bytes;
             try { bytes = ExportBytes.Read(path); }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
-                return (null, AtFileCell(row, ex is FileNotFoundException ? $"{Fail.Quote(row.File)}: no such file" : $"{Fail.Quote(row.File)}, a file that cannot be read ({ex.Message})",
-                    "the export named in plan.csv", "check the file column of plan.csv"));
+                return new(null, null, (ex is FileNotFoundException ? $"{Fail.Quote(row.File)}: no such file" : $"{Fail.Quote(row.File)}, a file that cannot be read ({ex.Message})",
+                    "the export named in plan.csv", "check the file column of plan.csv"), null, null);
             }
-            string hash;
             using (bytes)
             {
-                hash = Convert.ToHexStringLower(SHA256.HashData(bytes.Memory.Span));
-                export = ExportReader.FromBytes(bytes.Memory, row.File, config.Ingest);
+                var hash = Convert.ToHexStringLower(SHA256.HashData(bytes.Memory.Span));
+                parsed?.Invoke(row.File);
+                return new(ExportReader.FromBytes(bytes.Memory, row.File, config.Ingest), hash, null, null, null);
+            }
+        }
+        catch (InputException ex) { return new(null, null, null, ex.Problem, null); }
+        catch (Exception ex) when (ex is not OperationCanceledException) { return new(null, null, null, null, ex); }
+    }
+
+    /// <summary>One run through Signal → Rates from its export as read (shared with the other runs of the file).</summary>
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read) => AnalyseRun(row, config, read, []);
+
+    /// <param name="blanks">The blank runs the row subtracts (<see cref="PlanRow.BlankRuns"/>) with their exports as read.</param>
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks)
+    {
+        if (read.AtFile is { } refused) return (null, AtFileCell(row, refused.Found, refused.Expected, refused.Hint));
+        if (read.Defect is { } defect) return (null, Internal(row, defect));
+        if (read.Parse is { } parseProblem) return (null, Located(parseProblem, row, config, null));
+        var export = read.Export!;
+        try
+        {
+            // A run that names its own channel (a well of a plate) reads that one; else series.toml's signal.channel.
+            if (row.Channel is { } own)
+            {
+                if (export.FindChannel(own) is null)
+                    throw new InputException(new Problem(PlanFile, row.ChannelCell.Line > 0 ? row.ChannelCell.Line : row.Line, Math.Max(1, row.ChannelCell.Column),
+                        $"channel {Fail.Quote(own)}, which {Fail.Quote(row.File)} does not have",
+                        $"a channel of {Fail.Quote(row.File)}: {ChannelList(export)}", "check the plan's channel column against the export's column or well names") { Input = row.File });
+                config = config with { Signal = config.Signal with { Channel = own } };
+            }
+            BlankSubtraction? blank = null;
+            if (blanks.Count > 0)
+            {
+                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config);
+                export = blank.Apply(export, config.Signal.Channel);
             }
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
             double? reference = row.InitialConcentrations.TryGetValue(converted.Species, out var c0) && converted.Coefficient < 0 ? c0 : null;
@@ -164,8 +215,9 @@ public static class SeriesRunner
             var others = row.InitialConcentrations.Where(kv => kv.Key != converted.Species && kv.Value > 0).ToList();
             double? partner = reference is not null && others.Count == 1 ? others[0].Value : null;
             var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner);
-            var warnings = export.Warnings.Concat(converted.Warnings).Concat(rates.Warnings).ToList();
-            return (new RunResult(row, hash, export, converted, rates, warnings), null);
+            if (blank is not null) (converted, rates) = blank.CarryUncertainty(converted, rates, export.Channel(config.Signal.Channel));
+            var warnings = OwnWarnings(export, config.Signal.Channel).Concat(converted.Warnings).Concat(rates.Warnings).ToList();
+            return (new RunResult(row, read.Hash!, OwnChannels(export, row, config.Signal), converted, rates, warnings), null);
         }
         catch (InputException ex)
         {
@@ -173,10 +225,47 @@ public static class SeriesRunner
         }
         catch (Exception ex) when (ex is not OperationCanceledException)
         {
-            // A defect of ours must not stop the batch: report it against the file, plainly.
-            return (null, AtFileCell(row, $"an internal error while analysing {Fail.Quote(row.File)} ({ex.GetType().Name}: {ex.Message})", "a readable export",
-                "please report this with the file attached"));
+            return (null, Internal(row, ex));
         }
+    }
+
+    /// <summary>
+    /// A run that names its own channel keeps only the channels it reads (its own, the reference and check channels):
+    /// the other wells of the plate are other runs', and keeping them would grow every run with the plate.
+    /// </summary>
+    private static RunExport OwnChannels(RunExport export, PlanRow row, Signal.SignalSettings s)
+    {
+        if (row.Channel is null || export.Channels.Count <= 1) return export;
+        var kept = new[] { s.Channel, s.ReferenceChannel, s.CheckChannel }.OfType<string>().Select(export.FindChannel).OfType<Trace>().Distinct().ToArray();
+        return export with { Channels = kept };
+    }
+
+    /// <summary>A defect of ours must not stop the batch: it is reported against the file, plainly.</summary>
+    private static Problem Internal(PlanRow row, Exception ex) =>
+        AtFileCell(row, $"an internal error while analysing {Fail.Quote(row.File)} ({ex.GetType().Name}: {ex.Message})", "a readable export",
+            "please report this with the file attached");
+
+    private static string ChannelList(RunExport export) =>
+        string.Join(", ", export.Channels.Take(12).Select(c => c.Name)) + (export.Channels.Count > 12 ? $" … ({export.Channels.Count} in all)" : "");
+
+    /// <summary>
+    /// The export's warnings that concern this run: in a file of many channels, a warning that names another channel
+    /// (a saturated or flat well) belongs to that channel's run only.
+    /// </summary>
+    private static IEnumerable<Warning> OwnWarnings(RunExport export, string? channel)
+    {
+        if (channel is null || export.Channels.Count <= 1) return export.Warnings;
+        var own = export.FindChannel(channel)!;
+        return export.Warnings.Where(w => NamedChannel(w.Message) is not { } named || WellName.SameChannel(named, own.Name));
+    }
+
+    /// <summary>The channel a reader's warning is about ("channel \"A01\" …"), or null when it names none.</summary>
+    private static string? NamedChannel(string message)
+    {
+        const string lead = "channel \"";
+        if (!message.StartsWith(lead, StringComparison.Ordinal)) return null;
+        var end = message.IndexOf('"', lead.Length);
+        return end > lead.Length ? message[lead.Length..end] : null;
     }
 
     /// <summary>
@@ -259,9 +348,37 @@ public static class SeriesRunner
         var planned = new HashSet<string>(plan.Rows.Select(r => r.File), StringComparer.Ordinal);
         foreach (var f in Directory.EnumerateFiles(folder).Select(Path.GetFileName).OfType<string>().Order(StringComparer.Ordinal))
         {
-            if (f is PlanFile or ConfigFile || f.StartsWith('.') || planned.Contains(f)) continue;
+            if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
             var ext = Path.GetExtension(f).ToLowerInvariant();
-            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx") yield return f;
+            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx" or ".xlsx") yield return f;
+        }
+    }
+
+    /// <summary>
+    /// Every export read and parsed once however many plan rows name it (the wells of a plate): the first run to need
+    /// a file reads it, the others wait for that read, and the parsed export is let go when its last run has taken it.
+    /// </summary>
+    private sealed class SharedExports(string folder, Plan plan, SeriesConfig config, AnalysisOptions options)
+    {
+        private readonly ConcurrentDictionary<string, Lazy<ExportRead>> _reads = new(StringComparer.Ordinal);
+        // a file's uses: its own runs and every use of one of its runs as a blank
+        private readonly ConcurrentDictionary<string, int> _left = new(plan.Rows
+            .Concat(plan.Rows.SelectMany(r => r.BlankRuns).Select(id => plan.Rows.First(x => x.Run == id)))
+            .GroupBy(r => r.File, StringComparer.Ordinal)
+            .Select(g => KeyValuePair.Create(g.Key, g.Count())), StringComparer.Ordinal);
+
+        private readonly Dictionary<string, PlanRow> _byRun = plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+
+        /// <summary>The export of a blank run another run subtracts (counted among its file's uses).</summary>
+        public (PlanRow Row, ExportRead Read) TakeBlank(string run) => (_byRun[run], Take(_byRun[run]));
+
+        public ExportRead Take(PlanRow row)
+        {
+            var lazy = _reads.GetOrAdd(row.File, _ => new Lazy<ExportRead>(
+                () => ReadExport(folder, row, config, options.AllowOutsideFiles, options.ExportParsed), LazyThreadSafetyMode.ExecutionAndPublication));
+            var read = lazy.Value;
+            if (_left.AddOrUpdate(row.File, 0, (_, n) => n - 1) <= 0) _reads.TryRemove(row.File, out _);
+            return read;
         }
     }
 }

@@ -127,6 +127,20 @@ internal static partial class ColumnHeader
         if (Contains(ConductivityNames, name))
             return new ColumnSpec(index, header, header.Trim(), ColumnRole.Signal, Quantity.Conductivity, Need(Quantity.Conductivity, null), null);
 
+        // A microplate well ("A1", "B07", "H12"): one channel per well, named in its normal form so A01 and A1 agree.
+        // Without a unit its readings are in ingest.well_unit (absorbance, AU, by default).
+        if (WellName.Normalise(name) is { } well)
+        {
+            var wellUnitText = unitText ?? settings.WellUnit;
+            var wu = Units.Find(wellUnitText)
+                ?? throw Fail.At(file, line, column, $"the unknown unit {Fail.Quote(wellUnitText)} for well {Fail.Quote(header)}", "a signal unit TraceKin knows, e.g. AU, mS/cm, kPa",
+                    unitText is null ? "check ingest.well_unit" : "TraceKin does not guess units");
+            if (wu.Quantity is not (Quantity.Absorbance or Quantity.GasVolume or Quantity.Pressure or Quantity.Conductivity or Quantity.Concentration))
+                throw Fail.At(file, line, column, $"well {Fail.Quote(header)} in {Fail.Quote(wellUnitText)}", "a signal unit (absorbance, volume, pressure, conductivity, concentration)",
+                    unitText is null ? "check ingest.well_unit" : "write the signal's unit after the well name");
+            return new ColumnSpec(index, header, well, ColumnRole.Signal, wu.Quantity, wu, null);
+        }
+
         if (unitText is null)
             throw Fail.At(file, line, column, Fail.Quote(header), "an absorbance column (\"A520\", \"Abs 430 nm\") or a column with its unit, e.g. \"V (mL)\", \"p [kPa]\", \"κ (mS/cm)\"",
                 "add the unit to the header, or list the column in ingest.ignore_columns");

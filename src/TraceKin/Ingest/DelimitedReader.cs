@@ -40,6 +40,18 @@ internal static class DelimitedReader
             columns.Add(ColumnHeader.Classify(c, header[c], settings, file, layout.HeaderLine, layout.HeaderColumns[c]));
         }
         var kept = columns.Where(c => c.Role != ColumnRole.Ignored).ToArray();
+        // Two columns for one channel ("A1" and "A01" are one well) would make a plan's channel ambiguous.
+        var names = new Dictionary<string, ColumnSpec>(StringComparer.OrdinalIgnoreCase);
+        foreach (var c in kept)
+        {
+            if (names.TryGetValue(c.Name, out var first))
+                throw Fail.At(file, layout.HeaderLine, layout.HeaderColumns[c.Index], $"{Fail.Quote(c.Header)}, the same channel as {Fail.Quote(first.Header)} (column {layout.HeaderColumns[first.Index]})",
+                    "one column per channel or well", "remove or rename the repeated column");
+            names[c.Name] = c;
+        }
+        var wells = kept.Count(c => WellName.Normalise(ColumnHeader.Split(c.Header).Name) is not null);
+        if (wells > 0)
+            detected.Add(new("layout", $"columns: a time column and {wells} well column{(wells == 1 ? "" : "s")} (a well without a unit is read in {settings.WellUnit}, ingest.well_unit)"));
         if (!kept.Any(c => c.Role is ColumnRole.Signal or ColumnRole.Reference))
             throw Fail.At(file, layout.HeaderLine, 1, $"no signal column among {string.Join(", ", header.Select(h => Fail.Quote(h)))}",
                 "at least one absorbance, gas volume, pressure or conductivity column", "write the quantity and its unit in the header, e.g. \"A520\" or \"V (mL)\"");
@@ -161,7 +173,7 @@ internal static class DelimitedReader
         return values.Length > 0;
     }
 
-    private static string InternalUnit(Quantity q, UnitInfo unit) => q switch
+    internal static string InternalUnit(Quantity q, UnitInfo unit) => q switch
     {
         Quantity.Absorbance => Units.Absorbance,
         Quantity.GasVolume => Units.Litre,

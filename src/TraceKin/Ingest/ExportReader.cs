@@ -27,6 +27,7 @@ public static class ExportReader
     internal static RunExport FromBytes(ReadOnlyMemory<byte> bytes, string file, IngestSettings settings, bool fastRows)
     {
         if (bytes.Length == 0) throw Fail.At(file, 1, 1, "an empty file", "a header line and data rows", "was the export saved completely?");
+        if (SpreadsheetReader.Looks(bytes)) return SpreadsheetReader.Read(bytes, file, settings, fastRows);
         var decoded = TextDecoding.ToUtf8(bytes, file, settings.Encoding);
         return Read(decoded.Utf8, decoded.Encoding, file, settings, fastRows);
     }
@@ -45,8 +46,17 @@ public static class ExportReader
         return Read(bytes, "text (decoded before reading)", file, settings, fastRows: true);
     }
 
+    /// <summary>UTF-8 text already decoded (a spreadsheet's sheet laid out as text), read by the text layouts.</summary>
+    internal static RunExport ReadText(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows) =>
+        Read(utf8, encoding, file, settings, fastRows);
+
     private static RunExport Read(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows) =>
-        JcampReader.Looks(utf8.Span)
-            ? JcampReader.Read(utf8, file, encoding, settings)
-            : DelimitedReader.Read(utf8, file, encoding, settings, fastRows);
+        settings.Layout switch
+        {
+            "grid" => GridReader.Read(utf8, file, encoding, settings),
+            "columns" => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
+            _ when JcampReader.Looks(utf8.Span) => JcampReader.Read(utf8, file, encoding, settings),
+            _ when GridReader.Looks(utf8.Span) => GridReader.Read(utf8, file, encoding, settings),
+            _ => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
+        };
 }

@@ -1,4 +1,5 @@
 using TraceKin.Setup;
+using TraceKin.Traces;
 
 namespace TraceKin.Ingest;
 
@@ -36,6 +37,15 @@ public sealed record IngestSettings
     /// <summary>Column headers to skip (sample numbers, comments).</summary>
     public IReadOnlyList<string> IgnoreColumns { get; init; } = [];
 
+    /// <summary>Unit of a well's readings when its header gives none (a column "B7", a grid of wells): "AU" by default.</summary>
+    public string WellUnit { get; init; } = "AU";
+    /// <summary>"auto" (sniffed), "columns" (a time column, then one column per channel or well) or "grid" (one grid
+    /// of wells per reading, the reading's time above it).</summary>
+    public string Layout { get; init; } = "auto";
+
+    /// <summary>The sheet of an .xlsx workbook to read, by name or 1-based number; null: the first sheet holding a number.</summary>
+    public string? Sheet { get; init; }
+
     public static IngestSettings Default { get; } = new();
 
     public static IngestSettings FromToml(TomlSection s)
@@ -54,7 +64,12 @@ public sealed record IngestSettings
             SaturationAbsorbance = s.Double("saturation_absorbance", 2.5),
             SaturationPoints = s.Int("saturation_points") ?? 3,
             IgnoreColumns = s.Strings("ignore_columns") ?? [],
+            WellUnit = s.String("well_unit") ?? "AU",
+            Layout = s.Choice("layout", "auto", "auto", "columns", "grid"),
+            Sheet = s.String("sheet"),
         };
+        if (Units.Find(result.WellUnit) is not { Quantity: Quantity.Absorbance or Quantity.GasVolume or Quantity.Pressure or Quantity.Conductivity or Quantity.Concentration })
+            throw Traces.Fail.Setting(s.File, s.KeyName("well_unit"), Traces.Fail.Quote(result.WellUnit), "a signal unit, e.g. \"AU\", \"mS/cm\", \"kPa\"");
         if (result.HeaderLine is < 1)
             throw Traces.Fail.Setting(s.File, s.KeyName("header_line"), result.HeaderLine.Value.ToString(System.Globalization.CultureInfo.InvariantCulture), "a line number of 1 or more");
         if (result.SaturationAbsorbance < 0)

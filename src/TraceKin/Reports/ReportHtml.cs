@@ -56,6 +56,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         Attention(h, r);
         Results(h, r);
         Runs(h, r);
+        Replicates(h, r);
         LawFits(h, r);
         Plots(h, r, plotDir);
         Settings(h, r);
@@ -516,6 +517,26 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
 
     private static double Q2(double[] sorted) => sorted.Length == 0 ? double.NaN
         : sorted.Length % 2 == 1 ? sorted[sorted.Length / 2] : (sorted[sorted.Length / 2 - 1] + sorted[sorted.Length / 2]) / 2;
+
+    /// <summary>Runs planned alike: the spread of their rates beside the fits' own standard errors, outliers named.</summary>
+    private static void Replicates(Html h, SeriesResult r)
+    {
+        if (r.Replicates.Count == 0) return;
+        var unit = r.Runs.Select(x => x.Rates.Headline.Unit).FirstOrDefault() ?? "";
+        h.Raw("<section id=\"replicates\">\n").Element("h2", "Replicates");
+        h.Element("p", "Runs planned with the same conditions. A spread well above the runs' own standard errors means variation between wells or vessels that no single fit sees. An outlying run has a modified z-score beyond ±3.5 (Iglewicz and Hoaglin; docs/methods.md, \"Replicates\").", "class=\"note\"");
+        h.Raw("<table class=\"runs\">\n<thead><tr><th>runs</th><th>conditions</th>").Element("th", $"mean v0 ({unit})").Element("th", $"SD of v0 ({unit})")
+            .Element("th", $"mean SE of v0 ({unit})").Raw("<th>SD / mean SE</th><th>outlying</th></tr></thead>\n<tbody>\n");
+        foreach (var g in r.Replicates)
+        {
+            h.Raw(g.Outliers.Count > 0 ? "<tr class=\"flagged\">" : "<tr>").Element("td", string.Join(", ", g.Runs)).Element("td", g.Conditions())
+                .Element("td", ReportNumber.Plain(g.Mean), "class=\"num\"").Element("td", ReportNumber.Plain(g.StdDev, 2), "class=\"num\"")
+                .Element("td", ReportNumber.Plain(g.MeanStdError, 2), "class=\"num\"")
+                .Element("td", g.MeanStdError > 0 ? ReportNumber.Plain(g.StdDev / g.MeanStdError, 2) : "—", "class=\"num\"")
+                .Element("td", string.Join(", ", g.Outliers.Select(o => $"{o.Run} (z = {ReportNumber.Plain(o.Score, 2)})"))).Raw("</tr>\n");
+        }
+        h.Raw("</tbody>\n</table>\n</section>\n");
+    }
 
     private static void LawFits(Html h, SeriesResult r)
     {

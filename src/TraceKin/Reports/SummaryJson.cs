@@ -149,6 +149,7 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
         }
         w.WriteEndArray();
         SeriesModelsJson.Write(w, f0);
+        if (r.Replicates.Count > 0) Replicates(w, r);
         w.WriteStartArray("rejected");
         foreach (var p in r.Rejected)
         {
@@ -193,6 +194,35 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
         Num(w, "systematicStdError", Math.Abs(h.Value) * relativeSystematic);
         Num(w, "modelStdError", h.ModelStdError);
         w.WriteEndObject();
+    }
+
+    /// <summary>Replicate groups (runs planned alike): their rates' spread beside the fits' standard errors; written only when there are some.</summary>
+    private static void Replicates(Utf8JsonWriter w, SeriesResult r)
+    {
+        w.WriteStartArray("replicates");
+        foreach (var g in r.Replicates)
+        {
+            w.WriteStartObject();
+            w.WriteStartArray("runs");
+            foreach (var id in g.Runs) w.WriteStringValue(id);
+            w.WriteEndArray();
+            w.WriteString("conditions", g.Conditions());
+            Num(w, "meanRate", g.Mean);
+            Num(w, "stdDev", g.StdDev);
+            Num(w, "meanStdError", g.MeanStdError);
+            w.WriteString("unit", r.Runs.FirstOrDefault()?.Rates.Headline.Unit ?? Units.RateUnit);
+            w.WriteStartArray("outliers");
+            foreach (var (id, score) in g.Outliers)
+            {
+                w.WriteStartObject();
+                w.WriteString("run", id);
+                Num(w, "score", score);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
     }
 
     private static void Warnings(Utf8JsonWriter w, IReadOnlyList<Warning> warnings)

@@ -32,6 +32,27 @@ public sealed record PlanRow(
     /// <summary>1-based column number of each parameter column's cell on this row (filled or not), to locate an empty one.</summary>
     public IReadOnlyDictionary<string, int> ConditionCells { get; init; } = new Dictionary<string, int>();
 
+    /// <summary>The export channel this run reads (plan column `channel`, e.g. a well "B7"); null: series.toml's signal.channel.</summary>
+    public string? Channel { get; init; }
+
+    /// <summary>"sample" (default) or "blank" (plan column `role`): a blank run is analysed and shown but kept out of the series fits.</summary>
+    public string Role { get; init; } = "sample";
+
+    /// <summary>The group a blank run belongs to (plan column `group`), named by other runs' `subtract` cells.</summary>
+    public string? Group { get; init; }
+
+    /// <summary>What this run subtracts point by point before conversion (plan column `subtract`): a run id, or a group of blank runs whose mean is taken.</summary>
+    public string? Subtract { get; init; }
+
+    /// <summary>The run ids <see cref="Subtract"/> resolves to (one run, or every blank run of the group), in plan order.</summary>
+    public IReadOnlyList<string> BlankRuns { get; init; } = [];
+
+    /// <summary>1-based line and column of the row's subtract cell (0 when the plan has no subtract column).</summary>
+    public (int Line, int Column) SubtractCell { get; init; }
+
+    /// <summary>1-based line and column of the row's channel cell (0 when the plan has no channel column).</summary>
+    public (int Line, int Column) ChannelCell { get; init; }
+
     /// <summary>1-based line number of each parameter column's cell on this row (differs from <see cref="Line"/> only
     /// after a quoted cell that spans lines).</summary>
     public IReadOnlyDictionary<string, int> ConditionLines { get; init; } = new Dictionary<string, int>();
@@ -93,7 +114,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         var header = head.Cells.Select(c => c.Text).ToArray();
         var headerText = string.Join(delimiter, header);
 
-        int runCol = -1, fileCol = -1, tempCol = -1;
+        int runCol = -1, fileCol = -1, tempCol = -1, channelCol = -1, roleCol = -1, groupCol = -1, subtractCol = -1;
         UnitInfo? tempUnit = null;
         var species = new List<(string Name, int Col, UnitInfo Unit)>();
         var conditions = new List<(string Name, string Header, int Col, UnitInfo Unit)>();
@@ -134,6 +155,10 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             {
                 case "run": runCol = c; break;
                 case "file": fileCol = c; break;
+                case "channel": channelCol = c; break;
+                case "role": roleCol = c; break;
+                case "group": groupCol = c; break;
+                case "subtract": subtractCol = c; break;
                 case "temperature" or "t" or "temp":
                     tempCol = c;
                     var u = um.Groups["unit"].Success ? um.Groups["unit"].Value : "";
@@ -151,6 +176,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         var culture = delimiter == ';' && LooksDecimalComma(table.Rows) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
         var rows = new List<PlanRow>();
         var seenRuns = new Dictionary<string, int>(StringComparer.Ordinal);
+        var seenChannels = new Dictionary<(string File, string Channel), int>();
         foreach (var rec in table.Rows)
         {
             if (rec.Count != header.Length)
@@ -165,6 +191,25 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             seenRuns[run] = rec.Line;
             var fileName = rec[fileCol].Trimmed;
             if (fileName.Length == 0) throw Fail.At(file, rec[fileCol].Line, rec[fileCol].Column, "an empty file name", "the export's file name");
+            string? channel = null;
+            if (channelCol >= 0 && rec[channelCol].Trimmed.Length > 0)
+            {
+                var cell = rec[channelCol];
+                channel = cell.Trimmed;
+                // Two runs reading the same channel of the same file are a typing slip (A1 and A01 are one well).
+                var key = (fileName, WellName.Normalise(channel) ?? channel.ToUpperInvariant());
+                if (seenChannels.TryGetValue(key, out var firstChannelLine))
+                    throw Fail.At(file, cell.Line, cell.Column, $"channel {Fail.Quote(channel)} of {Fail.Quote(fileName)} again (first on line {firstChannelLine})",
+                        "each channel of a file read by one run only", "check the channel column for a repeated well");
+                seenChannels[key] = cell.Line;
+            }
+            var role = "sample";
+            if (roleCol >= 0 && rec[roleCol].Trimmed.Length > 0)
+            {
+                role = rec[roleCol].Trimmed.ToLowerInvariant();
+                if (role is not ("sample" or "blank"))
+                    throw Fail.At(file, rec[roleCol].Line, rec[roleCol].Column, Fail.Quote(rec[roleCol].Trimmed), "a role: sample or blank (or empty for sample)");
+            }
             double? temp = null;
             if (tempCol >= 0 && rec[tempCol].Trimmed.Length > 0)
             {
@@ -222,17 +267,53 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
             rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
             {
+                Role = role,
+                Group = groupCol >= 0 && rec[groupCol].Trimmed.Length > 0 ? rec[groupCol].Trimmed : null,
+                Subtract = subtractCol >= 0 && rec[subtractCol].Trimmed.Length > 0 ? rec[subtractCol].Trimmed : null,
+                SubtractCell = subtractCol >= 0 ? (rec[subtractCol].Line, rec[subtractCol].Column) : (0, 0),
+                Channel = channel, ChannelCell = channelCol >= 0 ? (rec[channelCol].Line, rec[channelCol].Column) : (0, 0),
                 FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
             });
         }
         if (rows.Count == 0)
             throw Fail.At(file, head.EndLine + 1, 1, "no run rows", "one row per run under the header");
+        ResolveBlanks(rows, file);
         return new Plan(file, rows, species.Select(s => s.Name).ToArray())
         {
             HeaderLine = head.Line,
             SpeciesColumns = species.ToDictionary(s => s.Name, s => new PlanColumn(header[s.Col].Trim(), head[s.Col].Column), StringComparer.Ordinal),
             ConditionColumns = conditions.ToDictionary(c => c.Name, c => new PlanColumn(c.Header, head[c.Col].Column), StringComparer.Ordinal),
         };
+    }
+
+    /// <summary>Each `subtract` cell names a run id or a group of blank runs; anything else is a located error.</summary>
+    private static void ResolveBlanks(List<PlanRow> rows, string file)
+    {
+        var ids = rows.Select(r => r.Run).ToHashSet(StringComparer.Ordinal);
+        for (var i = 0; i < rows.Count; i++)
+        {
+            var row = rows[i];
+            if (row.Subtract is not { } what) continue;
+            var (line, column) = row.SubtractCell;
+            if (row.Role == "blank")
+                throw Fail.At(file, line, column, $"a blank run that subtracts {Fail.Quote(what)}", "an empty subtract cell on a blank run", "only sample runs subtract a blank");
+            // a run id, else the well (channel) of a run in the same file, else a group of blank runs
+            var well = WellName.Normalise(what);
+            string[] members = ids.Contains(what)
+                ? [what]
+                : rows.FirstOrDefault(r => well is not null && r.File == row.File && WellName.Normalise(r.Channel) == well) is { } byWell
+                    ? [byWell.Run]
+                    : rows.Where(r => r.Role == "blank" && string.Equals(r.Group, what, StringComparison.Ordinal)).Select(r => r.Run).ToArray();
+            if (members.Length == 0)
+            {
+                var groups = rows.Where(r => r.Role == "blank" && r.Group is not null).Select(r => r.Group!).Distinct(StringComparer.Ordinal).ToList();
+                throw Fail.At(file, line, column, Fail.Quote(what), $"a run id, a well of the same file, or a group of blank runs ({(groups.Count == 0 ? "no row has role blank and a group" : "groups: " + string.Join(", ", groups))})",
+                    "name the blank run, or give blank rows role \"blank\" and this group");
+            }
+            if (members.Contains(row.Run))
+                throw Fail.At(file, line, column, $"run {Fail.Quote(row.Run)} subtracting itself", "another run, or a group of blank runs");
+            rows[i] = row with { BlankRuns = members };
+        }
     }
 
     /// <summary>Decimal commas when the first cell that looks numeric has a comma and no point (and a point, no comma, says decimal points).</summary>

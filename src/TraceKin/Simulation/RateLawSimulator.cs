@@ -4,7 +4,9 @@ namespace TraceKin.Simulation;
 
 /// <summary>
 /// A power-law rate law for simulation: v = k(T)·Π[X]^n_X, d[X]/dt = ν_X·v. k(T) follows Arrhenius,
-/// k = k_ref·exp(−Ea/R·(1/T − 1/T_ref)), when an activation energy is given.
+/// k = k_ref·exp(−Ea/R·(1/T − 1/T_ref)), when an activation energy is given. With <see cref="SaturationSpecies"/> the
+/// law also saturates in that species: v = k·Π[X]^n·[S]/(Km + [S]) (with no orders, the Michaelis–Menten law
+/// v = Vmax·[S]/(Km + [S]), k = Vmax; Michaelis &amp; Menten 1913, from memory).
 /// </summary>
 public sealed record SimulatedLaw(
     double RateConstant,
@@ -13,6 +15,11 @@ public sealed record SimulatedLaw(
     double ActivationEnergy = 0,
     double ReferenceTemperatureK = 298.15)
 {
+    /// <summary>The species the law saturates in, or null.</summary>
+    public string? SaturationSpecies { get; init; }
+    /// <summary>Km of the saturation, mol/L.</summary>
+    public double SaturationConstant { get; init; }
+
     private const double R = PhysicalConstants.GasConstant;
 
     public double RateConstantAt(double? temperatureK) =>
@@ -36,6 +43,8 @@ public static class RateLawSimulator
         var nu = species.Select(s => law.Coefficients.GetValueOrDefault(s, 0)).ToArray();
         var n = species.Select(s => law.Orders.GetValueOrDefault(s, 0)).ToArray();
         var k = law.RateConstantAt(temperatureK);
+        var sat = law.SaturationSpecies is { } satName ? Array.IndexOf(species, satName) : -1;
+        var km = law.SaturationConstant;
         var x = species.Select(s => c0.GetValueOrDefault(s, 0)).ToArray();
         var result = species.ToDictionary(s => s, _ => new double[times.Length]);
         var t = 0.0;
@@ -49,6 +58,7 @@ public static class RateLawSimulator
             var v = k;
             for (var i = 0; i < y.Length; i++)
                 if (n[i] != 0) v *= Math.Pow(Math.Max(y[i], 0), n[i]);
+            if (sat >= 0) v *= Math.Max(y[sat], 0) / (km + Math.Max(y[sat], 0));
             return v;
         }
         void Deriv(double[] y, double[] dy)

@@ -18,6 +18,17 @@ public sealed record RunExport(
     /// <summary>1-based numbers of the first and last line holding data (0 when not known), to locate a problem with the whole trace.</summary>
     public (int First, int Last) DataLines { get; init; }
 
+    /// <summary>The channel of that name, or null when the export has none (any case; a well with or without leading zeros).</summary>
+    public Trace? FindChannel(string name)
+    {
+        foreach (var c in Channels)
+            if (string.Equals(c.Name, name, StringComparison.OrdinalIgnoreCase)) return c;
+        if (WellName.Normalise(name) is { } well)
+            foreach (var c in Channels)
+                if (WellName.Normalise(c.Name) == well) return c;
+        return null;
+    }
+
     /// <summary>The channel of that name (case-insensitive), or the only channel when name is null.</summary>
     public Trace Channel(string? name) => Channel(name, "signal.channel");
 
@@ -32,6 +43,10 @@ public sealed record RunExport(
         }
         foreach (var c in Channels)
             if (string.Equals(c.Name, name, StringComparison.OrdinalIgnoreCase)) return c;
+        // a well named with or without leading zeros ("A1" and "A01")
+        if (WellName.Normalise(name) is { } well)
+            foreach (var c in Channels)
+                if (WellName.Normalise(c.Name) == well) return c;
         throw Fail.Setting(File, key, Fail.Quote(name), $"a channel of this export, one of: {string.Join(", ", Channels.Select(c => c.Name))}",
             "check the column header in the export");
     }

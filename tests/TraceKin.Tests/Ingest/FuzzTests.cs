@@ -15,6 +15,8 @@ public class FuzzTests
         "time\tp [kPa]\tpH\n00:00.0\t101.3\t7.00\n00:30.5\t104.2\t6.95\n01:01.0\t106.8\t6.91\n01:31.5\t109.1\t6.88\n",
         "\"timestamp\",\"κ (mS/cm)\"\n\"2026-03-01T23:59:50+01:00\",\"1,25\"\n\"2026-03-02T00:00:10+01:00\",\"1,31\"\n\"2026-03-02T00:00:30+01:00\",\"1,36\"\n",
         "##TITLE=fading band\n##JCAMP-DX=4.24\n##XUNITS=SECONDS\n##YUNITS=ABSORBANCE\n##YFACTOR=0.001\n##FIRSTX=0\n##LASTX=70\n##NPOINTS=8\n##XYDATA=(X++(Y..Y))\n0A000k0j9j8\n30I43j7Tj6T\n##END=\n",
+        "time (s),0\n,1,2,3\nA,0.10,0.11,0.12\nB,0.20,0.21,0.22\n\ntime (s),30\n,1,2,3\nA,0.13,0.14,0.15\nB,0.23,0.24,0.25\n\ntime (s),60\n,1,2,3\nA,0.16,0.17,0.18\nB,0.26,0.27,0.28\n",
+        "time (min);A1;A02;B1 (AU)\n0;0,10;0,20;0,30\n0,5;0,11;0,21;0,31\n1;0,12;0,22;0,32\n1,5;0,13;0,23;0,33\n",
         "##TITLE=burette\n##JCAMP-DX=5.01\n##XUNITS=MINUTES\n##YUNITS=ML\n##NPOINTS=4\n##FIRSTX=0\n##LASTX=3\n##XYPOINTS=(XY..XY)\n0, 0; 1, 1.2\n2, 2.3; 3, 3.3\n##END=\n",
     ];
 
