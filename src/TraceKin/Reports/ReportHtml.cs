@@ -97,11 +97,30 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         if (problems.Count > 0 || failedChosen.Count > 0 || orderFitBad)
         {
             h.Raw("<div id=\"warnings\" class=\"box warnings\">\n").Element("h3", $"Problems ({problems.Count + failedChosen.Count + (orderFitBad ? 1 : 0)})");
+            var total = problems.Count + failedChosen.Count + (orderFitBad ? 1 : 0);
+            if (total > MaxAttentionItems)
+            {
+                // Many problems (a large batch): one line per kind first, with its count and the first runs it hit, so
+                // the page's first screen still says what went wrong; the whole list folded below it.
+                h.Raw("<ul class=\"by-kind\">\n");
+                foreach (var g in problems.Select(w => (w.Code, w.Where, w.Message)).Concat(failedChosen.Select(f => ("fit-not-converged", f.Run, f.Message + ".")))
+                    .GroupBy(x => x.Item1).OrderByDescending(g => g.Count()))
+                {
+                    var first = g.First();
+                    var runs = string.Join(", ", g.Take(5).Select(x => x.Item2)) + (g.Count() > 5 ? $" and {g.Count() - 5} more" : "");
+                    h.Raw($"<li class=\"warning\" {Html.Attr("data-code", g.Key)}>").Raw("<span class=\"where\">").Text($"{g.Count()} × {g.Key}").Raw("</span>: ")
+                        .Text($"{runs}. First: {first.Item3}").Raw("</li>\n");
+                }
+                if (orderFitBad) WarningItem(h, "warning flagged-fit", "fit-not-converged", "orders", "the order fit did not converge; its numbers are not results.");
+                h.Raw("</ul>\n<details class=\"all-problems\">\n").Element("summary", $"Every problem, one line each ({total})");
+            }
             h.Raw("<ul>\n");
             foreach (var w in problems) WarningItem(h, "warning", w.Code, w.Where, w.Message);
             foreach (var f in failedChosen) WarningItem(h, "warning flagged-fit", "fit-not-converged", f.Run, f.Message + ".");
-            if (orderFitBad) WarningItem(h, "warning flagged-fit", "fit-not-converged", "orders", "the order fit did not converge; its numbers are not results.");
-            h.Raw("</ul>\n</div>\n");
+            if (orderFitBad && total <= MaxAttentionItems) WarningItem(h, "warning flagged-fit", "fit-not-converged", "orders", "the order fit did not converge; its numbers are not results.");
+            h.Raw("</ul>\n");
+            if (total > MaxAttentionItems) h.Raw("</details>\n");
+            h.Raw("</div>\n");
         }
         if (notes.Count > 0 || failedCandidates.Count > 0)
         {
@@ -114,6 +133,9 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         }
         h.Raw("</section>\n");
     }
+
+    /// <summary>Problems listed one by one on the first screen; beyond, one line per kind and the full list folded.</summary>
+    public const int MaxAttentionItems = 25;
 
     private static void WarningItem(Html h, string cls, string code, string where, string message)
     {
