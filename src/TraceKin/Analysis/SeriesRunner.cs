@@ -249,23 +249,14 @@ public static class SeriesRunner
         string.Join(", ", export.Channels.Take(12).Select(c => c.Name)) + (export.Channels.Count > 12 ? $" … ({export.Channels.Count} in all)" : "");
 
     /// <summary>
-    /// The export's warnings that concern this run: in a file of many channels, a warning that names another channel
-    /// (a saturated or flat well) belongs to that channel's run only.
+    /// The export's warnings that concern this run: in a file of many channels, a warning about another channel (a
+    /// saturated or flat well) belongs to that channel's run only.
     /// </summary>
     private static IEnumerable<Warning> OwnWarnings(RunExport export, string? channel)
     {
         if (channel is null || export.Channels.Count <= 1) return export.Warnings;
         var own = export.FindChannel(channel)!;
-        return export.Warnings.Where(w => NamedChannel(w.Message) is not { } named || WellName.SameChannel(named, own.Name));
-    }
-
-    /// <summary>The channel a reader's warning is about ("channel \"A01\" …"), or null when it names none.</summary>
-    private static string? NamedChannel(string message)
-    {
-        const string lead = "channel \"";
-        if (!message.StartsWith(lead, StringComparison.Ordinal)) return null;
-        var end = message.IndexOf('"', lead.Length);
-        return end > lead.Length ? message[lead.Length..end] : null;
+        return export.Warnings.Where(w => w.Channel is not { } named || WellName.SameChannel(named, own.Name));
     }
 
     /// <summary>

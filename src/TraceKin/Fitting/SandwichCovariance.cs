@@ -10,10 +10,10 @@ namespace TraceKin.Fitting;
 /// </summary>
 public static class SandwichCovariance
 {
-    /// <summary>Standard errors (HC3) for every parameter of a fit with Jacobian <paramref name="jac"/> (n × p,
-    /// row-major), weights <paramref name="w"/> (null: equal) and residuals <paramref name="r"/> (y − f). Null when the
-    /// design is singular or a point has leverage 1.</summary>
-    public static double[]? StdErrors(double[] jac, int n, int p, double[]? w, double[] r)
+    /// <summary>(JᵀWJ)⁻¹ for a Jacobian <paramref name="jac"/> (n × p, row-major) and weights <paramref name="w"/>
+    /// (null: equal), or null when the design is singular (non-finite entries; a determinant threshold would scale with
+    /// the weights).</summary>
+    public static double[,]? NormalInverse(double[] jac, int n, int p, double[]? w)
     {
         var a = new double[p, p];
         for (var i = 0; i < n; i++)
@@ -22,13 +22,20 @@ public static class SandwichCovariance
             for (var j = 0; j < p; j++)
                 for (var k = 0; k < p; k++) a[j, k] += wi * jac[i * p + j] * jac[i * p + k];
         }
-        var bm = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(a).Inverse();
+        var inv = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(a).Inverse();
         var b = new double[p, p];
         for (var j = 0; j < p; j++)
-            for (var k = 0; k < p; k++) b[j, k] = bm[j, k];
-        if (!b.Cast<double>().All(double.IsFinite)) return null;
+            for (var k = 0; k < p; k++) b[j, k] = inv[j, k];
+        return b.Cast<double>().All(double.IsFinite) ? b : null;
+    }
+
+    /// <summary>Standard errors (HC3) for every parameter of a fit with Jacobian <paramref name="jac"/> (n × p,
+    /// row-major), weights <paramref name="w"/> (null: equal) and residuals <paramref name="r"/> (y − f). Null when the
+    /// design is singular or a point has leverage 1.</summary>
+    public static double[]? StdErrors(double[] jac, int n, int p, double[]? w, double[] r)
+    {
+        if (NormalInverse(jac, n, p, w) is not { } b) return null;
         var m = new double[p, p];
-        var bj = new double[p];
         for (var i = 0; i < n; i++)
         {
             var wi = w?[i] ?? 1;
@@ -37,7 +44,6 @@ public static class SandwichCovariance
             {
                 double s = 0;
                 for (var k = 0; k < p; k++) s += b[j, k] * jac[i * p + k];
-                bj[j] = s;
                 h += jac[i * p + j] * s;
             }
             h *= wi;

@@ -122,7 +122,7 @@ internal static class DelimitedReader
                 "a signal that changes with time", "is this the right column, and was the instrument recording?");
         }
         foreach (var c in constant)
-            warnings.Add(new Warning("constant-signal", file, $"channel {Fail.Quote(c.Header)} does not change (lines {rows.FirstLine}–{rows.LastLine})"));
+            warnings.Add(new Warning("constant-signal", file, $"channel {Fail.Quote(c.Header)} does not change (lines {rows.FirstLine}–{rows.LastLine})") { Channel = c.Header });
 
         return new RunExport(file, channels, auxiliary, metadata, detected, warnings) { DataLines = (rows.FirstLine, rows.LastLine) };
     }

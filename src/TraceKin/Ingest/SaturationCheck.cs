@@ -49,7 +49,7 @@ internal static class SaturationCheck
         var ranges = string.Join(", ", excluded.Select(r => r.From == r.To ? $"{lineOf(r.From)}" : $"{lineOf(r.From)}–{lineOf(r.To)}"));
         warnings.Add(new Warning("saturated-absorbance", $"{file}:{lineOf(excluded[0].From)}",
             $"channel {Fail.Quote(trace.Name)}: {drop} reading{(drop == 1 ? "" : "s")} stuck at {max.ToString("G6", CultureInfo.InvariantCulture)} AU (a saturated detector) excluded, lines {ranges}" +
-            (kept.Length < 3 ? $"; only {kept.Length} {(kept.Length == 1 ? "reading remains" : "readings remain")}" : "")));
+            (kept.Length < 3 ? $"; only {kept.Length} {(kept.Length == 1 ? "reading remains" : "readings remain")}" : "")) { Channel = trace.Name });
         return trace with { Times = times, Values = kept };
     }
 }

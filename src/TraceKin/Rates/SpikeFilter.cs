@@ -1,3 +1,4 @@
+using TraceKin.Fitting;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Statistics;
 
@@ -126,7 +127,7 @@ public static class SpikeFilter
     public static bool[] FromResiduals(ReadOnlySpan<double> residuals, double floor)
     {
         var flag = new bool[residuals.Length];
-        var (centre, scale) = MedianAndScale(residuals.ToArray());
+        var (centre, scale) = RobustScale.MedianAndScaleInPlace(residuals.ToArray());
         // A perfectly smooth (noise-free) trace has MAD 0; a floor keeps rounding from being called a spike.
         var s = Math.Max(scale, floor);
         if (!(s > 0)) return flag;
@@ -143,21 +144,11 @@ public static class SpikeFilter
         var flag = new bool[n];
         var work = new double[n];
         for (var i = 0; i < n; i++) work[i] = y[i] - fitted[i];
-        var (centre, scale) = MedianAndScale(work);
+        var (centre, scale) = RobustScale.MedianAndScaleInPlace(work);
         var s = Math.Max(scale, floor);
         if (!(s > 0)) return flag;
         var limit = CutoffFor(n) * s;
         for (var i = 0; i < n; i++) flag[i] = Math.Abs(y[i] - fitted[i] - centre) > limit;
         return flag;
-    }
-
-    /// <summary>Median and 1.4826·MAD (the MAD scaled to the SD of a normal sample; Leys et al. 2013, eq. 1), found by
-    /// selection (MathNet's in-place median), not by sorting; reorders and overwrites the array it is given.</summary>
-    private static (double Median, double Scale) MedianAndScale(double[] a)
-    {
-        if (a.Length == 0) return (double.NaN, double.NaN);
-        var med = ArrayStatistics.MedianInplace(a);
-        for (var i = 0; i < a.Length; i++) a[i] = Math.Abs(a[i] - med);
-        return (med, 1.4826 * ArrayStatistics.MedianInplace(a));
     }
 }

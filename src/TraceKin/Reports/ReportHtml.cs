@@ -503,9 +503,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     {
         var v = ks.Select(k => k.Value).Where(double.IsFinite).Order().ToArray();
         if (v.Length < MinHistogramRuns) return;
-        double Q(double p) { var x = p * (v.Length - 1); var i = (int)Math.Floor(x); return i + 1 < v.Length ? v[i] + (x - i) * (v[i + 1] - v[i]) : v[i]; }
-        var (lo, hi, median) = (Q(0.01), Q(0.99), Q(0.5));
-        var mad = 1.4826 * Q2(v.Select(x => Math.Abs(x - median)).Order().ToArray());
+        // Linear interpolation between order statistics (Hyndman & Fan 1996, definition 7, from memory).
+        double Q(double p) => MathNet.Numerics.Statistics.SortedArrayStatistics.QuantileCustom(v, p, MathNet.Numerics.Statistics.QuantileDefinition.R7);
+        var (lo, hi) = (Q(0.01), Q(0.99));
+        var (median, mad) = Fitting.RobustScale.MedianAndScaleInPlace((double[])v.Clone());
         h.Raw("<figure class=\"k-distribution\">\n");
         h.Element("figcaption", $"k for each run ({v.Length} runs{(unit.Length > 0 ? $", {unit}" : "")}): median {ReportNumber.Plain(median)}, spread 1.4826·MAD {ReportNumber.Plain(mad)}");
         if (!(hi > lo))
@@ -536,9 +537,6 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         if (above > 0) h.Raw("<tr>").Element("td", ReportNumber.Plain(hi), "class=\"num\"").Element("td", "", "class=\"num\"").Element("td", above.ToString(CultureInfo.InvariantCulture), "class=\"num\"").Raw("<td></td></tr>\n");
         h.Raw("</tbody>\n</table>\n</figure>\n");
     }
-
-    private static double Q2(double[] sorted) => sorted.Length == 0 ? double.NaN
-        : sorted.Length % 2 == 1 ? sorted[sorted.Length / 2] : (sorted[sorted.Length / 2 - 1] + sorted[sorted.Length / 2]) / 2;
 
     /// <summary>Runs planned alike: the spread of their rates beside the fits' own standard errors, outliers named.</summary>
     private static void Replicates(Html h, SeriesResult r)

@@ -22,14 +22,7 @@ public static class LawChoiceUncertainty
     public static double[]? Propagate(double[] jac, int n, int p, double[]? w, double[] s)
     {
         if (!s.Any(x => x > 0)) return null;
-        var a = new double[p, p];
-        for (var i = 0; i < n; i++)
-        {
-            var wi = w?[i] ?? 1;
-            for (var j = 0; j < p; j++)
-                for (var k = 0; k < p; k++) a[j, k] += wi * jac[i * p + j] * jac[i * p + k];
-        }
-        var inv = Invert(a, p);
+        var inv = SandwichCovariance.NormalInverse(jac, n, p, w);
         if (inv is null) return null;
         var u = new double[p];
         for (var i = 0; i < n; i++)
@@ -49,15 +42,4 @@ public static class LawChoiceUncertainty
 
     /// <summary>√(se² + u_sys²).</summary>
     public static double Combined(double se, double sys) => Math.Sqrt(se * se + sys * sys);
-
-    private static double[,]? Invert(double[,] a, int p)
-    {
-        // A singular design gives non-finite entries (the determinant's size says nothing here: it scales with the
-        // weights), which the check below turns into "no systematic part".
-        var inv = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(a).Inverse();
-        var r = new double[p, p];
-        for (var i = 0; i < p; i++)
-            for (var j = 0; j < p; j++) r[i, j] = inv[i, j];
-        return r.Cast<double>().All(double.IsFinite) ? r : null;
-    }
 }

@@ -1,3 +1,4 @@
+using MathNet.Numerics.Statistics;
 using System.Globalization;
 
 namespace TraceKin.Series;
@@ -47,9 +48,9 @@ public sealed record ReplicateGroup(
         var outliers = new List<(string, double)>();
         if (g.Count >= 3)
         {
-            var median = Median(v);
-            var mad = Median(v.Select(x => Math.Abs(x - median)).ToArray());
-            var floor = Median(g.Select(r => r.StdError).ToArray()) / 0.6745;
+            var median = v.Median();
+            var mad = v.Select(x => Math.Abs(x - median)).Median();
+            var floor = g.Select(r => r.StdError).Median() / 0.6745;
             var scale = Math.Max(mad, floor);
             if (scale > 0)
                 foreach (var r in g)
@@ -67,12 +68,6 @@ public sealed record ReplicateGroup(
         if (a.TemperatureK.HasValue != b.TemperatureK.HasValue || (a.TemperatureK is { } ta && !Eq(ta, b.TemperatureK!.Value))) return false;
         var keys = a.Concentrations.Where(kv => kv.Value != 0).Select(kv => kv.Key).Union(b.Concentrations.Where(kv => kv.Value != 0).Select(kv => kv.Key));
         return keys.All(k => Eq(a.Concentrations.GetValueOrDefault(k), b.Concentrations.GetValueOrDefault(k)));
-    }
-
-    private static double Median(double[] x)
-    {
-        var s = x.Order().ToArray();
-        return s.Length % 2 == 1 ? s[s.Length / 2] : 0.5 * (s[s.Length / 2 - 1] + s[s.Length / 2]);
     }
 
     /// <summary>The group's conditions as the report and warnings print them ("[S]0 = 0.0004 mol/L").</summary>

@@ -7,5 +7,9 @@ namespace TraceKin.Traces;
 /// </summary>
 public sealed record Warning(string Code, string Where, string Message)
 {
+    /// <summary>The export channel the warning concerns (a reader's warning about one column or well), or null: in a
+    /// file shared by many runs it belongs to that channel's run only.</summary>
+    public string? Channel { get; init; }
+
     public override string ToString() => $"{Where}: {Message}";
 }
