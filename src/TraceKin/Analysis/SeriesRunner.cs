@@ -214,7 +214,20 @@ public static class SeriesRunner
             // mixed second-order and pseudo-first-order laws.
             var others = row.InitialConcentrations.Where(kv => kv.Key != converted.Species && kv.Value > 0).ToList();
             double? partner = reference is not null && others.Count == 1 ? others[0].Value : null;
-            var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner);
+            // A product whose limiting reactant the plan gives rises by ν_P·[X]0/|ν_X| at complete reaction.
+            var endKnown = false;
+            if (config.Rates.LimitingReactant is { } limiting && converted.Coefficient > 0)
+            {
+                if (!row.InitialConcentrations.TryGetValue(limiting, out var x0) || !(x0 > 0))
+                    throw new InputException(new Problem(PlanFile, row.Line, 1,
+                        $"no positive [{limiting}]0 on run {Fail.Quote(row.Run)}",
+                        $"a [{limiting}]0 for every run, as rates.limiting_reactant = {Fail.Quote(limiting)} asks",
+                        $"add a [{limiting}]0 column to the plan, or remove rates.limiting_reactant"));
+                reference = converted.Coefficient * x0 / Math.Abs(config.Rates.LimitingCoefficient);
+                partner = null;
+                endKnown = true;
+            }
+            var rates = RateAnalysis.Analyse(converted.Concentration, converted.Coefficient, reference, config.Rates, row.File, partner, endKnown);
             if (blank is not null) (converted, rates) = blank.CarryUncertainty(converted, rates, export.Channel(config.Signal.Channel));
             var warnings = OwnWarnings(export, config.Signal.Channel).Concat(converted.Warnings).Concat(rates.Warnings).ToList();
             return (new RunResult(row, read.Hash!, OwnChannels(export, row, config.Signal), converted, rates, warnings), null);

@@ -40,8 +40,12 @@ public static class IntegratedLawFitter
 
     /// <param name="weights">0 for excluded samples (spikes), else 1.</param>
     /// <param name="drift">"auto", "off" or "on".</param>
-    public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift)
+    /// <param name="endKnown">The whole change is known (|y0 − y_end| = <paramref name="a0"/>, e.g. a product's end level
+    /// from its limiting reactant's [X]0): every law is fitted with the end level following the start level.</param>
+    public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift, bool endKnown = false)
     {
+        if (endKnown && !(a0 > 0)) throw new ArgumentException("a known end needs a positive [A]0", nameof(a0));
+        if (endKnown) partner = null;
         var noise = DifferenceNoise(t, y, weights);
         var tAll = t;
         // The laws are compared on coarse bins; the chosen one is then refitted on the finer bins its numbers are
@@ -81,10 +85,10 @@ public static class IntegratedLawFitter
                     // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
                     var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
                     var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
-                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol);
-                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol);
+                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol, endKnown);
+                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
                 }
-                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol);
+                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol, endKnown: endKnown);
                 if (law is FirstOrderLaw) firstOrder = r;
                 if (!withDrift) plainFits[law.Name] = r;
                 integer.Add(r);
@@ -95,7 +99,7 @@ public static class IntegratedLawFitter
             if (withDrift) continue;
             var seed = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw)
                 .OrderBy(r => r.Item2.AicC).FirstOrDefault();
-            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol));
+            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol, endKnown: endKnown));
         }
 
         // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
@@ -156,7 +160,7 @@ public static class IntegratedLawFitter
         var bestInteger = picks.Where(r => r.Model.Law is not NthOrderLaw).OrderBy(r => r.Fit.AicC).FirstOrDefault();
         var nth = picks.FirstOrDefault(r => r.Model.Law is NthOrderLaw);
         var chosenPair = bestInteger.Fit is null ? nth
-            : nth.Fit is not null && nth.Fit.AicC < bestInteger.Fit.AicC - 10 ? nth : bestInteger;
+            : nth.Fit is not null && (endKnown || nth.Fit.AicC < bestInteger.Fit.AicC - 10) ? nth : bestInteger;
 
         // Only the chosen law's curve is evaluated at every sample (for the plot and the spike check); the others keep
         // their numbers.
@@ -175,7 +179,7 @@ public static class IntegratedLawFitter
                 // Pseudo-first order is the first-order curve re-expressed: one curve, counted once in the average.
                 // Order n joins the average only when it is the chosen law: its extra exponent extrapolates the slope
                 // at t0 its own way, and where it is not clearly better (by 10 AICc) it only adds a bias.
-                else if (f.Converged && m.Law is not PseudoFirstOrderLaw and not NthOrderLaw) participants.Add((m, other));
+                else if (f.Converged && m.Law is not PseudoFirstOrderLaw and not NthOrderLaw && !(endKnown && nth.Fit is not null)) participants.Add((m, other));
                 fits.Add(other);
                 continue;
             }
@@ -185,7 +189,7 @@ public static class IntegratedLawFitter
                 // Refitted on the fine bins from where the comparison left it; its evidence (ΔAICc, Akaike weight)
                 // stays that of the comparison.
                 var refit = FitOne(m.Law, tFine, yFine, wFine, nu, a0, partner, m.Drift, null,
-                    f.Parameters.Select(p => p.Value).ToArray(), f.Parameters.Select(p => !p.Varied).ToArray(), sFine);
+                    f.Parameters.Select(p => p.Value).ToArray(), f.Parameters.Select(p => !p.Varied).ToArray(), sFine, endKnown: endKnown);
                 if (refit.Item2.Converged) (cm, cf, cw) = (refit.Item1, refit.Item2, wFine);
             }
             var described = Describe(cm, cf, true, minAll, sumW, cw, noise);
@@ -199,7 +203,7 @@ public static class IntegratedLawFitter
                     FittedBy = () =>
                     {
                         var fitted = new double[times.Length];
-                        new LawModel(law, times, nu, a0, withDrift).Evaluate(values, fitted);
+                        new LawModel(law, times, nu, a0, withDrift, knownEnd: endKnown).Evaluate(values, fitted);
                         return fitted;
                     },
                 };
@@ -468,9 +472,10 @@ public static class IntegratedLawFitter
     }
 
     internal static (LawModel, FitResult) FitOne(RateLaw law, double[] t, double[] y, double[] w, double nu, double? a0Ref, double? partner, bool drift,
-        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null, double tolerance = 1e-10)
+        (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null, double tolerance = 1e-10,
+        bool endKnown = false)
     {
-        var model = new LawModel(law, t, nu, a0Ref, drift, spread);
+        var model = new LawModel(law, t, nu, a0Ref, drift, spread, endKnown);
         var np = model.ParameterNames.Count;
         var start = new double[np];
         var fixedP = new bool[np];
@@ -517,6 +522,14 @@ public static class IntegratedLawFitter
         for (var s = 0; s < shape.Length; s++) start[LawModel.FirstShape + s] = shape[s];
         if (startOverride is not null) start = startOverride;
         if (fixedOverride is not null) fixedP = fixedOverride;
+        if (model.KnownSpan is { } known)
+        {
+            // The end level follows the start level (y_end = y0 − known span): no parameter, however far beyond the data.
+            fixedP[LawModel.YEnd] = true;
+            lower[LawModel.YEnd] = double.NegativeInfinity;
+            upper[LawModel.YEnd] = double.PositiveInfinity;
+            start[LawModel.YEnd] = start[LawModel.Y0] - known;
+        }
         var options = new FitOptions { Weights = w, Lower = lower, Upper = upper, Fixed = fixedP, MaxIterations = 100, Tolerance = tolerance };
         var fit = NonlinearLeastSquares.Fit(model, y, start, options);
         if (fit.Exit is FitExit.Stalled or FitExit.InvalidValues)
@@ -552,13 +565,22 @@ public static class IntegratedLawFitter
                     fit = f2 with { ExitDetail = f2.ExitDetail + "; a straight line: the end lies beyond the trace (end value held fixed)" };
             }
         }
-        if (!fit.Converged && seed is null && startOverride is null && law is not ZeroOrderLaw
+        if (!fit.Converged && seed is null && startOverride is null && law is not ZeroOrderLaw && model.KnownSpan is null
             && CurvatureStart(law, model, t, y, w, nu, a0Ref, shape, lower, upper) is { } cs)
         {
             // A partly converted trace whose end is far beyond the data: the guess from the end value is poor, and
             // the fit crawls along the valley where y_end and k trade off. Start instead from the trace's own slope
             // and curvature, and give it more steps.
             var f2 = NonlinearLeastSquares.Fit(model, y, cs, options with { MaxIterations = 400 });
+            if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
+        }
+        if (!fit.Converged && law is NthOrderLaw && model.KnownSpan is { } whole && startOverride is null
+            && OrderFromCurvature(model, t, y, w, whole, lower, upper) is { } oc)
+        {
+            // With the end known, the order is the trace's curvature: y″/y′ at t0 = −n·kk·[A]0^(n−1) = n·y′/(y0 − y_end)
+            // (Taylor expansion, common practice, no source). k and n trade off strongly ([A]0^(n−1) moves by e^(Δn·ln[A]0)),
+            // so the fit from the integer law's end can crawl; it starts instead from the order the curvature gives.
+            var f2 = NonlinearLeastSquares.Fit(model, y, oc, options with { MaxIterations = 400 });
             if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
         }
         if (fit.Exit == FitExit.Singular && fit.ExitDetail.Contains("'yEnd'", StringComparison.Ordinal))
@@ -572,6 +594,13 @@ public static class IntegratedLawFitter
             else if (law is ZeroOrderLaw) s2[LawModel.YEnd] = y0 - Math.Sign(y0 - yEnd) * 10 * range;
             var refit = NonlinearLeastSquares.Fit(model, y, s2, options with { Fixed = f2 });
             if (refit.Converged) fit = refit with { ExitDetail = refit.ExitDetail + "; end value held fixed (not determined by the trace)" };
+        }
+        if (model.KnownSpan is { } span && fit.Parameters.Count > LawModel.YEnd)
+        {
+            // Report the end level where the fitted start level puts it.
+            var ps = fit.Parameters.ToArray();
+            ps[LawModel.YEnd] = ps[LawModel.YEnd] with { Value = ps[LawModel.Y0].Value - span, StdError = ps[LawModel.Y0].StdError };
+            fit = fit with { Parameters = ps };
         }
         return (model, fit);
     }
@@ -620,6 +649,31 @@ public static class IntegratedLawFitter
         for (var i = 0; i < shape.Length; i++) start[LawModel.FirstShape + i] = shape[i];
         for (var i = 0; i < start.Length; i++)
             if (!(start[i] >= lower[i] && start[i] <= upper[i])) return null;
+        return start;
+    }
+
+    /// <summary>A start for order n on a trace whose whole change is known: y0, y′(0) and y″(0) from a quadratic over the
+    /// valid samples, n = y″·(y0 − y_end)/(y′)² clamped into the law's bounds (½ when the quadratic shows no deceleration),
+    /// kk from y′(0) = −(y0 − y_end)·kk·[A]0^(n−1). Null when the quadratic fails or y′(0) runs the wrong way.</summary>
+    private static double[]? OrderFromCurvature(LawModel model, double[] t, double[] y, double[] w, double span, double[] lower, double[] upper)
+    {
+        var (tv, yv) = Valid(t, y, w);
+        if (tv.Length < 6 || model.InitialConcentration is not { } a0) return null;
+        var q = LinearLeastSquares.Polynomial(tv, yv, 2);
+        if (!q.Converged) return null;
+        double c0 = q.Parameters[0].Value, c1 = q.Parameters[1].Value, c2 = q.Parameters[2].Value;
+        var n = 2 * c2 * span / (c1 * c1);
+        // A trace whose noise hides its curvature (or shows it the wrong way) starts halfway between zero and first order.
+        if (!double.IsFinite(n) || !(n > 0)) n = 0.5;
+        var nIndex = LawModel.FirstShape;
+        n = Math.Clamp(n, lower[nIndex] + 0.02, upper[nIndex] - 0.02);
+        var kk = -c1 / (span * Math.Pow(a0, n - 1));
+        if (!(kk > 0) || !double.IsFinite(kk)) return null;
+        var start = new double[model.ParameterNames.Count];
+        start[LawModel.Y0] = c0;
+        start[LawModel.YEnd] = c0 - span;
+        start[LawModel.K] = kk / model.Nu;
+        start[nIndex] = n;
         return start;
     }
 

@@ -18,8 +18,16 @@ public sealed class LawModel : IFitModel
     private readonly double[] _grad;
     private readonly int _shapeCount;
 
-    public LawModel(RateLaw law, double[] times, double nu, double? initialConcentration, bool drift, double[]? spread = null)
+    /// <param name="knownEnd">The whole change y0 − y_end is known: |y0 − y_end| = [A]0 (<paramref name="initialConcentration"/>),
+    /// falling for a reactant (ν &lt; 0) and rising for a product; y_end then follows y0 and is no parameter of the fit.</param>
+    public LawModel(RateLaw law, double[] times, double nu, double? initialConcentration, bool drift, double[]? spread = null, bool knownEnd = false)
     {
+        if (knownEnd)
+        {
+            if (initialConcentration is not { } whole || !(whole > 0))
+                throw new ArgumentException("a known end needs a positive [A]0", nameof(initialConcentration));
+            KnownSpan = nu < 0 ? whole : -whole;
+        }
         Law = law;
         _t = times;
         if (spread is not null)
@@ -43,6 +51,8 @@ public sealed class LawModel : IFitModel
     public RateLaw Law { get; }
     public double Nu { get; }
     public double? InitialConcentration { get; }
+    /// <summary>y0 − y_end when the end level is known from the plan (see the constructor), else null.</summary>
+    public double? KnownSpan { get; }
     public bool Drift { get; }
     public string Name { get; }
     public IReadOnlyList<string> ParameterNames { get; }
@@ -53,16 +63,20 @@ public sealed class LawModel : IFitModel
     /// <summary>[A]0 used by the law at these parameters.</summary>
     public double A0(ReadOnlySpan<double> p) => InitialConcentration ?? Math.Abs(p[Y0] - p[YEnd]);
 
+    /// <summary>y0 − y_end at these parameters (the known one when the end is known).</summary>
+    public double Span(ReadOnlySpan<double> p) => KnownSpan ?? p[Y0] - p[YEnd];
+
     public double Value(ReadOnlySpan<double> p, double t)
     {
         var u = Law.Fraction(t, Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount), _grad);
-        var y = p[YEnd] + (p[Y0] - p[YEnd]) * u;
+        var span = Span(p);
+        var y = (KnownSpan is null ? p[YEnd] : p[Y0] - span) + span * u;
         return Drift ? y + p[DriftIndex] * t : y;
     }
 
     /// <summary>d y/dt at t0 = 0 from the chemistry alone (drift excluded): −(y0 − y_end)·kk·g([A]0, shape).</summary>
     public double InitialSlope(ReadOnlySpan<double> p) =>
-        -(p[Y0] - p[YEnd]) * Nu * p[K] * Law.InitialFactor(A0(p), p.Slice(FirstShape, _shapeCount));
+        -Span(p) * Nu * p[K] * Law.InitialFactor(A0(p), p.Slice(FirstShape, _shapeCount));
 
     public double HalfLife(ReadOnlySpan<double> p) => Law.HalfLife(Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount));
 
@@ -71,8 +85,8 @@ public sealed class LawModel : IFitModel
         var a0 = A0(parameters);
         var shape = parameters.Slice(FirstShape, _shapeCount);
         var kk = Nu * parameters[K];
-        double y0 = parameters[Y0], yEnd = parameters[YEnd], d = Drift ? parameters[DriftIndex] : 0;
-        var span = y0 - yEnd;
+        var span = Span(parameters);
+        double yEnd = KnownSpan is null ? parameters[YEnd] : parameters[Y0] - span, d = Drift ? parameters[DriftIndex] : 0;
         if (_tLo is null || _tHi is null)
         {
             for (var i = 0; i < _t.Length; i++)
@@ -91,8 +105,9 @@ public sealed class LawModel : IFitModel
         var a0 = A0(parameters);
         var shape = parameters.Slice(FirstShape, _shapeCount);
         var kk = Nu * parameters[K];
-        var span = parameters[Y0] - parameters[YEnd];
+        var span = Span(parameters);
         var fromTrace = InitialConcentration is null;
+        var known = KnownSpan is not null;
         var sgn = span >= 0 ? 1.0 : -1.0;
         var np = ParameterNames.Count;
         Span<double> g2 = stackalloc double[_grad.Length];
@@ -109,8 +124,8 @@ public sealed class LawModel : IFitModel
             }
             var row = jacobian.Slice(i * np, np);
             var viaA0 = fromTrace ? span * _grad[1] * sgn : 0;
-            row[Y0] = u + viaA0;
-            row[YEnd] = 1 - u - viaA0;
+            row[Y0] = known ? 1 : u + viaA0;
+            row[YEnd] = known ? 0 : 1 - u - viaA0;
             row[K] = span * Nu * _grad[0];
             for (var s = 0; s < _shapeCount; s++) row[FirstShape + s] = span * _grad[2 + s];
             if (Drift) row[DriftIndex] = _t[i];

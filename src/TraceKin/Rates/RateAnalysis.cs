@@ -18,8 +18,10 @@ public static class RateAnalysis
 
     /// <param name="partnerConcentration">[B]0 of a second reactant, when known: enables the mixed second-order and
     /// pseudo-first-order laws.</param>
+    /// <param name="endKnown">The followed species changes by exactly <paramref name="referenceConcentration"/> at complete
+    /// reaction (a product whose limiting reactant's [X]0 the plan gives): the laws are fitted with that end level.</param>
     public static RunRates Analyse(Trace concentration, double coefficient, double? referenceConcentration, RateSettings settings, string where,
-        double? partnerConcentration)
+        double? partnerConcentration, bool endKnown = false)
     {
         var ci = CultureInfo.InvariantCulture;
         var warnings = new List<Warning>();
@@ -39,7 +41,7 @@ public static class RateAnalysis
             for (var i = 0; i < n; i++) w[i] = candidates[i] ? 0 : 1;
         }
         else w = Ones(n);
-        var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
+        var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown);
         var spikes = candidates;
         if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { } chosen && chosen.Fitted.Length == n)
         {
@@ -52,7 +54,7 @@ public static class RateAnalysis
             if (!spikes.AsSpan().SequenceEqual(candidates))
             {
                 for (var i = 0; i < n; i++) w[i] = spikes[i] ? 0 : 1;
-                selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift);
+                selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown);
             }
         }
         var spikeList = new List<Spike>();

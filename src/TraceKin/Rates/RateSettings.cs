@@ -18,6 +18,12 @@ public sealed record RateSettings
     /// <summary>Linear baseline-drift term in the integrated-law fits: "auto" (by AICc evidence), "off" or "on".</summary>
     public string Drift { get; init; } = "auto";
 
+    /// <summary>For a product curve: the reactant whose plan [X]0 fixes how far the product rises at complete reaction,
+    /// [P]∞ − [P]0 = ν_P·[X]0/|ν_X| (null: the end level is fitted).</summary>
+    public string? LimitingReactant { get; init; }
+    /// <summary>ν of <see cref="LimitingReactant"/> (negative).</summary>
+    public double LimitingCoefficient { get; init; } = -1;
+
     public static RateSettings Default { get; } = new();
 
     public static RateSettings FromToml(TomlSection s)
@@ -33,6 +39,17 @@ public sealed record RateSettings
             Drift = s.Choice("drift", d.Drift, "auto", "off", "on"),
             WindowConversion = conv,
             WindowEnd = s.Positive("window_end"),
+            LimitingReactant = s.String("limiting_reactant"),
+            LimitingCoefficient = LimitingNu(s, d.LimitingCoefficient),
         };
+    }
+
+    private static double LimitingNu(TomlSection s, double fallback)
+    {
+        var nu = s.Double("limiting_coefficient", fallback);
+        if (!(nu < 0) || !double.IsFinite(nu))
+            throw Traces.Fail.Setting(s.File, s.KeyName("limiting_coefficient"), nu.ToString(System.Globalization.CultureInfo.InvariantCulture),
+                "the limiting reactant's stoichiometric coefficient, negative (e.g. -1)");
+        return nu;
     }
 }
