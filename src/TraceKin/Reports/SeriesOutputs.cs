@@ -96,12 +96,30 @@ public sealed class SeriesOutputs : IDisposable
         Parallel.ForEach(_seriesPlots, plot => Contain($"{PlotFolder}/{plot.FileName}", () => Draw(plot, result)));
         if (_queue is not null)
             foreach (var (path, error) in _queue.Complete()) Failed(Relative(path), error);
-        Task.WaitAll(numbers);
-        // The report last: it embeds the plots drawn above and lists every output that is missing.
-        var missing = Sorted();
-        var shown = missing.Count == 0 ? result : result with { Warnings = [.. result.Warnings, .. missing.Select(f => f.AsWarning())] };
-        Contain(ReportHtml.FileName, () => ReportHtml.Write(shown, _outDir, Images));
+        // The report last: it embeds the plots drawn above and lists every output that is missing. While the numbers
+        // are still being written (a large summary.json) the page is drawn in memory meanwhile, and drawn again only
+        // if one of them then fails, so the page can name it.
+        var numbersDone = Task.WhenAll(numbers);
+        byte[]? page = null;
+        var failedBefore = _failures.Count;
+        if (!numbersDone.IsCompleted)
+        {
+            try { page = new System.Text.UTF8Encoding(false).GetBytes(ReportHtml.Render(Shown(result), Images)); }
+            catch (Exception ex) when (ex is not OperationCanceledException) { page = null; } // drawn again below, and recorded there if it fails again
+        }
+        numbersDone.Wait();
+        if (page is not null && _failures.Count == failedBefore)
+            Contain(ReportHtml.FileName, () => AtomicFile.WriteAllBytes(Path.Combine(_outDir, ReportHtml.FileName), page, root: _outDir));
+        else
+            Contain(ReportHtml.FileName, () => ReportHtml.Write(Shown(result), _outDir, Images));
         return Sorted();
+    }
+
+    /// <summary>The result as the report shows it: every output not written so far listed among the series' problems.</summary>
+    private SeriesResult Shown(SeriesResult result)
+    {
+        var missing = Sorted();
+        return missing.Count == 0 ? result : result with { Warnings = [.. result.Warnings, .. missing.Select(f => f.AsWarning())] };
     }
 
     /// <summary>Draws one series plot, writes it, and keeps the bytes for the report; a plot with nothing to show this time leaves no old picture behind.</summary>

@@ -26,6 +26,17 @@ public sealed class SeriesOutputsTests
         public void Write(SeriesResult result, string outDir) => throw new NotSupportedException("a column type without a format (test)");
     }
 
+    /// <summary>A table writer that fails late: after the plots are done, while the report may already be drawn.</summary>
+    private sealed class SlowBrokenTable : ISeriesReportWriter
+    {
+        public IReadOnlyList<string> Files => ["late-table.csv"];
+        public void Write(SeriesResult result, string outDir)
+        {
+            Thread.Sleep(TimeSpan.FromSeconds(2));
+            throw new FormatException("a cell that cannot be formatted (test)");
+        }
+    }
+
     /// <summary>The default series plots with <see cref="OrderPlot"/> replaced by one that throws.</summary>
     public static IReadOnlyList<ISeriesPlot> WithBrokenOrderPlot() =>
         ReportSet.SeriesPlots().Select(p => p is OrderPlot ? new BrokenPlot(OrderPlot.FileName) : p).ToList();
@@ -65,6 +76,18 @@ public sealed class SeriesOutputsTests
         Assert.DoesNotContain(OrderPlot.FileName, shown);
         Assert.Contains(RateConstantPlot.FileName, shown);
         Assert.Equal(8, shown.Count(f => f!.StartsWith("run-", StringComparison.Ordinal)));
+    }
+
+    [Fact]
+    public void A_table_that_fails_after_the_plots_are_done_is_still_listed_in_the_report()
+    {
+        // The page is drawn while the numbers are still being written; a failure that comes later must reach it.
+        using var dir = new RepoPaths.TempDir();
+        var (_, failures) = Analyse(dir.Path, more: [new SlowBrokenTable()]);
+        Assert.Equal("late-table.csv", Assert.Single(failures).Output);
+        var (doc, _) = ReportHtmlTests.Parse(File.ReadAllText(Path.Combine(dir.Path, ReportHtml.FileName)));
+        var item = Assert.Single(doc.QuerySelectorAll($"#warnings li[data-code=\"{OutputFailure.Code}\"]"));
+        Assert.StartsWith("late-table.csv: this output could not be written (FormatException: a cell that cannot be formatted (test))", item.TextContent, StringComparison.Ordinal);
     }
 
     [Fact]
