@@ -53,6 +53,8 @@ public sealed class SeriesOutputs : IDisposable
         if (plots)
         {
             Images = new ReportPlots(Path.Combine(outDir, PlotFolder));
+            // plots/ is checked (a real folder, no link on the way) before the queue's threads start, so a refusal leaves none behind.
+            OutputPaths.EnsureFolder(outDir, Images.PlotDir);
             // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
             _queue = queueRunPlots ? new OutputQueue() : null;
             RunPlots = new RunPlot(outDir, _queue) { Keep = Images };
