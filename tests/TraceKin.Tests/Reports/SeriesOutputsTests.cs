@@ -111,6 +111,20 @@ public sealed class SeriesOutputsTests
     }
 
     [Fact]
+    public void The_page_drawn_in_memory_has_the_bytes_of_the_page_written_as_a_stream()
+    {
+        // SeriesOutputs writes either one, depending on whether the numbers are still being written.
+        using var dir = new RepoPaths.TempDir();
+        var (result, _) = Analyse(dir.Path);
+        var plots = ReportPlots.FromFolder(Path.Combine(dir.Path, "plots"));
+        using var again = new RepoPaths.TempDir();
+        ReportHtml.Write(result, again.Path, plots);
+        Assert.Equal(new System.Text.UTF8Encoding(false).GetBytes(ReportHtml.Render(result, plots)), File.ReadAllBytes(Path.Combine(again.Path, ReportHtml.FileName)));
+        // and both are the page SeriesOutputs wrote from the pictures it held in memory
+        Assert.Equal(File.ReadAllBytes(Path.Combine(dir.Path, ReportHtml.FileName)), File.ReadAllBytes(Path.Combine(again.Path, ReportHtml.FileName)));
+    }
+
+    [Fact]
     public void A_series_plot_with_nothing_to_show_leaves_no_old_picture_of_that_name_behind()
     {
         // A watch pass after the temperatures stopped varying: the earlier arrhenius.png would otherwise stay.
