@@ -142,7 +142,8 @@ if (args[0] == "phases")
     Directory.CreateDirectory(outDir);
     var proc = Process.GetCurrentProcess();
     var sw = Stopwatch.StartNew();
-    using var runPlot = plotsWanted ? new RunPlot(outDir) : null;
+    var images = plotsWanted ? new ReportPlots(Path.Combine(outDir, SeriesOutputs.PlotFolder)) : null;
+    using var runPlot = plotsWanted ? new RunPlot(outDir) { Keep = images } : null;
     var result = SeriesRunner.Analyse(folder, new AnalysisOptions
     {
         Workers = workers,
@@ -164,12 +165,26 @@ if (args[0] == "phases")
     sw.Restart();
     _ = TraceKin.Series.OrderAnalysis.Analyse(points, config.Model);
     Console.WriteLine(string.Create(ci, $"series_stage_again_seconds={sw.Elapsed.TotalSeconds:F3}"));
-    foreach (var writer in ReportSet.SeriesWriters(plotsWanted))
+    // Each output of SeriesOutputs.Write timed alone, one after the other (analyse writes them side by side).
+    foreach (var writer in ReportSet.Numbers(plotsWanted))
     {
         sw.Restart();
         writer.Write(result, outDir);
         Console.WriteLine(string.Create(ci, $"write_{writer.GetType().Name}_seconds={sw.Elapsed.TotalSeconds:F3}"));
     }
+    foreach (var plot in plotsWanted ? ReportSet.SeriesPlots() : [])
+    {
+        sw.Restart();
+        if (plot.Draw(result) is { } png)
+        {
+            AtomicFile.WriteAllBytes(Path.Combine(outDir, SeriesOutputs.PlotFolder, plot.FileName), png, outDir);
+            images!.AddSeries(plot.FileName, png);
+        }
+        Console.WriteLine(string.Create(ci, $"write_{plot.GetType().Name}_seconds={sw.Elapsed.TotalSeconds:F3}"));
+    }
+    sw.Restart();
+    ReportHtml.Write(result, outDir, images);
+    Console.WriteLine(string.Create(ci, $"write_{nameof(ReportHtml)}_seconds={sw.Elapsed.TotalSeconds:F3}"));
     proc.Refresh();
     Console.WriteLine(string.Create(ci, $"peak_working_set_mb={proc.PeakWorkingSet64 / 1048576.0:F0}"));
     Console.WriteLine(string.Create(ci, $"gc_counts={GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}"));

@@ -136,21 +136,18 @@ public static class AnalyseCommand
     }
 
     /// <summary>Analyses and writes every output; returns the result and how many output files could not be written.</summary>
+    /// <param name="seriesPlots">The series plots to draw (default <see cref="ReportSet.SeriesPlots"/>; tests put a failing one here).</param>
     public static (SeriesResult Result, int Failures) Analyse(string seriesDir, string outDir, bool plots, int workers, ILogger log, bool allowOutsideFiles = false,
-        CsvStyle csv = CsvStyle.Standard)
+        CsvStyle csv = CsvStyle.Standard, IReadOnlyList<ISeriesPlot>? seriesPlots = null)
     {
-        var failures = 0;
-        // Plot files are flushed to disk by background writers, so the workers go straight on to the next run.
-        using var plotFiles = new OutputQueue();
         var progress = new BatchProgress(log);
-        using var runPlot = plots ? new RunPlot(outDir, plotFiles) : null;
-        // The per-run tables are written as the runs finish and renamed into place with the other numbers.
-        using var tables = new RunTables(outDir, csv);
+        // Run plots (queued to background writers) and the per-run tables are written as the runs finish.
+        using var outputs = new SeriesOutputs(outDir, plots, csv, seriesPlots: seriesPlots);
         var options = new AnalysisOptions
         {
             AllowOutsideFiles = allowOutsideFiles,
             Workers = workers,
-            RunSink = RunSinks.Combine(runPlot, tables),
+            RunSink = outputs.RunSink,
             // The plots are drawn by the sink from every point; the files written afterwards need numbers only.
             Retention = TraceRetention.None,
             // The per-run tables hold every fit; beyond the runs the report lists fit by fit, the result keeps the chosen.
@@ -160,29 +157,10 @@ public static class AnalyseCommand
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
         var outputsClock = System.Diagnostics.Stopwatch.StartNew();
-        // The series outputs are independent of each other: write them side by side while the run plots drain to
-        // disk. The report embeds the plot files, so it is written last, once every plot is on disk.
-        void Write(ISeriesReportWriter writer)
-        {
-            try { writer.Write(result, outDir); }
-            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
-            {
-                Interlocked.Increment(ref failures);
-                log.Error("could not write {Writer} output: {Message}", writer.GetType().Name, ex.Message);
-            }
-        }
-        var writers = ReportSet.SeriesWriters(plots, csv, tables);
-        var isPlot = ReportSet.DrawsPlot;
-        // Numbers first, in the background; the plots side by side; the report once every plot file is on disk.
-        var numbers = writers.Where(w => w is not ReportHtml && !isPlot(w)).Select(w => Task.Run(() => Write(w))).ToArray();
-        Parallel.ForEach(writers.Where(isPlot), Write);
-        foreach (var (path, error) in plotFiles.Complete())
-        {
-            failures++;
-            log.Error("could not write {Plot}: {Message}", path, error);
-        }
-        foreach (var writer in writers.Where(w => w is ReportHtml)) Write(writer);
-        Task.WaitAll(numbers);
+        // Every series output, the report last; one that fails is listed in the report and here, the others are written.
+        var notWritten = outputs.Write(result);
+        foreach (var missing in notWritten) log.Error("could not write {Output}: {Message}", missing.Output, missing.Error);
+        var failures = notWritten.Count;
         // Where a batch's time goes (log file only; no time ever enters a numeric output).
         log.Debug("timing: runs {Runs} s, series stage {Series} s, outputs {Outputs} s", Seconds(result.RunsTime), Seconds(result.SeriesStageTime),
             Seconds(outputsClock.Elapsed));

@@ -1,4 +1,3 @@
-using Serilog;
 using TraceKin.Analysis;
 using TraceKin.Reports;
 
@@ -8,22 +7,19 @@ namespace TraceKin.Cli.Watch;
 /// Draws a run's plot only when something it depends on changed (the export's content, plan.csv, series.toml or
 /// the tool version) or the picture is missing, so re-analysing a series after one new export redraws one plot,
 /// not all — also after a restart. What each plot was drawn from is kept in a small key file beside the snapshot,
-/// written after the picture, so a kill in between only costs one redraw. A plot that cannot be written is logged and
-/// counted, never thrown. Every file goes through <see cref="AtomicFile"/> inside the watcher's output folder
-/// <paramref name="root"/>.
+/// written after the picture, so a kill in between only costs one redraw. A plot that cannot be drawn or written (any
+/// exception) is handed to <paramref name="outputs"/>, which lists it in the report and returns it with the
+/// pass's other failures; it is never thrown. Every file goes through <see cref="AtomicFile"/> inside the watcher's
+/// output folder <paramref name="root"/>.
 /// </summary>
-public sealed class ChangedRunPlots(string root, string outDir, string keyDir, IReadOnlyDictionary<string, string> inputs, ILogger log) : IRunSink
+/// <param name="plot">The outputs' run plot, writing each picture before it returns.</param>
+public sealed class ChangedRunPlots(string root, string outDir, string keyDir, IReadOnlyDictionary<string, string> inputs, RunPlot plot, SeriesOutputs outputs) : IRunSink
 {
-    private readonly RunPlot _plot = new(outDir);
-    private int _failures;
-
-    public int Failures => Volatile.Read(ref _failures);
-
-    public void Begin(TraceKin.Setup.Plan plan) => _plot.Begin(plan);
+    public void Begin(TraceKin.Setup.Plan plan) => plot.Begin(plan);
 
     public void Accept(RunResult run)
     {
-        var name = _plot.FileNameOf(run.Id);
+        var name = plot.FileNameOf(run.Id);
         var png = Path.Combine(outDir, "plots", name);
         var keyFile = Path.Combine(keyDir, name + ".key");
         var key = string.Join(' ', run.InputSha256, inputs.GetValueOrDefault(SeriesRunner.PlanFile), inputs.GetValueOrDefault(SeriesRunner.ConfigFile), SeriesRunner.ToolVersion);
@@ -31,13 +27,12 @@ public sealed class ChangedRunPlots(string root, string outDir, string keyDir, I
         {
             if (File.Exists(png) && new FileInfo(png).LinkTarget is null && File.Exists(keyFile) && new FileInfo(keyFile).LinkTarget is null
                 && File.ReadAllText(keyFile) == key) return;
-            _plot.Accept(run);
+            plot.Accept(run);
             AtomicFile.WriteAllText(keyFile, key, root);
         }
-        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        catch (Exception ex) when (ex is not OperationCanceledException)
         {
-            Interlocked.Increment(ref _failures);
-            log.Error("could not write the plot of run {Run}: {Message}", run.Id, ex.Message);
+            outputs.Failed($"{SeriesOutputs.PlotFolder}/{name}", ex);
         }
     }
 }

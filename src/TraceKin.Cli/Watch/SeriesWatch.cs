@@ -263,6 +263,7 @@ public sealed class SeriesWatch
 
     private LedgerRecord? Analyse(LedgerRecord? committed, SortedDictionary<string, string> inputs, SortedSet<string> pending)
     {
+        SeriesOutputs outputs;
         ChangedRunPlots? plots;
         try
         {
@@ -270,24 +271,26 @@ public sealed class SeriesWatch
             OutputPaths.EnsureFolder(_options.Out, _outDir);
             OutputPaths.EnsureFolder(_options.Out, _plotKeyDir);
             if (_options.Plots) OutputPaths.EnsureFolder(_options.Out, Path.Combine(_outDir, "plots"));
-            plots = _options.Plots ? new ChangedRunPlots(_options.Out, _outDir, _plotKeyDir, inputs, _log) : null;
+            // The same outputs as analyse writes, by the same writer; each run plot is on disk before its key file.
+            outputs = new SeriesOutputs(_outDir, _options.Plots, _options.Csv, root: _options.Out, queueRunPlots: false, seriesPlots: _options.SeriesPlots);
+            plots = outputs.RunPlots is { } runPlots ? new ChangedRunPlots(_options.Out, _outDir, _plotKeyDir, inputs, runPlots, outputs) : null;
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
             _log.Error("{Series}: not analysed, cannot write its results: {Message}", Name, ex.Message);
             return null;
         }
+        using var owned = outputs;
         if (!_cleaned)
         {
             RemoveOrphanTemporaries();
             _cleaned = true;
         }
-        // The per-run tables are streamed as the runs finish and renamed into place with the other outputs.
-        using var tables = new RunTables(_outDir, _options.Csv, root: _options.Out);
         var options = new AnalysisOptions
         {
             Workers = Math.Max(1, _options.Workers),
-            RunSink = RunSinks.Combine(plots, tables),
+            // Only the changed runs' plots are drawn; the per-run tables are streamed as the runs finish.
+            RunSink = RunSinks.Combine(plots, outputs.Tables),
             Progress = (run, status) => _log.Debug("{Series} {Run}: {Status}", Name, run, status),
         };
         var clock = System.Diagnostics.Stopwatch.StartNew();
@@ -308,16 +311,10 @@ public sealed class SeriesWatch
                 "named in plan.csv but not (yet) complete in the inbox; it is analysed as soon as it has settled"))).ToList(),
         };
 
-        var failures = plots?.Failures ?? 0;
-        foreach (var writer in ReportSet.SeriesWriters(_options.Plots, _options.Csv, tables))
-        {
-            try { writer.Write(result, _outDir); }
-            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
-            {
-                failures++;
-                _log.Error("{Series}: could not write {Writer} output: {Message}", Name, writer.GetType().Name, ex.Message);
-            }
-        }
+        // Every output, the report last; one that fails (a run plot included) is listed in the report and logged.
+        var notWritten = outputs.Write(result);
+        foreach (var f in notWritten) _log.Error("{Series}: could not write {Output}: {Message}", Name, f.Output, f.Error);
+        var failures = notWritten.Count;
         if (result.Plan is not null && _options.Plots)
         {
             try { RemoveStalePlots(result); }

@@ -18,4 +18,6 @@ public sealed record WatchOptions
     public TraceKin.Reports.CsvStyle Csv { get; init; } = TraceKin.Reports.CsvStyle.Standard;
     /// <summary>Process what is in the inbox, then stop.</summary>
     public bool Once { get; init; }
+    /// <summary>The series plots to draw (null: <see cref="TraceKin.Reports.ReportSet.SeriesPlots"/>; tests put a failing one here).</summary>
+    internal IReadOnlyList<TraceKin.Reports.ISeriesPlot>? SeriesPlots { get; init; }
 }

@@ -42,6 +42,18 @@ public sealed record SeriesResult(
     /// <summary>Runs planned with the same conditions and the spread of their rates (sample runs only; blanks are not grouped).</summary>
     public IReadOnlyList<ReplicateGroup> Replicates { get; init; } = [];
 
+    /// <summary>
+    /// The SHA-256 (lower-case hex) of series.toml and plan.csv, keyed by file name, taken from the very bytes the
+    /// analysis parsed (so the reports never read or hash them again); for a file that was not read, why:
+    /// <see cref="SetupMissing"/>, <see cref="SetupUnreadable"/> or <see cref="SetupNotRead"/>.
+    /// </summary>
+    public IReadOnlyDictionary<string, string> SetupHashes { get; init; } = new Dictionary<string, string>();
+
+    public const string SetupMissing = "missing";
+    public const string SetupUnreadable = "unreadable";
+    /// <summary>Refused before it was opened (a link out of the series folder, a pipe, a folder, too large).</summary>
+    public const string SetupNotRead = "not read";
+
     public string Name => Config is { Name.Length: > 0 } c ? c.Name : Path.GetFileName(Path.TrimEndingDirectorySeparator(Folder));
 
     /// <summary>Wall time of the per-run stages (all workers) and of the series stage; for the log, never in numeric outputs.</summary>

@@ -30,9 +30,11 @@ public static class SeriesRunner
         var rejected = new List<Problem>();
         SeriesConfig? config = null, read = null;
         Plan? plan = null;
+        // Each setup file is hashed from the bytes it is parsed from, once; the reports show these hashes.
+        var hashes = new Dictionary<string, string>(StringComparer.Ordinal);
         try
         {
-            var configText = ReadSetup(folder, ConfigFile, options);
+            var configText = ReadSetup(folder, ConfigFile, options, hashes);
             read = SeriesConfig.FromText(configText, ConfigFile);
             CheckNamedFiles(folder, read, configText, options);
             // the series is analysed only once the files series.toml names are read too
@@ -40,17 +42,17 @@ public static class SeriesRunner
         }
         catch (InputException ex) { rejected.Add(read?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
-        try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options), PlanFile); }
+        try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options, hashes), PlanFile); }
         catch (InputException ex) { rejected.Add(ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
         if (config is null || plan is null)
-            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion) { SetupHashes = hashes };
         // Names series.toml gives (species, per-run parameter columns) must exist before any run is read.
         try { SeriesCheck.Check(config, plan); }
         catch (InputException ex)
         {
             rejected.Add(config.Locate(ex.Problem));
-            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
+            return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion) { SetupHashes = hashes };
         }
 
         options.Planned?.Invoke(plan.Rows.Count);
@@ -136,6 +138,7 @@ public static class SeriesRunner
                     $"this run's initial rate lies apart from its replicates ({string.Join(", ", g.Runs)}; {g.Conditions()}): modified z-score {score:0.0}, beyond ±{ReplicateGroup.OutlierScore} (Iglewicz and Hoaglin)")));
         return new SeriesResult(folder, config, plan, runs, rejected, findings, warnings, ToolVersion) {
             Replicates = replicates,
+            SetupHashes = hashes,
             RunsTime = runsClock.Elapsed - seriesClock.Elapsed,
             SeriesStageTime = seriesClock.Elapsed,
         };
@@ -315,13 +318,29 @@ public static class SeriesRunner
     private static Problem AtFileCell(PlanRow row, string found, string expected, string hint) =>
         new(PlanFile, row.FileLine > 0 ? row.FileLine : row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
 
-    /// <summary>plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).</summary>
-    private static string ReadSetup(string folder, string name, AnalysisOptions options)
+    /// <summary>
+    /// plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).
+    /// Records in <paramref name="hashes"/> the SHA-256 of the bytes read, or why there is none.
+    /// </summary>
+    private static string ReadSetup(string folder, string name, AnalysisOptions options, Dictionary<string, string> hashes)
     {
         // A setup file is small; the export limit is only a guard against reading a disk image by mistake.
         if (SeriesInputs.Check(folder, name, options.AllowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
+        {
+            hashes[name] = refusal.Missing ? SeriesResult.SetupMissing : SeriesResult.SetupNotRead;
             throw Fail.At(name, 1, 1, refusal.Found, refusal.Expected, refusal.Hint);
-        return File.ReadAllText(path);
+        }
+        byte[] bytes;
+        try { bytes = File.ReadAllBytes(path); }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            hashes[name] = ex is FileNotFoundException or DirectoryNotFoundException ? SeriesResult.SetupMissing : SeriesResult.SetupUnreadable;
+            throw;
+        }
+        hashes[name] = Convert.ToHexStringLower(SHA256.HashData(bytes));
+        // Decoded as File.ReadAllText does: UTF-8 unless a byte order mark says otherwise.
+        using var text = new StreamReader(new MemoryStream(bytes, writable: false), System.Text.Encoding.UTF8, detectEncodingFromByteOrderMarks: true);
+        return text.ReadToEnd();
     }
 
     /// <summary>Files that series.toml names (the calibration standards) follow the rule for exports, located at the key's value.</summary>

@@ -11,14 +11,16 @@ namespace TraceKin.Reports;
 /// (fitted on k, drawn in these coordinates), with its 95 % confidence band from the k_ref/Ea covariance (delta method).
 /// Written as plots/arrhenius.png.
 /// </summary>
-public sealed class ArrheniusPlot : ISeriesReportWriter
+public sealed class ArrheniusPlot : ISeriesPlot
 {
     public const string FileName = "arrhenius.png";
 
-    public void Write(SeriesResult result, string outDir)
+    string ISeriesPlot.FileName => FileName;
+
+    public byte[]? Draw(SeriesResult result)
     {
-        if (result.Findings?.Temperature is not { Arrhenius: not null } t) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)), root: outDir);
+        if (result.Findings?.Temperature is not { Arrhenius: not null } t) return null;
+        return PlotStyle.ToPng(Build(t));
     }
 
     public static PlotModel Build(TemperatureFindings t)

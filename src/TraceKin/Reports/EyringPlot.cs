@@ -6,14 +6,16 @@ using TraceKin.Series;
 namespace TraceKin.Reports;
 
 /// <summary>The Eyring plot: ln(k/T) against 1/T with the fitted Eyring curve. Written as plots/eyring.png.</summary>
-public sealed class EyringPlot : ISeriesReportWriter
+public sealed class EyringPlot : ISeriesPlot
 {
     public const string FileName = "eyring.png";
 
-    public void Write(SeriesResult result, string outDir)
+    string ISeriesPlot.FileName => FileName;
+
+    public byte[]? Draw(SeriesResult result)
     {
-        if (result.Findings?.Temperature is not { Eyring: not null } t) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(t)), root: outDir);
+        if (result.Findings?.Temperature is not { Eyring: not null } t) return null;
+        return PlotStyle.ToPng(Build(t));
     }
 
     public static PlotModel Build(TemperatureFindings t)

@@ -10,14 +10,16 @@ namespace TraceKin.Reports;
 /// fitted orders, each species centred on its geometric mean so that species decades apart share the axes, with the
 /// fitted line and its 95 % band. Written as plots/orders.png.
 /// </summary>
-public sealed class OrderPlot : ISeriesReportWriter
+public sealed class OrderPlot : ISeriesPlot
 {
     public const string FileName = "orders.png";
 
-    public void Write(SeriesResult result, string outDir)
+    string ISeriesPlot.FileName => FileName;
+
+    public byte[]? Draw(SeriesResult result)
     {
-        if (result.Findings is not { Orders.Count: > 0, RateConstant: not null }) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)), root: outDir);
+        if (result.Findings is not { Orders.Count: > 0, RateConstant: not null }) return null;
+        return PlotStyle.ToPng(Build(result));
     }
 
     public static PlotModel Build(SeriesResult r)

@@ -58,9 +58,10 @@ public sealed class OutputQueue : IDisposable
             while (reader.TryRead(out var item))
             {
                 try { AtomicFile.WriteAllBytes(item.Path, item.Bytes, item.Root); }
-                catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+                catch (Exception ex)
                 {
-                    _failures.Enqueue((item.Path, ex.Message));
+                    // Any failure stays with its file (a defect of ours names its type); the other files are still written.
+                    _failures.Enqueue((item.Path, ex is IOException or UnauthorizedAccessException ? ex.Message : $"{ex.GetType().Name}: {ex.Message}"));
                 }
             }
     }

@@ -10,15 +10,17 @@ namespace TraceKin.Reports;
 /// untransformed axes, with the power-law and saturation fits (the chosen law drawn solid, the other dashed). With
 /// varied co-reactants the rates are divided by their fitted power terms first. Written as plots/rate-concentration.png.
 /// </summary>
-public sealed class RateConcentrationPlot : ISeriesReportWriter
+public sealed class RateConcentrationPlot : ISeriesPlot
 {
     public const string FileName = "rate-concentration.png";
 
-    public void Write(SeriesResult result, string outDir)
+    string ISeriesPlot.FileName => FileName;
+
+    public byte[]? Draw(SeriesResult result)
     {
-        if (result.Findings is not { } f || Species(f) is null || f.Temperature is not null) return;
+        if (result.Findings is not { } f || Species(f) is null || f.Temperature is not null) return null;
         var points = result.Runs.Select(r => new RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(f, points)), root: outDir);
+        return PlotStyle.ToPng(Build(f, points));
     }
 
     /// <summary>The species on the x axis, or null when there is nothing to draw (no saturation fit and several orders).</summary>

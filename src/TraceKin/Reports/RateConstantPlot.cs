@@ -8,14 +8,16 @@ namespace TraceKin.Reports;
 /// k per run (v0/Π[X]0^n at the orders used, ±1 se) in plan order, with the series' k and its 95 % interval as a band:
 /// a run that stands apart shows at a glance. Written as plots/k-per-run.png.
 /// </summary>
-public sealed class RateConstantPlot : ISeriesReportWriter
+public sealed class RateConstantPlot : ISeriesPlot
 {
     public const string FileName = "k-per-run.png";
 
-    public void Write(SeriesResult result, string outDir)
+    string ISeriesPlot.FileName => FileName;
+
+    public byte[]? Draw(SeriesResult result)
     {
-        if (result.Findings is not { PerRunK.Count: > 0 }) return;
-        AtomicFile.WriteAllBytes(Path.Combine(outDir, "plots", FileName), PlotStyle.ToPng(Build(result)), root: outDir);
+        if (result.Findings is not { PerRunK.Count: > 0 }) return null;
+        return PlotStyle.ToPng(Build(result));
     }
 
     public static PlotModel Build(SeriesResult r)

@@ -1,7 +1,6 @@
 using System.Collections;
 using System.Globalization;
 using System.Reflection;
-using System.Security.Cryptography;
 using TraceKin.Analysis;
 using TraceKin.Series;
 
@@ -9,11 +8,13 @@ namespace TraceKin.Reports;
 
 /// <summary>
 /// report.html: one self-contained page per series that a chemist can open or print. Plots are embedded as PNG data
-/// URIs (read from outDir/plots as written earlier in the same analysis), so the file needs no network and no script.
-/// Problems come first (rejected files, problem warnings, failed chosen fits; notes folded below them), then results, runs, plots, settings with their source,
-/// method notes, cautions and the inputs' SHA-256. No time stamps: the same inputs give the same bytes.
+/// URIs (the bytes <see cref="SeriesOutputs"/> drew and wrote into plots/ in the same pass, handed over in memory as
+/// <see cref="ReportPlots"/>), so the file needs no network and no script.
+/// Problems come first (rejected files, problem warnings, failed chosen fits, outputs that could not be written; notes
+/// folded below them), then results, runs, plots, settings with their source, method notes, cautions and the inputs'
+/// SHA-256 (as taken when the inputs were read). No time stamps: the same inputs give the same bytes.
 /// </summary>
-public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
+public static class ReportHtml
 {
     public const string FileName = "report.html";
 
@@ -25,23 +26,24 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
     ];
 
-    public void Write(SeriesResult result, string outDir) =>
+    /// <summary>Writes report.html into <paramref name="outDir"/>; <paramref name="plots"/> null leaves the plots out (analyse --no-plots).</summary>
+    public static void Write(SeriesResult result, string outDir, ReportPlots? plots) =>
         AtomicFile.Write(Path.Combine(outDir, FileName), stream =>
         {
             using var writer = new StreamWriter(stream, new System.Text.UTF8Encoding(false), 1 << 16, leaveOpen: true);
-            Render(result, images ? Path.Combine(outDir, "plots") : null, new Html(writer));
+            Render(result, plots, new Html(writer));
             writer.Flush();
         }, root: outDir);
 
-    /// <summary>The page as text; <paramref name="plotDir"/> null leaves the plots out (analyse --no-plots).</summary>
-    public static string Render(SeriesResult r, string? plotDir)
+    /// <summary>The page as text; <paramref name="plots"/> null leaves the plots out (analyse --no-plots).</summary>
+    public static string Render(SeriesResult r, ReportPlots? plots)
     {
         var h = new Html();
-        Render(r, plotDir, h);
+        Render(r, plots, h);
         return h.ToString();
     }
 
-    private static void Render(SeriesResult r, string? plotDir, Html h)
+    private static void Render(SeriesResult r, ReportPlots? plots, Html h)
     {
         h.Raw("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
             .Raw("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
@@ -58,7 +60,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         Runs(h, r);
         Replicates(h, r);
         LawFits(h, r);
-        Plots(h, r, plotDir);
+        Plots(h, r, plots);
         Settings(h, r);
         Notes(h, "methods", "Method notes", ReportNotes.Methods);
         Notes(h, "cautions", "Cautions", ReportNotes.Cautions);
@@ -588,10 +590,10 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
     /// <summary>Runs up to which every run plot is embedded in the page.</summary>
     public const int MaxEmbeddedRunPlots = 50;
 
-    private static void Plots(Html h, SeriesResult r, string? plotDir)
+    private static void Plots(Html h, SeriesResult r, ReportPlots? plots)
     {
         h.Raw("<section id=\"plots\">\n").Element("h2", "Plots");
-        if (plotDir is null)
+        if (plots is null)
         {
             h.Element("p", "Plots were not drawn for this analysis (analyse --no-plots).", "class=\"none\"");
             h.Raw("</section>\n");
@@ -599,13 +601,11 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         }
         var figures = new List<(string File, string Caption)>();
         var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
-        if (Directory.Exists(plotDir))
+        if (Directory.Exists(plots.PlotDir))
         {
             var runFiles = r.Runs.Select(x => (File: names.PlotFile(x.Id), Caption: $"Run {x.Id} ({x.File}): concentration, early window, fit, initial-rate tangent and residuals")).ToList();
             var runNames = new HashSet<string>(runFiles.Select(x => x.File), StringComparer.Ordinal);
-            var seriesFiles = Directory.EnumerateFiles(plotDir, "*.png").Select(Path.GetFileName).OfType<string>()
-                .Where(f => !f.StartsWith("run-", StringComparison.Ordinal) && !f.StartsWith('.') && !runNames.Contains(f))
-                .Order(StringComparer.Ordinal).Select(f => (File: f, Caption: SeriesCaption(f)));
+            var seriesFiles = plots.SeriesFiles.Where(f => !runNames.Contains(f)).Select(f => (File: f, Caption: SeriesCaption(f)));
             figures.AddRange(seriesFiles);
             figures.AddRange(runFiles);
         }
@@ -625,24 +625,23 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         var shown = 0;
         foreach (var (file, caption) in figures)
         {
-            var path = Path.Combine(plotDir, file);
+            var linked = !embedRuns && file.StartsWith("run-", StringComparison.Ordinal);
             // A link in plots/ is not ours (TraceKin never writes one): its target is neither embedded nor linked.
-            if (!File.Exists(path) || new FileInfo(path).LinkTarget is not null) continue;
-            if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal) && !attention.Contains(file))
+            if (linked && !plots.OnDisk(file)) continue;
+            if (linked && !attention.Contains(file))
             {
                 folded.Add((file, caption));
                 continue;
             }
-            if (!embedRuns && file.StartsWith("run-", StringComparison.Ordinal))
+            if (linked)
             {
                 h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img loading=\"lazy\" alt=\"{Html.Escape(caption)}\" {Html.Attr("src", "plots/" + file)}>\n")
                     .Element("figcaption", caption).Raw("</figure>\n");
                 shown++;
                 continue;
             }
-            byte[] png;
-            try { png = File.ReadAllBytes(path); }
-            catch (IOException) { continue; }
+            // The bytes drawn and written in this pass (a run plot a watch pass did not redraw: read from plots/).
+            if (plots.Embed(file) is not { } png) continue;
             h.Raw($"<figure class=\"plot\" {Html.Attr("data-file", file)}>\n<img alt=\"{Html.Escape(caption)}\" src=\"data:image/png;base64,")
                 .Raw(Convert.ToBase64String(png)).Raw("\">\n").Element("figcaption", caption).Raw("</figure>\n");
             shown++;
@@ -674,7 +673,7 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         }
         else
         {
-            var rows = SettingsProvenance.Rows(r.Config, r.Folder);
+            var rows = SettingsProvenance.Rows(r.Config);
             // What the chemist wrote first; then every default in effect, smaller (many apply only to other signal kinds).
             foreach (var (title, group, cls) in new[]
             {
@@ -723,13 +722,11 @@ public sealed class ReportHtml(bool images = true) : ISeriesReportWriter
         h.Raw("<p>").Text($"TraceKin {r.ToolVersion}. Series folder: {Path.GetFileName(Path.TrimEndingDirectorySeparator(r.Folder))}. ")
             .Text("SHA-256 of each input lets a reader check that a file is the one analysed (e.g. sha256sum FILE).").Raw("</p>\n");
         h.Raw("<table class=\"hashes\">\n<thead><tr><th>file</th><th>role</th><th>SHA-256</th></tr></thead>\n<tbody>\n");
-        foreach (var (file, role) in new[] { (r.Config?.File ?? "series.toml", "settings"), (r.Plan?.File ?? "plan.csv", "plan") })
+        foreach (var (file, role) in new[] { (r.Config?.File ?? SeriesRunner.ConfigFile, "settings"), (r.Plan?.File ?? SeriesRunner.PlanFile, "plan") })
         {
-            var path = Path.Combine(r.Folder, file);
-            string hash;
-            try { hash = File.Exists(path) ? Convert.ToHexStringLower(SHA256.HashData(File.ReadAllBytes(path))) : "missing"; }
-            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException) { hash = "unreadable"; }
-            h.Raw("<tr>").Element("td", file).Element("td", role + " (hashed when the report was written)").Element("td", hash, "class=\"hash\"").Raw("</tr>\n");
+            // Hashed by the analysis from the bytes it parsed: the file is not read again here.
+            var hash = r.SetupHashes.GetValueOrDefault(file, "not recorded");
+            h.Raw("<tr>").Element("td", file).Element("td", role + " (hashed when read)").Element("td", hash, "class=\"hash\"").Raw("</tr>\n");
         }
         if (r.Runs.Count <= MaxListedRuns)
             foreach (var run in r.Runs)

@@ -12,7 +12,8 @@ namespace TraceKin.Reports;
 /// tangent on top; the window fit's residuals below. As a run sink it draws on the worker thread (one reusable
 /// renderer per worker). The PNG is written before <see cref="Accept"/> returns, unless an <see cref="OutputQueue"/>
 /// is given: then the worker hands the bytes over and goes on, and the queue's owner calls
-/// <see cref="OutputQueue.Complete"/> before treating the plots as written.
+/// <see cref="OutputQueue.Complete"/> before treating the plots as written. With <see cref="Keep"/> set, the bytes also
+/// go to the report (<see cref="ReportPlots.AddRun"/>, which holds only as many as the report embeds).
 /// </summary>
 public sealed class RunPlot : IRunSink, IDisposable
 {
@@ -38,12 +39,17 @@ public sealed class RunPlot : IRunSink, IDisposable
     /// <summary>The file name (in plots/) of a run's picture: from the plan when <see cref="Begin"/> was called.</summary>
     public string FileNameOf(string runId) => _names?.PlotFile(runId) ?? $"run-{RunFileNames.Stem(runId)}.png";
 
+    /// <summary>Where the drawn pictures go for the report to embed (null: nowhere, the file only).</summary>
+    public ReportPlots? Keep { get; init; }
+
     public void Accept(RunResult run)
     {
-        var path = Path.Combine(_plotDir, FileNameOf(run.Id));
+        var name = FileNameOf(run.Id);
+        var path = Path.Combine(_plotDir, name);
         var png = _renderers.Value!.Render(Build(run));
         if (_files is null) AtomicFile.WriteAllBytes(path, png, _outDir);
         else _files.Enqueue(path, png, _outDir);
+        Keep?.AddRun(name, png);
     }
 
     public static byte[] Render(RunResult run) => PlotStyle.ToPng(Build(run));

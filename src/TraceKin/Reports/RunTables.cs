@@ -28,6 +28,8 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
     public const string SpikesFile = "spikes.csv";
     public static readonly string[] FileNames = [FitsFile, ParametersFile, RatesFile, SpikesFile];
 
+    public IReadOnlyList<string> Files => FileNames;
+
     private static readonly string RateHeaderUnit = $"({Units.RateUnit})";
 
     public static readonly string[] FitsHeader =

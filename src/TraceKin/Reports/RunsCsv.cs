@@ -11,6 +11,8 @@ public sealed class RunsCsv(CsvStyle style = CsvStyle.Standard) : ISeriesReportW
 {
     public const string FileName = "runs.csv";
 
+    public IReadOnlyList<string> Files => [FileName];
+
     public void Write(SeriesResult result, string outDir) =>
         AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s, style), root: outDir);
 

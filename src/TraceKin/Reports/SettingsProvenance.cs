@@ -15,8 +15,8 @@ public sealed record SettingUse(string Key, string Value, string Source);
 /// <summary>
 /// Lists the series settings the analysis used with their source. The effective values come from the parsed
 /// <see cref="SeriesConfig"/> (every section record, found by reflection so new settings appear without changes here);
-/// whether a key was written is read back from series.toml itself. Keys written in the file that map to no single
-/// setting (e.g. a unit key) are listed as written.
+/// whether a key was written is seen in the text the settings were parsed from (<see cref="SeriesConfig.Text"/>; the
+/// file is not read again). Keys written in the file that map to no single setting (e.g. a unit key) are listed as written.
 /// </summary>
 public static class SettingsProvenance
 {
@@ -27,17 +27,16 @@ public static class SettingsProvenance
         ["WindowEnd"] = "s",
     };
 
-    public static IReadOnlyList<SettingUse> Rows(SeriesConfig config, string seriesFolder)
+    public static IReadOnlyList<SettingUse> Rows(SeriesConfig config)
     {
         TomlTable? raw = null;
         try
         {
-            var path = Path.Combine(seriesFolder, config.File);
-            if (File.Exists(path)) raw = TomlSerializer.Deserialize<TomlTable>(File.ReadAllText(path));
+            if (config.Text is { } text) raw = TomlSerializer.Deserialize<TomlTable>(text);
         }
         catch (Exception)
         {
-            // An unreadable or unparsable file: the values are still known, only their source is not.
+            // Settings made in code (no text), or text that does not parse: the values are still known, only their source is not.
             raw = null;
         }
 

@@ -16,6 +16,8 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
 {
     public const string FileName = "summary.json";
 
+    public IReadOnlyList<string> Files => [FileName];
+
     public void Write(SeriesResult result, string outDir) =>
         AtomicFile.Write(Path.Combine(outDir, FileName), s => WriteTo(result, s, plots), root: outDir);
 

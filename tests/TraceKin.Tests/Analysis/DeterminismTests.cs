@@ -116,11 +116,10 @@ public class DeterminismTests
 
     private static SeriesResult Write(string outDir, int workers, TraceRetention retention = TraceRetention.Display, int retainedColumns = 200, string? folder = null)
     {
-        using var plot = new RunPlot(outDir);
-        // The per-run tables streamed as the runs finish, as analyse writes them.
-        using var tables = new RunTables(outDir);
-        var result = SeriesRunner.Analyse(folder ?? Sample, new AnalysisOptions { Workers = workers, RunSink = RunSinks.Combine(plot, tables), Retention = retention, RetainedColumns = retainedColumns });
-        foreach (var writer in ReportSet.SeriesWriters(plots: true, tables: tables)) writer.Write(result, outDir);
+        // Run plots and the per-run tables from the run sinks, then every series output, as analyse writes them.
+        using var outputs = new SeriesOutputs(outDir, plots: true);
+        var result = SeriesRunner.Analyse(folder ?? Sample, new AnalysisOptions { Workers = workers, RunSink = outputs.RunSink, Retention = retention, RetainedColumns = retainedColumns });
+        Assert.Empty(outputs.Write(result));
         return result;
     }
 }

@@ -5,8 +5,8 @@ using TraceKin.Reports;
 namespace TraceKin.Tests.Reports;
 
 /// <summary>
-/// The bundled sample series analysed once, the way `analyse` does it (run plots from the run sink, then every series
-/// writer): once with plots into <see cref="OutDir"/>, once with --no-plots into <see cref="NoPlotsDir"/>.
+/// The bundled sample series analysed once, the way `analyse` does it (<see cref="SeriesOutputs"/>: run plots and tables
+/// from the run sinks, then every series output): once with plots into <see cref="OutDir"/>, once with --no-plots into <see cref="NoPlotsDir"/>.
 /// </summary>
 public sealed class AnalysedSample : IDisposable
 {
@@ -26,8 +26,9 @@ public sealed class AnalysedSample : IDisposable
 
     public static SeriesResult Analyse(string series, string outDir, bool plots)
     {
-        var result = SeriesRunner.Analyse(series, new AnalysisOptions { Workers = 2, RunSink = plots ? new RunPlot(outDir) : null });
-        foreach (var w in ReportSet.SeriesWriters(plots)) w.Write(result, outDir);
+        using var outputs = new SeriesOutputs(outDir, plots);
+        var result = SeriesRunner.Analyse(series, new AnalysisOptions { Workers = 2, RunSink = outputs.RunSink });
+        Assert.Empty(outputs.Write(result));
         return result;
     }
 

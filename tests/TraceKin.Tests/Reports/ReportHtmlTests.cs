@@ -220,7 +220,7 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         var names = RunFileNames.For(sample.Result.Plan!);
         foreach (var r in runs)
             File.Copy(Path.Combine(sample.OutDir, "plots", names.PlotFile(sample.Result.Runs[0].Id)), Path.Combine(plotDir, names.PlotFile(r.Id)));
-        var (doc, errors) = Parse(ReportHtml.Render(big, plotDir));
+        var (doc, errors) = Parse(ReportHtml.Render(big, ReportPlots.FromFolder(plotDir)));
         Assert.Empty(errors);
         // The runs that need attention (none in this clean sample) are shown inline; the others are linked, folded.
         var runImages = doc.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal))
@@ -232,7 +232,7 @@ public sealed class ReportHtmlTests(AnalysedSample sample) : IClassFixture<Analy
         Assert.All(runLinks, src => Assert.True(File.Exists(Path.Combine(outDir.Path, src))));
         // A run that needs attention is shown inline, the rest stay links.
         var flagged = runs.Select((r, i) => i == 3 ? r with { Warnings = [.. r.Warnings, new TraceKin.Traces.Warning("rate-unresolved", r.File, "test")] } : r).ToList();
-        var (doc2, errors2) = Parse(ReportHtml.Render(big with { Runs = flagged }, plotDir));
+        var (doc2, errors2) = Parse(ReportHtml.Render(big with { Runs = flagged }, ReportPlots.FromFolder(plotDir)));
         Assert.Empty(errors2);
         var inline = doc2.QuerySelectorAll("figure.plot").Where(f => f.GetAttribute("data-file")!.StartsWith("run-", StringComparison.Ordinal)).ToList();
         Assert.Single(inline);

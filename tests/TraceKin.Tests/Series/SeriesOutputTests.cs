@@ -29,7 +29,7 @@ public class SeriesOutputTests
         Assert.Equal(0.004, k25, 0.004 * 0.03);
 
         using var outDir = new RepoPaths.TempDir();
-        foreach (var w in ReportSet.SeriesWriters(plots: true)) w.Write(result, outDir.Path);
+        using (var outputs = new SeriesOutputs(outDir.Path, plots: true)) Assert.Empty(outputs.Write(result));
         using var summary = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir.Path, "summary.json")));
         var root = summary.RootElement;
         var jsonEa = root.GetProperty("arrhenius").GetProperty("activationEnergy");
@@ -51,7 +51,7 @@ public class SeriesOutputTests
         // sample-traces/violet-complex-acid (truth: first order in both species): the power law is kept.
         var result = SeriesRunner.Analyse(RepoPaths.Sample("violet-complex-acid"), new AnalysisOptions { Workers = 2 });
         using var outDir = new RepoPaths.TempDir();
-        foreach (var w in ReportSet.SeriesWriters(plots: true)) w.Write(result, outDir.Path);
+        using (var outputs = new SeriesOutputs(outDir.Path, plots: true)) Assert.Empty(outputs.Write(result));
         using var summary = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir.Path, "summary.json")));
         var root = summary.RootElement;
         Assert.True(root.GetProperty("design").GetProperty("separable").GetBoolean());
