@@ -51,7 +51,9 @@ public static class IntegratedLawFitter
         // The laws are compared on coarse bins; the chosen one is then refitted on the finer bins its numbers are
         // reported from (each level only where the bins keep the curve: see Bin).
         var fine = Bin(t, y, weights, noise, MaxFitPoints) ?? LongTraceBins(t, y, weights, noise);
-        var coarse = fine is null ? null : Bin(t, y, weights, noise, ComparePoints, checkCurvature: false);
+        var coarse = fine is null
+            ? Bin(t, y, weights, noise, ShortComparePoints, checkCurvature: false, minValid: 2 * ShortComparePoints)
+            : Bin(t, y, weights, noise, ComparePoints, checkCurvature: false);
         var (tFine, yFine, wFine, sFine) = fine is { } fb ? (fb.T, fb.Y, fb.W, (double[]?)fb.S) : (t, y, weights, null);
         double[]? spread = null;
         if ((coarse ?? fine) is { } b) (t, y, weights, spread) = b;
@@ -381,6 +383,10 @@ public static class IntegratedLawFitter
     /// <summary>Bins the candidate laws are compared on, for a trace binned at <see cref="MaxFitPoints"/>.</summary>
     public const int ComparePoints = 32;
 
+    /// <summary>Bins a trace too short for fine bins has its laws compared on, once it has twice as many valid samples
+    /// (the chosen law is then refitted on every sample).</summary>
+    public const int ShortComparePoints = 64;
+
     /// <summary>
     /// Means of consecutive valid samples in bins of ⌈n/B⌉ (B = 250 for the reported fit, 32 for comparing laws),
     /// weighted by their counts, with the SD of the sample times in each bin, when a trace has more than 500 valid
@@ -395,11 +401,12 @@ public static class IntegratedLawFitter
     /// makes that estimate scatter by about 0.1·σ/√n_b, so a noisy trace always passes; the two-point bin average
     /// then removes that bias to fourth order, which is why the coarser comparison bins need no such check.
     /// </summary>
-    internal static (double[] T, double[] Y, double[] W, double[] S)? Bin(double[] t, double[] y, double[] w, double noise, int maxBins = MaxFitPoints, bool checkCurvature = true)
+    internal static (double[] T, double[] Y, double[] W, double[] S)? Bin(double[] t, double[] y, double[] w, double noise, int maxBins = MaxFitPoints, bool checkCurvature = true,
+        int minValid = 2 * MaxFitPoints + 1)
     {
         var valid = 0;
         for (var i = 0; i < w.Length; i++) if (w[i] > 0) valid++;
-        if (valid <= 2 * MaxFitPoints || !(noise > 0)) return null;
+        if (valid < minValid || !(noise > 0)) return null;
         var size = (valid + maxBins - 1) / maxBins;
         var nb = (valid + size - 1) / size;
         var tb = new double[nb]; var yb = new double[nb]; var wb = new double[nb];
