@@ -48,11 +48,19 @@ public static class PlatePlanCommand
             return ExitCodes.SomeRejected;
         }
         var text = map.ToPlanText(export, prefix);
-        // The plan written must read back: a bad value in a map (a concentration that is not a number) is located now.
-        try { Plan.FromText(text, Path.GetFileName(target)); }
+        // The plan written must read back: a bad value in a map (a concentration that is not a number) is located
+        // now, at its map cell, by the same code that builds the plan in memory for a series with a [plate] table.
+        try
+        {
+            if (map.ToPlan(export, prefix, Path.GetFileName(target)).Problems is [var first, ..])
+            {
+                stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: {first.Message}"));
+                return ExitCodes.SomeRejected;
+            }
+        }
         catch (InputException ex)
         {
-            stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: the plan made from the map does not read: {ex.Problem.Message}"));
+            stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: {ex.Problem.Message}"));
             return ExitCodes.SomeRejected;
         }
         AtomicFile.WriteAllText(target, text);

@@ -30,9 +30,10 @@ public static class SeriesRunner
         var rejected = new List<Problem>();
         SeriesConfig? config = null, read = null;
         Plan? plan = null;
+        string? configText = null;
         try
         {
-            var configText = ReadSetup(folder, ConfigFile, options);
+            configText = ReadSetup(folder, ConfigFile, options);
             read = SeriesConfig.FromText(configText, ConfigFile);
             CheckNamedFiles(folder, read, configText, options);
             // the series is analysed only once the files series.toml names are read too
@@ -40,16 +41,20 @@ public static class SeriesRunner
         }
         catch (InputException ex) { rejected.Add(read?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
-        try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options), PlanFile); }
-        catch (InputException ex) { rejected.Add(ex.Problem); }
-        catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
+        // plan.csv, or the plate maps series.toml's [plate] names (wells a map problem leaves out are rejected alone)
+        // (with series.toml rejected: its [plate] table, if it was read, still says where the plan is)
+        if (read is not null || configText is null || !SeriesPlan.DeclaresPlate(configText))
+        {
+            (plan, var planProblems) = SeriesPlan.Read(folder, config ?? read, options);
+            rejected.AddRange(planProblems);
+        }
         if (config is null || plan is null)
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
         // Names series.toml gives (species, per-run parameter columns) must exist before any run is read.
         try { SeriesCheck.Check(config, plan); }
         catch (InputException ex)
         {
-            rejected.Add(config.Locate(ex.Problem));
+            rejected.Add(plan.Locate(config.Locate(ex.Problem)));
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion);
         }
 
@@ -66,6 +71,8 @@ public static class SeriesRunner
         {
             var row = plan.Rows[i];
             var (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
+            // a plan built from a plate map: the problem is placed at the map cell (or setting) the plan cell came from
+            if (problem is not null) problem = plan.Locate(problem);
             RunTrace? fitTrace = null;
             if (run is not null)
             {
@@ -101,7 +108,7 @@ public static class SeriesRunner
         rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
         var warnings = new List<Warning>();
         warnings.AddRange(sinkFailures.OrderBy(w => w.Where, StringComparer.Ordinal));
-        foreach (var unused in UnplannedExports(folder, plan))
+        foreach (var unused in UnplannedExports(folder, plan, config.Plate?.Maps ?? []))
             warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
 
         // A run whose initial rate is unresolved is reported but kept out of the series fits unless the user asks.
@@ -295,7 +302,7 @@ public static class SeriesRunner
         }
     }
 
-    private static Problem Missing(string file, IOException ex) =>
+    internal static Problem Missing(string file, IOException ex) =>
         new(file, 1, 1, ex is FileNotFoundException or DirectoryNotFoundException ? "no such file" : ex.Message, $"{file} in the series folder", "see docs/formats.md");
 
     /// <summary>A problem with the file a plan row names, located at that row's file cell in plan.csv.</summary>
@@ -303,7 +310,7 @@ public static class SeriesRunner
         new(PlanFile, row.FileLine > 0 ? row.FileLine : row.Line, Math.Max(1, row.FileColumn), found, expected, hint) { Input = row.File };
 
     /// <summary>plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).</summary>
-    private static string ReadSetup(string folder, string name, AnalysisOptions options)
+    internal static string ReadSetup(string folder, string name, AnalysisOptions options)
     {
         // A setup file is small; the export limit is only a guard against reading a disk image by mistake.
         if (SeriesInputs.Check(folder, name, options.AllowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
@@ -334,9 +341,9 @@ public static class SeriesRunner
         return (1, 1);
     }
 
-    private static IEnumerable<string> UnplannedExports(string folder, Plan plan)
+    private static IEnumerable<string> UnplannedExports(string folder, Plan plan, IReadOnlyList<string> maps)
     {
-        var planned = new HashSet<string>(plan.Rows.Select(r => r.File), StringComparer.Ordinal);
+        var planned = new HashSet<string>(plan.Rows.Select(r => r.File).Concat(maps), StringComparer.Ordinal);
         foreach (var f in Directory.EnumerateFiles(folder).Select(Path.GetFileName).OfType<string>().Order(StringComparer.Ordinal))
         {
             if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
