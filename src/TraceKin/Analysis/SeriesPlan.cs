@@ -24,14 +24,14 @@ public static class SeriesPlan
         // series.toml was rejected: a folder planned by maps only is not also told that plan.csv is missing
         if (config is null && !planExists && File.Exists(Path.Combine(folder, PlateSettings.DefaultMap))) return (null, []);
         try { return (Plan.FromText(SeriesRunner.ReadSetup(folder, SeriesRunner.PlanFile, options), SeriesRunner.PlanFile), []); }
-        catch (InputException ex) { return (null, [ex.Problem]); }
-        catch (IOException ex)
+        catch (InputException ex) { return (null, [PointAtMap(ex.Problem)]); }
+        catch (IOException ex) { return (null, [PointAtMap(SeriesRunner.Missing(SeriesRunner.PlanFile, ex))]); }
+
+        // no plan.csv, but a plate map by its usual name: say how to use it
+        Problem PointAtMap(Problem p) => planExists || !File.Exists(Path.Combine(folder, PlateSettings.DefaultMap)) ? p : p with
         {
-            var p = SeriesRunner.Missing(SeriesRunner.PlanFile, ex);
-            if (!planExists && File.Exists(Path.Combine(folder, PlateSettings.DefaultMap)))
-                p = p with { Hint = $"{PlateSettings.DefaultMap} is here: add a [plate] table to series.toml (export = \"the plate export\") to build the plan from it, or write plan.csv with `tracekin plate-plan`" };
-            return (null, [p]);
-        }
+            Hint = $"{PlateSettings.DefaultMap} is here: add a [plate] table to series.toml (export = \"the plate export\") to build the plan from it, or write plan.csv from it with `tracekin plate-plan`",
+        };
     }
 
     /// <summary>True when the series is planned by plate maps: series.toml text with a [plate] table (also when the rest of it is invalid).</summary>
