@@ -35,6 +35,8 @@ public sealed class SeriesWatch
     // waiting for them, said once, looked at again later.
     private readonly Dictionary<string, string> _unreadable = new(StringComparer.Ordinal);
     private bool _cleaned;
+    // Per-run results of the last pass: a run whose export, plan row, blanks and series.toml are unchanged is not analysed again.
+    private readonly RunStore _runs = new();
     private DateTimeOffset? _settlingSince;
 
     /// <summary>How many settle intervals a series waits for its settling exports before it is analysed without them.</summary>
@@ -56,6 +58,9 @@ public sealed class SeriesWatch
     }
 
     public string Name { get; }
+
+    /// <summary>Runs of the last analysis taken unchanged from the pass before, and runs read and analysed.</summary>
+    public (int Reused, int Computed) LastRunCounts => _runs.LastPass;
 
     /// <summary>A series folder holds series.toml and plan.csv, or series.toml with a [plate] table (its plan drawn in plate maps).</summary>
     public static bool IsSeriesFolder(string folder)
@@ -337,14 +342,17 @@ public sealed class SeriesWatch
         }
         // The per-run tables are streamed as the runs finish and renamed into place with the other outputs.
         using var tables = new RunTables(_outDir, _options.Csv, root: _options.Out);
+        _runs.BeginPass(inputs);
         var options = new AnalysisOptions
         {
+            Reuse = _runs,
             Workers = Math.Max(1, _options.Workers),
             RunSink = RunSinks.Combine(plots, tables),
             Progress = (run, status) => _log.Debug("{Series} {Run}: {Status}", Name, run, status),
         };
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var result = SeriesRunner.Analyse(_snapshotDir, options);
+        _runs.EndPass();
 
         // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for. One
         // that is there but cannot be read (or is a folder, or a dangling link) is rejected, and tried again when it
@@ -401,8 +409,8 @@ public sealed class SeriesWatch
             Pending = pending.ToList(),
             Outputs = HashOutputs(),
         });
-        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
-            Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
+        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed ({Kept} unchanged, kept from the last pass), {Rejected} rejected, {Pending} pending, in {Ms} ms",
+            Name, record.Sequence, result.Runs.Count, _runs.LastPass.Reused, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
         Announce(record, result);
         // An export that cannot be read is not an input of the record; say so once, when it first counts as rejected.
         foreach (var p in unreadable.Where(p => committed?.Pending.Contains(p.File) != true))

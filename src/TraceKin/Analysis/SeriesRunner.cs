@@ -67,10 +67,21 @@ public static class SeriesRunner
         var sinkFailures = new ConcurrentQueue<Warning>();
         var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
         var exports = new SharedExports(folder, plan, config, options);
+        var byRun = options.Reuse is null ? null : plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            var (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
+            // a run whose every input is as in the last pass (watch) is taken as it was, without reading its export
+            var key = options.Reuse?.Key(row, row.BlankRuns.Select(id => byRun![id]).ToList(), config);
+            RunResult? run;
+            Problem? problem = null;
+            if (key is not null && options.Reuse!.TryTake(key, out var kept)) run = kept;
+            else
+            {
+                (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
+                if (run is not null && key is not null) options.Reuse!.Keep(key, run);
+                else options.Reuse?.Computed();
+            }
             // a plan built from a plate map: the problem is placed at the map cell (or setting) the plan cell came from
             if (problem is not null) problem = plan.Locate(problem);
             RunTrace? fitTrace = null;
