@@ -68,6 +68,7 @@ public static class SeriesRunner
         var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
         var exports = new SharedExports(folder, plan, config, options);
         var byRun = options.Reuse is null ? null : plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+        var madeBlanks = new ConcurrentDictionary<string, BlankSubtraction>(StringComparer.Ordinal);
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
@@ -78,7 +79,7 @@ public static class SeriesRunner
             if (key is not null && options.Reuse!.TryTake(key, out var kept)) run = kept;
             else
             {
-                (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
+                (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList(), madeBlanks);
                 if (run is not null && key is not null) options.Reuse!.Keep(key, run);
                 else options.Reuse?.Computed();
             }
@@ -203,7 +204,9 @@ public static class SeriesRunner
     internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read) => AnalyseRun(row, config, read, []);
 
     /// <param name="blanks">The blank runs the row subtracts (<see cref="PlanRow.BlankRuns"/>) with their exports as read.</param>
-    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks)
+    /// <param name="madeBlanks">Blank means made so far in this analysis, shared by the runs that subtract the same blanks.</param>
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks,
+        ConcurrentDictionary<string, BlankSubtraction>? madeBlanks = null)
     {
         if (read.AtFile is { } refused) return (null, AtFileCell(row, refused.Found, refused.Expected, refused.Hint));
         if (read.Defect is { } defect) return (null, Internal(row, defect));
@@ -223,7 +226,7 @@ public static class SeriesRunner
             BlankSubtraction? blank = null;
             if (blanks.Count > 0)
             {
-                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config);
+                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config, madeBlanks);
                 export = blank.Apply(export, config.Signal.Channel);
             }
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
@@ -370,13 +373,23 @@ public static class SeriesRunner
     private sealed class SharedExports(string folder, Plan plan, SeriesConfig config, AnalysisOptions options)
     {
         private readonly ConcurrentDictionary<string, Lazy<ExportRead>> _reads = new(StringComparer.Ordinal);
-        // a file's uses: its own runs and every use of one of its runs as a blank
-        private readonly ConcurrentDictionary<string, int> _left = new(plan.Rows
-            .Concat(plan.Rows.SelectMany(r => r.BlankRuns).Select(id => plan.Rows.First(x => x.Run == id)))
-            .GroupBy(r => r.File, StringComparer.Ordinal)
-            .Select(g => KeyValuePair.Create(g.Key, g.Count())), StringComparer.Ordinal);
-
         private readonly Dictionary<string, PlanRow> _byRun = plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+
+        // a file's uses: its own runs and every use of one of its runs as a blank (looked up by id: a plate of 384
+        // wells subtracting 32 blanks each is 11,000 uses)
+        private readonly ConcurrentDictionary<string, int> _left = Uses(plan);
+
+        private static ConcurrentDictionary<string, int> Uses(Plan plan)
+        {
+            var byRun = plan.Rows.ToDictionary(r => r.Run, r => r.File, StringComparer.Ordinal);
+            var left = new ConcurrentDictionary<string, int>(StringComparer.Ordinal);
+            foreach (var r in plan.Rows)
+            {
+                left.AddOrUpdate(r.File, 1, (_, n) => n + 1);
+                foreach (var id in r.BlankRuns) left.AddOrUpdate(byRun[id], 1, (_, n) => n + 1);
+            }
+            return left;
+        }
 
         /// <summary>The export of a blank run another run subtracts (counted among its file's uses).</summary>
         public (PlanRow Row, ExportRead Read) TakeBlank(string run) => (_byRun[run], Take(_byRun[run]));
