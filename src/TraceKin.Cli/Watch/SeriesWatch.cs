@@ -429,7 +429,8 @@ public sealed class SeriesWatch
         foreach (var input in record.Inputs.Where(i => i.New))
         {
             if (input.Status == LedgerInput.Rejected)
-                _status(IsSetup(input.File)
+                // a plate map with a problem in some wells leaves the others analysed: only a setup that stops the series waits
+                _status(IsSetup(input.File) && (input.File is SeriesRunner.PlanFile or SeriesRunner.ConfigFile || result.Plan is null)
                     ? $"{Name}/{input.File}: rejected, the series waits for a fix — {input.Message}"
                     : $"{Name}/{input.File}: rejected — {input.Message}");
             else if (input.Status == LedgerInput.Analysed && result.Runs.Count(r => r.File == input.File) is var many and > 1)
