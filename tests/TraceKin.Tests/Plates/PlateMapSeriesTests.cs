@@ -1,5 +1,7 @@
+using System.Globalization;
 using TraceKin.Analysis;
 using TraceKin.Cli.Commands;
+using TraceKin.Setup;
 using TraceKin.Tests.Support;
 
 namespace TraceKin.Tests.Plates;
@@ -228,5 +230,25 @@ public class PlateMapSeriesTests
         Assert.Equal(2, PlatePlanCommand.Run([new FileInfo(mapPath)], "plate.csv", null, "", false, TextWriter.Null, err));
         Assert.Contains("map.csv:3:7: found well B2: \"abc\"", err.ToString());
         Assert.False(File.Exists(Path.Combine(dir.Path, "plan.csv")));
+    }
+
+    [Theory]
+    [InlineData("de-DE")]
+    [InlineData("fr-FR")]
+    [InlineData("")]
+    public void A_semicolon_map_with_decimal_commas_plans_the_same_runs_under_every_culture(string culture)
+    {
+        var commas = PlateMap.Read([("m.csv", "[S]0 (mmol/L);1;2\nA;0,4;0,6\nB;0,8;1,5e0\n\nrole;1;2\nA;sample;sample\nB;sample;blank\n")]);
+        var saved = (CultureInfo.CurrentCulture, CultureInfo.CurrentUICulture);
+        CultureInfo.CurrentCulture = CultureInfo.CurrentUICulture = CultureInfo.GetCultureInfo(culture);
+        try
+        {
+            var (plan, problems) = commas.ToPlan("plate.csv", "", "plate map (m.csv)");
+            Assert.Empty(problems);
+            // the values as written: 0,4 mmol/L = 4e-4 mol/L (exact decimal reading, common practice, no source)
+            Assert.Equal([4e-4, 6e-4, 8e-4, 1.5e-3], plan!.Rows.Select(r => r.InitialConcentrations["S"]));
+            Assert.Equal("blank", plan.Rows[3].Role);
+        }
+        finally { (CultureInfo.CurrentCulture, CultureInfo.CurrentUICulture) = saved; }
     }
 }
