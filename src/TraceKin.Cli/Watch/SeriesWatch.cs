@@ -217,7 +217,10 @@ public sealed class SeriesWatch
     {
         yield return SeriesRunner.ConfigFile;
         _plateMaps = null;
+        // the copy this pass took, else (series.toml still settling) the inbox's own, read only when it is a small
+        // regular file inside the folder: a [plate] series must not look vanished for want of a plan.csv
         var copy = Path.Combine(_snapshotDir, SeriesRunner.ConfigFile);
+        if (!File.Exists(copy) && SeriesInputs.Check(_folder, SeriesRunner.ConfigFile, false, 1 << 20, out var raw) is null) copy = raw;
         try
         {
             if (File.Exists(copy))

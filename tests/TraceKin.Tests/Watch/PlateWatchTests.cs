@@ -85,6 +85,8 @@ public class PlateWatchTests
         var watch = new SeriesWatch(folder, new WatchOptions { Inbox = inbox, Out = outDir, Settle = Settle, Workers = 1, Plots = false },
             new FileStability(clock, Settle), ledger, clock, new LoggerConfiguration().CreateLogger(), status.Add);
 
+        // the first look, before series.toml has settled, must not take the folder for a vanished series (no plan.csv)
+        Assert.False(watch.Pass().Gone);
         var pass = Settled(watch, clock);
         Assert.True(pass.Analysed);
         Assert.Equal(0, pass.Rejected);
