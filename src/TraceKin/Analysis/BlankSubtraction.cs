@@ -22,7 +22,7 @@ internal sealed record BlankSubtraction(string What, double[] Mean, double[] Tim
         System.Collections.Concurrent.ConcurrentDictionary<string, BlankSubtraction>? made = null)
     {
         var key = made is null ? null : string.Join('\n', blanks.Select(b => b.Row.Run).Prepend(row.Subtract ?? ""));
-        if (key is not null && made!.TryGetValue(key, out var done) && done.Times.AsSpan().SequenceEqual(own.Times)) return done;
+        if (key is not null && made!.TryGetValue(key, out var done) && done.SignalUnit == own.Unit && done.Times.AsSpan().SequenceEqual(own.Times)) return done;
         var blank = Make(row, own, blanks, config);
         if (key is not null) made!.TryAdd(key, blank);
         return blank;

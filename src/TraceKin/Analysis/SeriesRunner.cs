@@ -121,7 +121,7 @@ public static class SeriesRunner
         var warnings = new List<Warning>();
         warnings.AddRange(sinkFailures.OrderBy(w => w.Where, StringComparer.Ordinal));
         foreach (var unused in UnplannedExports(folder, plan, config.Plate?.Maps ?? []))
-            warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
+            warnings.Add(new Warning("file-not-in-plan", unused, config.Plate is null ? "this file is in the series folder but not in plan.csv; it was not analysed" : "this file is in the series folder but no mapped well reads it; it was not analysed"));
 
         // A run whose initial rate is unresolved is reported but kept out of the series fits unless the user asks.
         var unresolved = analysed.Where(s => !s.Run!.Rates.IsResolved).Select(s => s.Run!.Id).ToList();
