@@ -45,12 +45,23 @@ PY
 $tk simulate "$series" -k 1e-7 --saturation S=0.5 --coefficient S=-1 --coefficient P=1 --duration 198 --interval 2 \
     --noise 0.001 --plate 384 --seed 5 --force 2>/dev/null
 echo "plate: $(grep -c '^time' "$series/plate.csv") readings, $(wc -c < "$series/plate.csv") bytes, $(($(wc -l < "$series/plan.csv") - 1)) runs"
+# The VM is shared: the load average says how much of its two cores this process could have had, and the CPU time
+# (user + sys, from /usr/bin/time when installed) what the analysis itself cost.
+echo "load average before: $(cut -d' ' -f1-3 /proc/loadavg)"
 for mode in --no-plots ""; do
   for i in 1 2 3; do
     s=$(date +%s.%N)
-    $tk analyse "$series" --out "$work/out" $mode >/dev/null 2>&1 || true
+    if [[ -x /usr/bin/time ]]; then
+      cpu=$(/usr/bin/time -f '%U %S' $tk analyse "$series" --out "$work/out" $mode 2>&1 >/dev/null | tail -1) || true
+    else
+      $tk analyse "$series" --out "$work/out" $mode >/dev/null 2>&1 || true
+      cpu=""
+    fi
     e=$(date +%s.%N)
-    printf 'analyse %-10s run %d: %.2f s wall\n' "${mode:-(plots)}" "$i" "$(echo "$e - $s" | bc)"
+    printf 'analyse %-10s run %d: %.2f s wall' "${mode:-(plots)}" "$i" "$(echo "$e - $s" | bc)"
+    if [[ -n "$cpu" ]]; then printf ', %.2f s CPU' "$(echo "$cpu" | awk '{print $1 + $2}')"; fi
+    printf '; %s\n' "$(grep -o 'timing: .*' "$work/out/tracekin.log" 2>/dev/null || true)"
   done
 done
+echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)"
 grep -o '"chosenLaw": *"[a-z]*"' "$work/out/summary.json" || true

@@ -43,6 +43,13 @@ public static class InspectCommand
             try
             {
                 var (settings, source) = SettingsFor(file, settingsFile);
+                // a plate map that series.toml's [plate] names is no export: show the plan it makes instead
+                if (PlateMapOf(file, settingsFile) is { } config)
+                {
+                    if (!PrintMap(file, config, output)) rejected++;
+                    output.WriteLine();
+                    continue;
+                }
                 if (source is not null) output.WriteLine($"  {"settings",-20} [ingest] of {source}");
                 var run = ExportReader.FromFile(file.FullName, settings);
                 Print(run, output);
@@ -68,6 +75,39 @@ public static class InspectCommand
         var path = explicitFile?.FullName ?? Path.Combine(file.DirectoryName ?? ".", "series.toml");
         if (!File.Exists(path)) return (IngestSettings.Default, null);
         return (SeriesConfig.FromFile(path).Ingest, Path.GetFileName(path));
+    }
+
+    /// <summary>The series settings beside the file when their [plate] table names it as a map; null otherwise.</summary>
+    private static SeriesConfig? PlateMapOf(FileInfo file, FileInfo? explicitFile)
+    {
+        var path = explicitFile?.FullName ?? Path.Combine(file.DirectoryName ?? ".", "series.toml");
+        if (!File.Exists(path) || Path.GetDirectoryName(Path.GetFullPath(path)) != file.DirectoryName) return null;
+        var config = SeriesConfig.FromFile(path);
+        return config.Plate is { } plate && plate.Maps.Contains(file.Name, StringComparer.Ordinal) ? config : null;
+    }
+
+    /// <summary>The plan a [plate] series' maps make, as analyse builds it: its runs, and every located problem. False when there is a problem.</summary>
+    private static bool PrintMap(FileInfo file, SeriesConfig config, TextWriter o)
+    {
+        var plate = config.Plate!;
+        o.WriteLine(Shown($"  {"plate map",-20} one of the maps of [plate] in series.toml ({string.Join(", ", plate.Maps)})"));
+        var (plan, problems) = SeriesPlan.Read(file.DirectoryName ?? ".", config, new AnalysisOptions());
+        if (plan is not null)
+        {
+            var rows = plan.Rows;
+            o.WriteLine(Shown($"  {"runs",-20} {rows.Count} ({rows[0].Run} … {rows[^1].Run}), reading {string.Join(", ", rows.Select(r => r.File).Distinct(StringComparer.Ordinal))}"));
+            o.WriteLine(Shown($"  {"roles",-20} {rows.Count(r => r.Role == "sample")} sample, {rows.Count(r => r.Role == "blank")} blank"));
+            if (plan.Species.Count > 0) o.WriteLine(Shown($"  {"species",-20} {string.Join(", ", plan.Species.Select(sp => $"[{sp}]0"))}"));
+            var subtracting = rows.Count(r => r.BlankRuns.Count > 0);
+            if (subtracting > 0) o.WriteLine(Shown($"  {"blanks",-20} {subtracting} run(s) subtract a blank"));
+        }
+        if (problems.Count == 0) o.WriteLine("  problems             none");
+        else
+        {
+            o.WriteLine(plan is null ? "  rejected: no plan can be made" : "  problems (these wells are not analysed)");
+            foreach (var p in problems) o.WriteLine(Shown($"    {p.Message}"));
+        }
+        return problems.Count == 0;
     }
 
     private static void Print(RunExport run, TextWriter o)

@@ -14,7 +14,7 @@ public static class PlatePlanCommand
     public static Command Create()
     {
         var maps = new Argument<FileInfo[]>("maps") { Description = "Plate-map CSV files: each grid's corner cell names the plan column it fills.", Arity = ArgumentArity.OneOrMore };
-        var export = new Option<string>("--export", "-e") { Description = "The plate export every well is read from (its file name in the series folder).", Required = true };
+        var export = new Option<string?>("--export", "-e") { Description = "The plate export every well is read from (its file name in the series folder); may be left out when a \"file\" grid names each well's export." };
         var output = new Option<FileInfo?>("--out", "-o") { Description = "plan.csv to write (default: plan.csv beside the first map)." };
         var prefix = new Option<string>("--prefix") { Description = "Text put before each well's name to make its run id (default none: run B7 reads well B7).", DefaultValueFactory = _ => "" };
         var force = new Option<bool>("--force") { Description = "Replace an existing plan.csv." };
@@ -22,11 +22,11 @@ public static class PlatePlanCommand
         {
             maps, export, output, prefix, force,
         };
-        cmd.SetAction(pr => Run(pr.GetValue(maps) ?? [], pr.GetValue(export)!, pr.GetValue(output), pr.GetValue(prefix) ?? "", pr.GetValue(force), Console.Out, Console.Error));
+        cmd.SetAction(pr => Run(pr.GetValue(maps) ?? [], pr.GetValue(export), pr.GetValue(output), pr.GetValue(prefix) ?? "", pr.GetValue(force), Console.Out, Console.Error));
         return cmd;
     }
 
-    public static int Run(IReadOnlyList<FileInfo> maps, string export, FileInfo? output, string prefix, bool force, TextWriter stdout, TextWriter stderr)
+    public static int Run(IReadOnlyList<FileInfo> maps, string? export, FileInfo? output, string prefix, bool force, TextWriter stdout, TextWriter stderr)
     {
         var missing = maps.FirstOrDefault(m => !m.Exists);
         if (missing is not null)
@@ -47,12 +47,25 @@ public static class PlatePlanCommand
             stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: {ex.Problem.Message}"));
             return ExitCodes.SomeRejected;
         }
+        if (export is null && !map.Columns.Contains("file", StringComparer.OrdinalIgnoreCase))
+        {
+            stderr.WriteLine("tracekin plate-plan: give the plate export with --export FILE (the map has no \"file\" grid naming each well's export)");
+            return ExitCodes.Usage;
+        }
         var text = map.ToPlanText(export, prefix);
-        // The plan written must read back: a bad value in a map (a concentration that is not a number) is located now.
-        try { Plan.FromText(text, Path.GetFileName(target)); }
+        // The plan written must read back: a bad value in a map (a concentration that is not a number) is located
+        // now, at its map cell, by the same code that builds the plan in memory for a series with a [plate] table.
+        try
+        {
+            if (map.ToPlan(export, prefix, Path.GetFileName(target)).Problems is [var first, ..])
+            {
+                stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: {first.Message}"));
+                return ExitCodes.SomeRejected;
+            }
+        }
         catch (InputException ex)
         {
-            stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: the plan made from the map does not read: {ex.Problem.Message}"));
+            stderr.WriteLine(PrintableText.Escape($"tracekin plate-plan: {ex.Problem.Message}"));
             return ExitCodes.SomeRejected;
         }
         AtomicFile.WriteAllText(target, text);

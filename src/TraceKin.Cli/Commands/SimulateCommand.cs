@@ -41,7 +41,10 @@ public static class SimulateCommand
                 var dir = pr.GetValue(series)!.FullName;
                 var config = SeriesConfig.FromFile(Path.Combine(dir, "series.toml"));
                 config = config with { Signal = config.Signal.WithFilesFrom(dir) };
-                var plan = Plan.FromFile(Path.Combine(dir, "plan.csv"));
+                // plan.csv, or the plate maps of a [plate] table: the plan analyse will read
+                var (read, problems) = SeriesPlan.Read(dir, config, new AnalysisOptions());
+                if (problems.Count > 0) throw new InputException(problems[0]);
+                var plan = read!;
                 var ord = Pairs(pr.GetValue(orders) ?? [], "--order");
                 // The followed species' coefficient is the one series.toml states; the analysis reads it from there too.
                 var nu = ord.Keys.ToDictionary(s => s, s => s == config.Signal.Species ? config.Signal.Coefficient : -1.0);

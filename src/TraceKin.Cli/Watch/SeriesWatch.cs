@@ -35,6 +35,8 @@ public sealed class SeriesWatch
     // waiting for them, said once, looked at again later.
     private readonly Dictionary<string, string> _unreadable = new(StringComparer.Ordinal);
     private bool _cleaned;
+    // Per-run results of the last pass: a run whose export, plan row, blanks and series.toml are unchanged is not analysed again.
+    private readonly RunStore _runs = new();
     private DateTimeOffset? _settlingSince;
 
     /// <summary>How many settle intervals a series waits for its settling exports before it is analysed without them.</summary>
@@ -57,9 +59,25 @@ public sealed class SeriesWatch
 
     public string Name { get; }
 
-    /// <summary>A series folder holds both plan.csv and series.toml.</summary>
-    public static bool IsSeriesFolder(string folder) =>
-        File.Exists(Path.Combine(folder, SeriesRunner.PlanFile)) && File.Exists(Path.Combine(folder, SeriesRunner.ConfigFile));
+    /// <summary>Runs of the last analysis taken unchanged from the pass before, and runs read and analysed.</summary>
+    public (int Reused, int Computed) LastRunCounts => _runs.LastPass;
+
+    /// <summary>A series folder holds series.toml and plan.csv, or series.toml with a [plate] table (its plan drawn in plate maps).</summary>
+    public static bool IsSeriesFolder(string folder)
+    {
+        var config = Path.Combine(folder, SeriesRunner.ConfigFile);
+        if (!File.Exists(config)) return false;
+        if (File.Exists(Path.Combine(folder, SeriesRunner.PlanFile))) return true;
+        // read only a small regular file inside the folder (never a pipe or a link out of it)
+        if (SeriesInputs.Check(folder, SeriesRunner.ConfigFile, false, 1 << 20, out var path) is not null) return false;
+        try { return SeriesPlan.DeclaresPlate(File.ReadAllText(path)); }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException) { return false; }
+    }
+
+    /// <summary>The setup files of the last pass: series.toml, plan.csv or the plate maps its [plate] table names.</summary>
+    private readonly HashSet<string> _setupFiles = new(StringComparer.Ordinal) { SeriesRunner.PlanFile, SeriesRunner.ConfigFile };
+
+    private bool IsSetup(string file) => _setupFiles.Contains(file);
 
     public SeriesPass Pass()
     {
@@ -71,9 +89,15 @@ public sealed class SeriesWatch
         var changing = 0; // settling files that are not unreadable: still being written
 
         var setupTaken = true;
-        foreach (var setup in new[] { SeriesRunner.PlanFile, SeriesRunner.ConfigFile })
+        // series.toml first: whether the plan is plan.csv or plate maps is read from its copy
+        foreach (var setup in SetupFiles())
         {
-            if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } found) return SeriesPass.Vanished;
+            var mayBeAbsent = setup != SeriesRunner.ConfigFile && (setup != SeriesRunner.PlanFile || _plateMaps is not null);
+            if (FileSignature.Of(Path.Combine(_folder, setup)) is not { } found)
+            {
+                if (mayBeAbsent) continue; // a missing map is reported by the analysis; plan.csv beside [plate] need not be there
+                return SeriesPass.Vanished;
+            }
             if (Refusal(setup) is { } refused)
             {
                 // a pipe, device or link out of the folder is never opened; said once, looked at again later
@@ -88,6 +112,8 @@ public sealed class SeriesWatch
             if (TryTake(setup, sig, now, ref recheck, out var sha)) inputs[setup] = sha;
             else setupTaken = false;
         }
+        _setupFiles.Clear();
+        _setupFiles.UnionWith([SeriesRunner.PlanFile, SeriesRunner.ConfigFile, .. _plateMaps ?? []]);
         if (!setupTaken) return new SeriesPass(false, false, recheck, _ledger.Latest(Name)) { Waiting = true };
 
         var plan = ReadSetup();
@@ -165,18 +191,53 @@ public sealed class SeriesWatch
         return null;
     }
 
-    /// <summary>Parses the snapshot's setup; null when either file is bad (the analysis then reports it).</summary>
+    /// <summary>Parses the snapshot's setup as the analysis will (plan.csv, or the plate maps of [plate]); null when it is bad (the analysis then reports it).</summary>
     private Plan? ReadSetup()
     {
         try
         {
-            SeriesConfig.FromFile(Path.Combine(_snapshotDir, SeriesRunner.ConfigFile));
-            return Plan.FromFile(Path.Combine(_snapshotDir, SeriesRunner.PlanFile));
+            var config = SeriesConfig.FromFile(Path.Combine(_snapshotDir, SeriesRunner.ConfigFile));
+            return SeriesPlan.Read(_snapshotDir, config, new AnalysisOptions()).Plan;
         }
         catch (Exception ex) when (ex is InputException or IOException)
         {
             return null;
         }
+    }
+
+    // The plate maps the snapshot's series.toml names ([plate]); null: the plan is plan.csv.
+    private IReadOnlyList<string>? _plateMaps;
+
+    /// <summary>
+    /// The setup files to take, series.toml first. Which plan files follow is read from series.toml as taken by this
+    /// pass (its snapshot copy once taken): plan.csv, or the maps of its [plate] table (and plan.csv if present, so
+    /// the analysis can refuse the two together). A map edited is then an input like plan.csv: its change re-analyses.
+    /// </summary>
+    private IEnumerable<string> SetupFiles()
+    {
+        yield return SeriesRunner.ConfigFile;
+        _plateMaps = null;
+        // the copy this pass took, else (series.toml still settling) the inbox's own, read only when it is a small
+        // regular file inside the folder: a [plate] series must not look vanished for want of a plan.csv
+        var copy = Path.Combine(_snapshotDir, SeriesRunner.ConfigFile);
+        if (!File.Exists(copy) && SeriesInputs.Check(_folder, SeriesRunner.ConfigFile, false, 1 << 20, out var raw) is null) copy = raw;
+        try
+        {
+            if (File.Exists(copy))
+            {
+                var text = File.ReadAllText(copy);
+                if (SeriesPlan.DeclaresPlate(text))
+                {
+                    try { _plateMaps = SeriesConfig.FromText(text, SeriesRunner.ConfigFile).Plate?.Maps ?? []; }
+                    catch (InputException) { _plateMaps = [PlateSettings.DefaultMap]; }
+                }
+            }
+        }
+        catch (IOException) { }
+        yield return SeriesRunner.PlanFile;
+        // only names that stay inside the series folder are looked at; the analysis says why another is refused
+        foreach (var map in _plateMaps ?? [])
+            if (map != SeriesRunner.PlanFile && map != SeriesRunner.ConfigFile && !Path.IsPathRooted(map)) yield return map;
     }
 
     /// <summary>
@@ -273,7 +334,7 @@ public sealed class SeriesWatch
             if (_options.Plots) OutputPaths.EnsureFolder(_options.Out, Path.Combine(_outDir, "plots"));
             // The same outputs as analyse writes, by the same writer; each run plot is on disk before its key file.
             outputs = new SeriesOutputs(_outDir, _options.Plots, _options.Csv, root: _options.Out, queueRunPlots: false, seriesPlots: _options.SeriesPlots);
-            plots = outputs.RunPlots is { } runPlots ? new ChangedRunPlots(_options.Out, _outDir, _plotKeyDir, inputs, runPlots, outputs) : null;
+            plots = outputs.RunPlots is { } runPlots ? new ChangedRunPlots(_options.Out, _outDir, _plotKeyDir, inputs, runPlots, outputs) { Maps = _plateMaps ?? [] } : null;
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
@@ -286,8 +347,10 @@ public sealed class SeriesWatch
             RemoveOrphanTemporaries();
             _cleaned = true;
         }
+        _runs.BeginPass(inputs);
         var options = new AnalysisOptions
         {
+            Reuse = _runs,
             Workers = Math.Max(1, _options.Workers),
             // Only the changed runs' plots are drawn; the per-run tables are streamed as the runs finish.
             RunSink = RunSinks.Combine(plots, outputs.Tables),
@@ -295,6 +358,7 @@ public sealed class SeriesWatch
         };
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var result = SeriesRunner.Analyse(_snapshotDir, options);
+        _runs.EndPass();
 
         // An export the plan names but that has not arrived (or settled) is not a failure: it is waited for. One
         // that is there but cannot be read (or is a folder, or a dangling link) is rejected, and tried again when it
@@ -332,7 +396,7 @@ public sealed class SeriesWatch
         {
             var isNew = committed?.Input(file)?.Sha256 != sha;
             var problem = result.Rejected.FirstOrDefault(p => (p.Input ?? p.File) == file);
-            var isSetup = file is SeriesRunner.PlanFile or SeriesRunner.ConfigFile;
+            var isSetup = IsSetup(file);
             var status = problem is not null ? LedgerInput.Rejected : isSetup ? LedgerInput.Setup : LedgerInput.Analysed;
             records.Add(new LedgerInput(file, sha, status, isNew, problem?.Message));
         }
@@ -345,8 +409,8 @@ public sealed class SeriesWatch
             Pending = pending.ToList(),
             Outputs = HashOutputs(),
         });
-        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed, {Rejected} rejected, {Pending} pending, in {Ms} ms",
-            Name, record.Sequence, result.Runs.Count, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
+        _log.Information("{Series}: record {Seq} written, {Runs} run(s) analysed ({Kept} unchanged, kept from the last pass), {Rejected} rejected, {Pending} pending, in {Ms} ms",
+            Name, record.Sequence, result.Runs.Count, _runs.LastPass.Reused, result.Rejected.Count, pending.Count, clock.ElapsedMilliseconds);
         Announce(record, result);
         // An export that cannot be read is not an input of the record; say so once, when it first counts as rejected.
         foreach (var p in unreadable.Where(p => committed?.Pending.Contains(p.File) != true))
@@ -365,7 +429,8 @@ public sealed class SeriesWatch
         foreach (var input in record.Inputs.Where(i => i.New))
         {
             if (input.Status == LedgerInput.Rejected)
-                _status(input.File is SeriesRunner.PlanFile or SeriesRunner.ConfigFile
+                // a plate map with a problem in some wells leaves the others analysed: only a setup that stops the series waits
+                _status(IsSetup(input.File) && (input.File is SeriesRunner.PlanFile or SeriesRunner.ConfigFile || result.Plan is null)
                     ? $"{Name}/{input.File}: rejected, the series waits for a fix — {input.Message}"
                     : $"{Name}/{input.File}: rejected — {input.Message}");
             else if (input.Status == LedgerInput.Analysed && result.Runs.Count(r => r.File == input.File) is var many and > 1)

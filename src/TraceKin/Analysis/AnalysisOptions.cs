@@ -41,6 +41,8 @@ public sealed record AnalysisOptions
     /// folder. Off by default: every input must lie inside the folder (see <see cref="Setup.SeriesInputs"/>).
     /// </summary>
     public bool AllowOutsideFiles { get; init; }
+    /// <summary>Results kept from the last analysis of this series: a run whose inputs did not change is not analysed again (see <see cref="RunStore"/>).</summary>
+    public RunStore? Reuse { get; init; }
     /// <summary>Called each time an export is parsed, with its file name (once per file, however many runs read it).</summary>
     public Action<string>? ExportParsed { get; init; }
 }

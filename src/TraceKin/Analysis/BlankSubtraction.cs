@@ -16,7 +16,19 @@ namespace TraceKin.Analysis;
 internal sealed record BlankSubtraction(string What, double[] Mean, double[] Times, IReadOnlyList<string> Members, double SlopeStdError, string SignalUnit)
 {
     /// <summary>The blank for a run, or a located problem (at the run's subtract cell) when a blank cannot be read.</summary>
-    public static BlankSubtraction Of(PlanRow row, Trace own, IReadOnlyList<(PlanRow Row, SeriesRunner.ExportRead Read)> blanks, SeriesConfig config)
+    /// <param name="made">Blanks already made in this analysis, by what they subtract: the mean of a group is the same
+    /// for every run of the plate that subtracts it (at the same times), so it is made once, not once per well.</param>
+    public static BlankSubtraction Of(PlanRow row, Trace own, IReadOnlyList<(PlanRow Row, SeriesRunner.ExportRead Read)> blanks, SeriesConfig config,
+        System.Collections.Concurrent.ConcurrentDictionary<string, BlankSubtraction>? made = null)
+    {
+        var key = made is null ? null : string.Join('\n', blanks.Select(b => b.Row.Run).Prepend(row.Subtract ?? ""));
+        if (key is not null && made!.TryGetValue(key, out var done) && done.SignalUnit == own.Unit && done.Times.AsSpan().SequenceEqual(own.Times)) return done;
+        var blank = Make(row, own, blanks, config);
+        if (key is not null) made!.TryAdd(key, blank);
+        return blank;
+    }
+
+    private static BlankSubtraction Make(PlanRow row, Trace own, IReadOnlyList<(PlanRow Row, SeriesRunner.ExportRead Read)> blanks, SeriesConfig config)
     {
         var traces = new List<Trace>();
         foreach (var (b, read) in blanks)

@@ -22,6 +22,9 @@ public sealed record SeriesConfig(
     RateSettings Rates,
     ModelSettings Model)
 {
+    /// <summary>[plate]: the plan is built from plate maps instead of plan.csv (null when the table is absent).</summary>
+    public PlateSettings? Plate { get; init; }
+
     /// <summary>The text the settings were read from, to locate a settings problem found later (see <see cref="TomlKeyLocation"/>).</summary>
     public string? Text { get; init; }
 
@@ -61,7 +64,10 @@ public sealed record SeriesConfig(
                 IngestSettings.FromToml(Sec("ingest")),
                 SignalSettings.FromToml(Sec("signal")),
                 RateSettings.FromToml(Sec("rates")),
-                ModelSettings.FromToml(Sec("model")));
+                ModelSettings.FromToml(Sec("model")))
+            {
+                Plate = root.Has("plate") ? PlateSettings.FromToml(Sec("plate")) : null,
+            };
             foreach (var s in sections.Prepend(root))
                 foreach (var k in s.UnreadKeys)
                     throw Fail.Setting(file, s.KeyName(k), "a key TraceKin does not know", "one of the keys listed in docs/formats.md", "check the spelling");

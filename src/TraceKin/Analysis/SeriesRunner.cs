@@ -32,9 +32,10 @@ public static class SeriesRunner
         Plan? plan = null;
         // Each setup file is hashed from the bytes it is parsed from, once; the reports show these hashes.
         var hashes = new Dictionary<string, string>(StringComparer.Ordinal);
+        string? configText = null;
         try
         {
-            var configText = ReadSetup(folder, ConfigFile, options, hashes);
+            configText = ReadSetup(folder, ConfigFile, options, hashes);
             read = SeriesConfig.FromText(configText, ConfigFile);
             CheckNamedFiles(folder, read, configText, options);
             // the series is analysed only once the files series.toml names are read too
@@ -42,16 +43,20 @@ public static class SeriesRunner
         }
         catch (InputException ex) { rejected.Add(read?.Locate(ex.Problem) ?? ex.Problem); }
         catch (IOException ex) { rejected.Add(Missing(ConfigFile, ex)); }
-        try { plan = Plan.FromText(ReadSetup(folder, PlanFile, options, hashes), PlanFile); }
-        catch (InputException ex) { rejected.Add(ex.Problem); }
-        catch (IOException ex) { rejected.Add(Missing(PlanFile, ex)); }
+        // plan.csv, or the plate maps series.toml's [plate] names (wells a map problem leaves out are rejected alone)
+        // (with series.toml rejected: its [plate] table, if it was read, still says where the plan is)
+        if (read is not null || configText is null || !SeriesPlan.DeclaresPlate(configText))
+        {
+            (plan, var planProblems) = SeriesPlan.Read(folder, config ?? read, options, hashes);
+            rejected.AddRange(planProblems);
+        }
         if (config is null || plan is null)
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion) { SetupHashes = hashes };
         // Names series.toml gives (species, per-run parameter columns) must exist before any run is read.
         try { SeriesCheck.Check(config, plan); }
         catch (InputException ex)
         {
-            rejected.Add(config.Locate(ex.Problem));
+            rejected.Add(plan.Locate(config.Locate(ex.Problem)));
             return new SeriesResult(folder, config, plan, [], rejected, null, [], ToolVersion) { SetupHashes = hashes };
         }
 
@@ -64,10 +69,24 @@ public static class SeriesRunner
         var sinkFailures = new ConcurrentQueue<Warning>();
         var order = Partitioner.Create(Enumerable.Range(0, plan.Rows.Count), EnumerablePartitionerOptions.NoBuffering);
         var exports = new SharedExports(folder, plan, config, options);
+        var byRun = options.Reuse is null ? null : plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+        var madeBlanks = new ConcurrentDictionary<string, BlankSubtraction>(StringComparer.Ordinal);
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
-            var (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList());
+            // a run whose every input is as in the last pass (watch) is taken as it was, without reading its export
+            var key = options.Reuse?.Key(row, row.BlankRuns.Select(id => byRun![id]).ToList(), config);
+            RunResult? run;
+            Problem? problem = null;
+            if (key is not null && options.Reuse!.TryTake(key, out var kept)) run = kept;
+            else
+            {
+                (run, problem) = AnalyseRun(row, config, exports.Take(row), row.BlankRuns.Select(id => exports.TakeBlank(id)).ToList(), madeBlanks);
+                if (run is not null && key is not null) options.Reuse!.Keep(key, run);
+                else options.Reuse?.Computed();
+            }
+            // a plan built from a plate map: the problem is placed at the map cell (or setting) the plan cell came from
+            if (problem is not null) problem = plan.Locate(problem);
             RunTrace? fitTrace = null;
             if (run is not null)
             {
@@ -103,8 +122,8 @@ public static class SeriesRunner
         rejected.AddRange(slots.Where(s => s.Problem is not null).Select(s => s.Problem!));
         var warnings = new List<Warning>();
         warnings.AddRange(sinkFailures.OrderBy(w => w.Where, StringComparer.Ordinal));
-        foreach (var unused in UnplannedExports(folder, plan))
-            warnings.Add(new Warning("file-not-in-plan", unused, "this file is in the series folder but not in plan.csv; it was not analysed"));
+        foreach (var unused in UnplannedExports(folder, plan, config.Plate?.Maps ?? []))
+            warnings.Add(new Warning("file-not-in-plan", unused, config.Plate is null ? "this file is in the series folder but not in plan.csv; it was not analysed" : "this file is in the series folder but no mapped well reads it; it was not analysed"));
 
         // A run whose initial rate is unresolved is reported but kept out of the series fits unless the user asks.
         var unresolved = analysed.Where(s => !s.Run!.Rates.IsResolved).Select(s => s.Run!.Id).ToList();
@@ -188,7 +207,9 @@ public static class SeriesRunner
     internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read) => AnalyseRun(row, config, read, []);
 
     /// <param name="blanks">The blank runs the row subtracts (<see cref="PlanRow.BlankRuns"/>) with their exports as read.</param>
-    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks)
+    /// <param name="madeBlanks">Blank means made so far in this analysis, shared by the runs that subtract the same blanks.</param>
+    internal static (RunResult? Run, Problem? Problem) AnalyseRun(PlanRow row, SeriesConfig config, ExportRead read, IReadOnlyList<(PlanRow Row, ExportRead Read)> blanks,
+        ConcurrentDictionary<string, BlankSubtraction>? madeBlanks = null)
     {
         if (read.AtFile is { } refused) return (null, AtFileCell(row, refused.Found, refused.Expected, refused.Hint));
         if (read.Defect is { } defect) return (null, Internal(row, defect));
@@ -208,7 +229,7 @@ public static class SeriesRunner
             BlankSubtraction? blank = null;
             if (blanks.Count > 0)
             {
-                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config);
+                blank = BlankSubtraction.Of(row, export.Channel(config.Signal.Channel), blanks, config, madeBlanks);
                 export = blank.Apply(export, config.Signal.Channel);
             }
             var converted = Conversion.ToConcentration(export, row, config.Signal, config.File);
@@ -311,7 +332,7 @@ public static class SeriesRunner
         }
     }
 
-    private static Problem Missing(string file, IOException ex) =>
+    internal static Problem Missing(string file, IOException ex) =>
         new(file, 1, 1, ex is FileNotFoundException or DirectoryNotFoundException ? "no such file" : ex.Message, $"{file} in the series folder", "see docs/formats.md");
 
     /// <summary>A problem with the file a plan row names, located at that row's file cell in plan.csv.</summary>
@@ -320,24 +341,24 @@ public static class SeriesRunner
 
     /// <summary>
     /// plan.csv or series.toml, read only when it is a regular file inside the folder (same rule as the exports).
-    /// Records in <paramref name="hashes"/> the SHA-256 of the bytes read, or why there is none.
+    /// Records in <paramref name="hashes"/> (when given) the SHA-256 of the bytes read, or why there is none.
     /// </summary>
-    private static string ReadSetup(string folder, string name, AnalysisOptions options, Dictionary<string, string> hashes)
+    internal static string ReadSetup(string folder, string name, AnalysisOptions options, Dictionary<string, string>? hashes = null)
     {
         // A setup file is small; the export limit is only a guard against reading a disk image by mistake.
         if (SeriesInputs.Check(folder, name, options.AllowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
         {
-            hashes[name] = refusal.Missing ? SeriesResult.SetupMissing : SeriesResult.SetupNotRead;
+            if (hashes is not null) hashes[name] = refusal.Missing ? SeriesResult.SetupMissing : SeriesResult.SetupNotRead;
             throw Fail.At(name, 1, 1, refusal.Found, refusal.Expected, refusal.Hint);
         }
         byte[] bytes;
         try { bytes = File.ReadAllBytes(path); }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
-            hashes[name] = ex is FileNotFoundException or DirectoryNotFoundException ? SeriesResult.SetupMissing : SeriesResult.SetupUnreadable;
+            if (hashes is not null) hashes[name] = ex is FileNotFoundException or DirectoryNotFoundException ? SeriesResult.SetupMissing : SeriesResult.SetupUnreadable;
             throw;
         }
-        hashes[name] = Convert.ToHexStringLower(SHA256.HashData(bytes));
+        if (hashes is not null) hashes[name] = Convert.ToHexStringLower(SHA256.HashData(bytes));
         // Decoded as File.ReadAllText does: UTF-8 unless a byte order mark says otherwise.
         using var text = new StreamReader(new MemoryStream(bytes, writable: false), System.Text.Encoding.UTF8, detectEncodingFromByteOrderMarks: true);
         return text.ReadToEnd();
@@ -366,9 +387,9 @@ public static class SeriesRunner
         return (1, 1);
     }
 
-    private static IEnumerable<string> UnplannedExports(string folder, Plan plan)
+    private static IEnumerable<string> UnplannedExports(string folder, Plan plan, IReadOnlyList<string> maps)
     {
-        var planned = new HashSet<string>(plan.Rows.Select(r => r.File), StringComparer.Ordinal);
+        var planned = new HashSet<string>(plan.Rows.Select(r => r.File).Concat(maps), StringComparer.Ordinal);
         foreach (var f in Directory.EnumerateFiles(folder).Select(Path.GetFileName).OfType<string>().Order(StringComparer.Ordinal))
         {
             if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
@@ -384,13 +405,23 @@ public static class SeriesRunner
     private sealed class SharedExports(string folder, Plan plan, SeriesConfig config, AnalysisOptions options)
     {
         private readonly ConcurrentDictionary<string, Lazy<ExportRead>> _reads = new(StringComparer.Ordinal);
-        // a file's uses: its own runs and every use of one of its runs as a blank
-        private readonly ConcurrentDictionary<string, int> _left = new(plan.Rows
-            .Concat(plan.Rows.SelectMany(r => r.BlankRuns).Select(id => plan.Rows.First(x => x.Run == id)))
-            .GroupBy(r => r.File, StringComparer.Ordinal)
-            .Select(g => KeyValuePair.Create(g.Key, g.Count())), StringComparer.Ordinal);
-
         private readonly Dictionary<string, PlanRow> _byRun = plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
+
+        // a file's uses: its own runs and every use of one of its runs as a blank (looked up by id: a plate of 384
+        // wells subtracting 32 blanks each is 11,000 uses)
+        private readonly ConcurrentDictionary<string, int> _left = Uses(plan);
+
+        private static ConcurrentDictionary<string, int> Uses(Plan plan)
+        {
+            var byRun = plan.Rows.ToDictionary(r => r.Run, r => r.File, StringComparer.Ordinal);
+            var left = new ConcurrentDictionary<string, int>(StringComparer.Ordinal);
+            foreach (var r in plan.Rows)
+            {
+                left.AddOrUpdate(r.File, 1, (_, n) => n + 1);
+                foreach (var id in r.BlankRuns) left.AddOrUpdate(byRun[id], 1, (_, n) => n + 1);
+            }
+            return left;
+        }
 
         /// <summary>The export of a blank run another run subtracts (counted among its file's uses).</summary>
         public (PlanRow Row, ExportRead Read) TakeBlank(string run) => (_byRun[run], Take(_byRun[run]));

@@ -61,8 +61,11 @@ public sealed record PlanRow(
 /// <summary>One run's value of a conversion parameter read from plan.csv, in internal units, with its cell.</summary>
 public sealed record PlanCondition(double Value, string Header, int Line, int Column)
 {
+    /// <summary>Where the value was written when not in plan.csv (a plate map's cell), as the report prints it.</summary>
+    public string? Origin { get; init; }
+
     /// <summary>Where the value came from, as the report prints it.</summary>
-    public string Source => $"plan.csv line {Line}, column \"{Header}\"";
+    public string Source => Origin ?? $"plan.csv line {Line}, column \"{Header}\"";
 }
 
 /// <summary>A column of plan.csv as read: its header text and 1-based column number.</summary>
@@ -91,6 +94,14 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
 
     /// <summary>1-based line number of the header.</summary>
     public int HeaderLine { get; init; } = 1;
+
+    /// <summary>For a plan built in memory (from a plate map): moves a problem located in the plan's text to where its
+    /// value was written. Null for plan.csv itself.</summary>
+    public Func<Problem, Problem>? Origin { get; init; }
+
+    /// <summary>A problem located at a cell of this plan (file plan.csv or <see cref="File"/>), moved to where the
+    /// cell's value was written when the plan was built in memory; any other problem unchanged.</summary>
+    public Problem Locate(Problem p) => Origin is { } origin && (p.File == File || p.File == "plan.csv") ? origin(p) : p;
     /// <summary>The [X]0 column of each species.</summary>
     public IReadOnlyDictionary<string, PlanColumn> SpeciesColumns { get; init; } = new Dictionary<string, PlanColumn>();
     /// <summary>The conversion-parameter columns present, keyed as <see cref="ConditionNames"/>.</summary>

@@ -77,4 +77,22 @@ public sealed class InspectCommandTests : IDisposable
         Assert.DoesNotContain("\u0007", text, StringComparison.Ordinal);
         Assert.Contains(@"MK\x1B[2J\x07", text, StringComparison.Ordinal);
     }
+
+    [Fact]
+    public void Inspect_of_a_plate_map_shows_the_plan_it_makes_and_its_located_problems()
+    {
+        Write("series.toml", TraceKin.Tests.Plates.PlateFolder.Toml + "\n\n[plate]\nexport = \"plate.csv\"\n");
+        var map = Write("plate-map.csv", "[S]0 (mmol/L),1,2\nA,0.4,0.6\nB,0.8,x\n\nrole,1,2\nA,sample,sample\nB,blank,\n");
+        var output = new StringWriter();
+        Assert.Equal(2, InspectCommand.Run([map], null, output));
+        var text = output.ToString();
+        Assert.Contains("runs                 3 (A1 … B1), reading plate.csv", text);
+        Assert.Contains("2 sample, 1 blank", text);
+        Assert.Contains("plate-map.csv:3:7: found well B2: \"x\"", text);
+
+        File.WriteAllText(map.FullName, "[S]0 (mmol/L),1,2\nA,0.4,0.6\nB,0.8,1.0\n");
+        output = new StringWriter();
+        Assert.Equal(0, InspectCommand.Run([map], null, output));
+        Assert.Contains("problems             none", output.ToString());
+    }
 }

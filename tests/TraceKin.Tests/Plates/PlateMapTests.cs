@@ -70,4 +70,21 @@ public class PlateMapTests
         Assert.Equal(5, plan.Rows.Count);
         Assert.Equal(1, PlatePlanCommand.Run([new FileInfo(mapPath)], "plate.csv", null, "", false, TextWriter.Null, err));
     }
+
+    [Fact]
+    public void A_file_grid_names_each_wells_export_so_the_command_needs_no_export()
+    {
+        using var dir = new RepoPaths.TempDir();
+        var mapPath = Path.Combine(dir.Path, "map.csv");
+        File.WriteAllText(mapPath, Map + "\n\nfile,1,2,3\nA,p1.csv,p1.csv,\nB,p2.csv,p2.csv,p2.csv\n");
+        var err = new StringWriter();
+        Assert.Equal(0, PlatePlanCommand.Run([new FileInfo(mapPath)], null, null, "", false, TextWriter.Null, err));
+        var plan = Plan.FromFile(Path.Combine(dir.Path, "plan.csv"));
+        Assert.Equal(["p1.csv", "p1.csv", "p2.csv", "p2.csv", "p2.csv"], plan.Rows.Select(r => r.File));
+        Assert.DoesNotContain("file", plan.Rows[0].Extra.Keys);
+
+        File.WriteAllText(mapPath, Map);
+        Assert.Equal(1, PlatePlanCommand.Run([new FileInfo(mapPath)], null, new FileInfo(Path.Combine(dir.Path, "other.csv")), "", false, TextWriter.Null, err));
+        Assert.Contains("--export", err.ToString());
+    }
 }
