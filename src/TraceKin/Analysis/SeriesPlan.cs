@@ -21,7 +21,7 @@ public static class SeriesPlan
     public static (Plan? Plan, IReadOnlyList<Problem> Problems) Read(string folder, SeriesConfig? config, AnalysisOptions options,
         Dictionary<string, string>? hashes = null)
     {
-        if (config?.Plate is { } plate) return FromMaps(folder, config, plate, options);
+        if (config?.Plate is { } plate) return FromMaps(folder, config, plate, options, hashes);
         var planExists = SeriesInputs.Check(folder, SeriesRunner.PlanFile, true, long.MaxValue, out _) is not { Missing: true };
         // series.toml was rejected: a folder planned by maps only is not also told that plan.csv is missing
         if (config is null && !planExists && File.Exists(Path.Combine(folder, PlateSettings.DefaultMap))) return (null, []);
@@ -50,7 +50,8 @@ public static class SeriesPlan
         }
     }
 
-    private static (Plan? Plan, IReadOnlyList<Problem> Problems) FromMaps(string folder, SeriesConfig config, PlateSettings plate, AnalysisOptions options)
+    private static (Plan? Plan, IReadOnlyList<Problem> Problems) FromMaps(string folder, SeriesConfig config, PlateSettings plate, AnalysisOptions options,
+        Dictionary<string, string>? hashes)
     {
         Problem AtKey(string key, string found, string expected, string hint) =>
             config.Locate(new Problem(config.File, 0, 0, found, expected, hint, key));
@@ -65,7 +66,14 @@ public static class SeriesPlan
             var key = plate.Maps.Count == 1 ? "plate.maps" : $"plate.maps[{i}]";
             if (SeriesInputs.Check(folder, name, options.AllowOutsideFiles, ExportReader.MaxBytes, out var path) is { } refusal)
                 return (null, [AtKey(key, refusal.Found, refusal.Expected, refusal.Hint)]);
-            try { texts.Add((name, File.ReadAllText(path))); }
+            try
+            {
+                // Hashed from the bytes it is parsed from (the report lists each map with its SHA-256).
+                var bytes = File.ReadAllBytes(path);
+                if (hashes is not null) hashes[name] = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes));
+                using var reader = new StreamReader(new MemoryStream(bytes, writable: false), System.Text.Encoding.UTF8, detectEncodingFromByteOrderMarks: true);
+                texts.Add((name, reader.ReadToEnd()));
+            }
             catch (IOException ex) { return (null, [AtKey(key, $"{Fail.Quote(name)}, a file that cannot be read ({ex.Message})", "a plate-map file", "")]); }
         }
         try

@@ -722,7 +722,10 @@ public static class ReportHtml
         h.Raw("<p>").Text($"TraceKin {r.ToolVersion}. Series folder: {Path.GetFileName(Path.TrimEndingDirectorySeparator(r.Folder))}. ")
             .Text("SHA-256 of each input lets a reader check that a file is the one analysed (e.g. sha256sum FILE).").Raw("</p>\n");
         h.Raw("<table class=\"hashes\">\n<thead><tr><th>file</th><th>role</th><th>SHA-256</th></tr></thead>\n<tbody>\n");
-        foreach (var (file, role) in new[] { (r.Config?.File ?? SeriesRunner.ConfigFile, "settings"), (r.Plan?.File ?? SeriesRunner.PlanFile, "plan") })
+        (string File, string Role)[] setup = r.Config?.Plate is { } plate
+            ? [(r.Config.File, "settings"), .. plate.Maps.Select(m => (m, "plate map"))]
+            : [(r.Config?.File ?? SeriesRunner.ConfigFile, "settings"), (r.Plan?.File ?? SeriesRunner.PlanFile, "plan")];
+        foreach (var (file, role) in setup)
         {
             // Hashed by the analysis from the bytes it parsed: the file is not read again here.
             var hash = r.SetupHashes.GetValueOrDefault(file, "not recorded");

@@ -63,6 +63,10 @@ public class PlateMapSeriesTests
         Assert.Equal((sa.Vmax.Value, sa.Vmax.StdError, sa.Km.Value, sa.Km.StdError), (sb.Vmax.Value, sb.Vmax.StdError, sb.Km.Value, sb.Km.StdError));
         Assert.Equal(a.Replicates.Select(g => g.Runs.Count), b.Replicates.Select(g => g.Runs.Count));
         Assert.DoesNotContain(b.Warnings, w => w.Code == "file-not-in-plan");
+        // The map is an input like plan.csv: hashed from the bytes parsed, and listed with that hash in the report.
+        var mapHash = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(Path.Combine(fromMap.Path, "plate-map.csv"))));
+        Assert.Equal(mapHash, b.SetupHashes["plate-map.csv"]);
+        Assert.Contains($"<tr><td>plate-map.csv</td>\n<td>plate map (hashed when read)</td>\n<td class=\"hash\">{mapHash}</td>", TraceKin.Reports.ReportHtml.Render(b, null));
     }
 
     [Fact]
