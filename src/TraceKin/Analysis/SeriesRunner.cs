@@ -135,6 +135,16 @@ public static class SeriesRunner
                 ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {listed}"
                 : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {listed}"));
         }
+        // A product curve whose end level is not known: where no decelerating law could be fitted the rate is a
+        // straight line's slope, low by about half the conversion the run spans if the reaction slows (docs/methods.md,
+        // "A product's end level from the plan"); the plan's limiting reactant would fix the end level.
+        if (config.Signal.Coefficient > 0 && config.Rates.LimitingReactant is null)
+        {
+            var straight = runs.Where(r => r.Plan.Role != "blank" && r.Rates.ChosenLaw is { Law: "zero order" or "zero order + drift" }).Select(r => r.Id).ToList();
+            if (straight.Count > 0)
+                warnings.Add(new Warning("product-end-unknown", "series", string.Create(System.Globalization.CultureInfo.InvariantCulture,
+                    $"{straight.Count} of {runs.Count(r => r.Plan.Role != "blank")} product run(s) ({string.Join(", ", straight.Take(10))}{(straight.Count > 10 ? ", …" : "")}) got a straight-line (zero-order) rate: the product's end level is not known, so a slowing as the substrate is used cannot be seen in them; if it slows, such a rate reads low by about half the conversion the run spans and its interval is too narrow. If the product forms from one reactant whose [X]0 the plan gives and the reaction runs to completion, set rates.limiting_reactant to fit each run with that end level")));
+        }
         // Blank runs are shown with their own (near-zero) rates but are no point of the rate law.
         var points = analysed.Where(s => s.Run!.Plan.Role != "blank" && (config.Model.UseUnresolved || s.Run!.Rates.IsResolved)).Select(s => (Run: s.Run!, s.FitTrace)).Select(x => new RunPoint(x.Run.Id, x.Run.Rates.Headline.Value, x.Run.Rates.Headline.StdError, x.Run.Plan.InitialConcentrations, x.Run.Plan.TemperatureK)
         {

@@ -28,6 +28,7 @@ public static class WarningTiers
         "reference-temperature-outside",// a reparametrisation choice
         "dead-time",                    // the rate is extrapolated to the moment of mixing, as designed
         "baseline-drift",               // a drift term was fitted and is part of the result
+        "product-end-unknown",          // a caution: straight-line rates of product curves whose end level is not known
     };
 
     public static bool IsNote(Warning w) => NoteCodes.Contains(w.Code);

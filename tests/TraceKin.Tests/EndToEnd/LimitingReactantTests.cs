@@ -17,11 +17,11 @@ public class LimitingReactantTests
         Directory.CreateDirectory(series);
         var sample = RepoPaths.Sample("teal-lactonase-plate");
         foreach (var f in new[] { "plan.csv", "series.toml" }) File.Copy(Path.Combine(sample, f), Path.Combine(series, f));
-        if (limiting)
-        {
-            var toml = File.ReadAllText(Path.Combine(series, "series.toml"));
-            File.WriteAllText(Path.Combine(series, "series.toml"), toml.Replace("[rates]\n", "[rates]\nlimiting_reactant = \"S\"\n"));
-        }
+        // The demo's series.toml sets rates.limiting_reactant; the test writes its own choice.
+        var lines = File.ReadAllLines(Path.Combine(series, "series.toml")).Where(l => !l.TrimStart().StartsWith("limiting_reactant", StringComparison.Ordinal)).ToList();
+        Assert.Contains("[rates]", lines);
+        if (limiting) lines.Insert(lines.IndexOf("[rates]") + 1, "limiting_reactant = \"S\"");
+        File.WriteAllLines(Path.Combine(series, "series.toml"), lines);
         var code = TraceKin.Cli.Program.BuildRoot().Parse(["simulate", series, "-k", "1e-7", "--saturation", "S=0.5", "--coefficient", "S=-1",
             "--coefficient", "P=1", "--duration", "300", "--interval", "2", "--noise", "0.001", "--baseline-drift", "2e-5", "--seed", "21", "--force"]).Invoke();
         Assert.Equal(0, code);
@@ -39,6 +39,24 @@ public class LimitingReactantTests
         Assert.InRange(1.0e-7, sat.Vmax.Ci95Low, sat.Vmax.Ci95High);
         Assert.InRange(5.0e-4, sat.Km.Ci95Low, sat.Km.Ci95High);
         Assert.All(result.Runs.Where(r => r.Plan.Role != "blank"), r => Assert.StartsWith("integrated law", r.Rates.Headline.Method));
+    }
+
+    [Fact]
+    public void Without_a_known_end_level_the_series_says_which_product_runs_got_a_straight_line_rate()
+    {
+        using var dir = new RepoPaths.TempDir();
+        var plain = SeriesRunner.Analyse(LongerPlate(dir, limiting: false), new AnalysisOptions { Workers = 2 });
+        var note = Assert.Single(plain.Warnings, w => w.Code == "product-end-unknown");
+        Assert.Contains("rates.limiting_reactant", note.Message);
+        // the runs it names are those whose chosen law is zero order, and only sample runs
+        var named = plain.Runs.Where(r => r.Plan.Role != "blank" && r.Rates.ChosenLaw?.Law == "zero order").ToList();
+        Assert.NotEmpty(named);
+        Assert.Contains($"{named.Count} of 24 product run(s)", note.Message);
+        Assert.True(TraceKin.Reports.WarningTiers.IsNote(note));
+
+        using var dir2 = new RepoPaths.TempDir();
+        var known = SeriesRunner.Analyse(LongerPlate(dir2, limiting: true), new AnalysisOptions { Workers = 2 });
+        Assert.DoesNotContain(known.Warnings, w => w.Code == "product-end-unknown");
     }
 
     [Fact]
