@@ -93,6 +93,21 @@ public sealed record SignalSettings
     /// <summary>Reference temperature of the compensation, K.</summary>
     public double ReferenceTemperature { get; init; } = 298.15;
 
+    // ---- kinds that keep their keys in a record of their own ----
+    /// <summary>
+    /// The settings of kinds whose keys live in a record of their own rather than in properties here, by kind name
+    /// (set by the kind's <see cref="ISignalKind.Read"/> with <see cref="WithOptions"/>, read with <see cref="Options{T}"/>).
+    /// Internal, so the report's settings table (which lists public properties) shows such keys as series.toml gave them.
+    /// </summary>
+    internal IReadOnlyDictionary<string, object> KindOptions { get; init; } = new Dictionary<string, object>();
+
+    /// <summary>These settings with <paramref name="options"/> as the settings of kind <paramref name="kind"/>.</summary>
+    public SignalSettings WithOptions(string kind, object options) =>
+        this with { KindOptions = new Dictionary<string, object>(KindOptions, StringComparer.Ordinal) { [kind] = options } };
+
+    /// <summary>The settings record of kind <paramref name="kind"/>, or null when it has none.</summary>
+    public T? Options<T>(string kind) where T : class => KindOptions.TryGetValue(kind, out var o) ? o as T : null;
+
     public static SignalSettings FromToml(TomlSection s)
     {
         var d = new SignalSettings();

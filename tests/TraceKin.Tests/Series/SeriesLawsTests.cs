@@ -35,6 +35,15 @@ public sealed class SeriesLawsTests(AnalysedSample sample) : IClassFixture<Analy
     }
 
     [Fact]
+    public void Every_registered_law_is_documented_in_formats_md_and_methods_md()
+    {
+        var formats = File.ReadAllText(Path.Combine(RepoPaths.Docs, "formats.md"));
+        var methods = File.ReadAllText(Path.Combine(RepoPaths.Docs, "methods.md"));
+        Assert.All(SeriesLaws.Names, n => Assert.Contains($"\"{n}\"", formats));
+        Assert.All(SeriesLaws.Competitors, l => Assert.Contains(l.Name, methods, StringComparison.OrdinalIgnoreCase));
+    }
+
+    [Fact]
     public void Leaving_the_saturation_law_out_fits_the_power_law_alone()
     {
         var f = OrderAnalysis.Analyse(SaturatingRuns(), new ModelSettings { Laws = ["power"] });

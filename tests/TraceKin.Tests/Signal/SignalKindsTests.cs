@@ -1,4 +1,5 @@
 using TraceKin.Setup;
+using TraceKin.Tests.Support;
 using TraceKin.Signal;
 using TraceKin.Traces;
 
@@ -69,5 +70,31 @@ public sealed class SignalKindsTests
         Assert.Equal(Quantity.GasVolume, SignalModel.For(new SignalSettings { Kind = "gas_volume", Coefficient = 1, BarometricPressure = 101325, SolutionVolume = 0.025 }, row).SignalQuantity);
         Assert.Equal(Quantity.Pressure, SignalModel.For(new SignalSettings { Kind = "pressure", GasMoleChange = 1 }, row).SignalQuantity);
         Assert.Equal(Quantity.Conductivity, SignalModel.For(new SignalSettings { Kind = "conductivity", KappaInitial = 1, KappaFinal = 0.5 }, row).SignalQuantity);
+    }
+
+    [Fact]
+    public void Every_registered_kind_has_a_round_trip_case()
+    {
+        // A new kind must add its line to ConversionTests.Kinds (DEVELOPERS.md, "How to add a signal kind").
+        var covered = ((IEnumerable<object[]>)ConversionTests.Kinds()).Select(row => SignalSettingsTests.Read("coefficient = -1\n" + (string)row[0]).Kind).ToHashSet();
+        Assert.All(SignalKinds.Names, n => Assert.Contains(n, covered));
+    }
+
+    [Fact]
+    public void Every_registered_kind_is_documented_in_formats_md()
+    {
+        var docs = File.ReadAllText(Path.Combine(RepoPaths.Docs, "formats.md"));
+        Assert.All(SignalKinds.Names, n => Assert.Contains($"kind = \"{n}\"", docs));
+    }
+
+    private sealed record TrialOptions(double Gain);
+
+    [Fact]
+    public void A_kind_keeps_its_own_settings_record_beside_the_others()
+    {
+        var s = new SignalSettings().WithOptions("trial", new TrialOptions(2.5)).WithOptions("other", new TrialOptions(1));
+        Assert.Equal(2.5, s.Options<TrialOptions>("trial")!.Gain);
+        Assert.Equal(1, s.Options<TrialOptions>("other")!.Gain);
+        Assert.Null(new SignalSettings().Options<TrialOptions>("trial"));
     }
 }
