@@ -189,6 +189,13 @@ public static class AnalyseCommand
                     LogEstimate(log, "Km", sat.Km);
                 }
             }
+            foreach (var other in f.OtherLaws)
+            {
+                log.Information("{Law} law against the power law: AICc {Aicc} against {AiccPower} (evidence ratio {Ratio}); the rate law used is the {Chosen} law",
+                    other.Law, ReportNumber.Plain(other.Aicc, 4), ReportNumber.Plain(other.AiccPowerLaw, 4), ReportNumber.Plain(other.EvidenceRatio, 3), f.ChosenLaw);
+                if (f.ChosenLaw == other.Law)
+                    foreach (var e in other.Estimates) LogEstimate(log, e.Name, e);
+            }
             foreach (var g in f.Temperature?.Groups ?? [])
                 log.Information("k at {T} K = {K}", ReportNumber.Plain(g.TemperatureK, 5), ReportNumber.Estimate(g.RateConstant.Value, g.RateConstant.StdError, g.RateConstant.Unit, g.RateConstant.Ci95Low, g.RateConstant.Ci95High));
             if (f.Temperature?.Arrhenius is { } arr)

@@ -404,7 +404,7 @@ public static class SeriesRunner
         {
             if (f is PlanFile or ConfigFile or PlateMapFile || f.StartsWith('.') || planned.Contains(f)) continue;
             var ext = Path.GetExtension(f).ToLowerInvariant();
-            if (ext is ".csv" or ".txt" or ".tsv" or ".dat" or ".jdx" or ".dx" or ".xlsx") yield return f;
+            if (ExportFormats.Extensions.Contains(ext)) yield return f;
         }
     }
 

@@ -45,6 +45,11 @@ public sealed record FitResult
     public required FitExit Exit { get; init; }
     /// <summary>A sentence on why the fit stopped, or what is wrong (names the parameter to blame where known).</summary>
     public string ExitDetail { get; init; } = "";
+    /// <summary>
+    /// With <see cref="FitExit.Singular"/>: the index (in <see cref="Parameters"/>) of the parameter the data do not
+    /// determine, the one <see cref="ExitDetail"/> names; null when no single parameter is to blame or the fit is not singular.
+    /// </summary>
+    public int? SingularParameter { get; init; }
 
     public int DegreesOfFreedom => PointCount - VariedCount;
     public double ReducedChiSquare => DegreesOfFreedom > 0 ? ChiSquare / DegreesOfFreedom : double.NaN;

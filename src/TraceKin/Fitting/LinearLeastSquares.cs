@@ -65,7 +65,7 @@ public static class LinearLeastSquares
             double scale = 0;
             foreach (var v in col) scale = Math.Max(scale, Math.Abs(v));
             if (scale == 0)
-                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' has an all-zero column");
+                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' has an all-zero column", j);
             double ss = 0;
             foreach (var v in col) { var u = v / scale; ss += u * u; }
             colNorm[j] = scale * Math.Sqrt(ss);
@@ -76,7 +76,7 @@ public static class LinearLeastSquares
         Householder.Factor(a, n, p, tau, rDiag);
         for (var j = 0; j < p; j++)
             if (Math.Abs(rDiag[j]) <= 1e-11)
-                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' is not separable from the others");
+                return Failed(model, names, n, p, FitExit.Singular, $"the design is singular: '{names[j]}' is not separable from the others", j);
 
         // γ = R⁻¹·(Qᵀb)[0..p); the residual vector of the scaled problem is Qᵀb with its first p entries set to zero,
         // and β_j = γ_j / ‖column j‖.
@@ -182,10 +182,11 @@ public static class LinearLeastSquares
         finally { ArrayPool<double>.Shared.Return(d); }
     }
 
-    private static FitResult Failed(string model, IReadOnlyList<string> names, int n, int p, FitExit exit, string detail) => new()
+    private static FitResult Failed(string model, IReadOnlyList<string> names, int n, int p, FitExit exit, string detail, int? singular = null) => new()
     {
         Model = model,
         Parameters = names.Select(nm => new FitParameter(nm, double.NaN, double.NaN, double.NaN)).ToArray(),
         Residuals = [], PointCount = n, VariedCount = p, ChiSquare = double.NaN, RSquared = double.NaN, Exit = exit, ExitDetail = detail,
+        SingularParameter = singular,
     };
 }

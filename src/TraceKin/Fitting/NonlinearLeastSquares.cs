@@ -162,7 +162,7 @@ public static class NonlinearLeastSquares
                     for (var i = 0; i < _n; i++) { var jij = _jac[i * _np + j]; g += jij * _r[i]; c += jij * jij; }
                     _g[j] = g;
                     if (c == 0 && _d2[j] == 0)
-                        return Fail(FitExit.Singular, $"'{Name(j)}' has no effect on the model at the current values", iterations);
+                        return Fail(FitExit.Singular, $"'{Name(j)}' has no effect on the model at the current values", iterations, j);
                     _d2[j] = Math.Max(_d2[j], c);
                     if (c > 0 && rNorm > 0) maxCos = Math.Max(maxCos, Math.Abs(g) / (Math.Sqrt(c) * rNorm));
                 }
@@ -341,6 +341,7 @@ public static class NonlinearLeastSquares
         {
             var se = Enumerable.Repeat(double.NaN, _np).ToArray();
             double[,]? cov = null;
+            int? singular = null;
             var atBound = Enumerable.Range(0, _np).Where(j => _varied[j] && (_p[j] <= _lo[j] || _p[j] >= _hi[j])).ToList();
             if (exit == FitExit.Converged && atBound.Count > 0)
             {
@@ -382,6 +383,7 @@ public static class NonlinearLeastSquares
                         var v = svd.VT.Row(m - 1);
                         var blame = Enumerable.Range(0, m).MaxBy(k => Math.Abs(v[k]));
                         exit = FitExit.Singular;
+                        singular = cols[blame];
                         detail = $"the covariance is singular (condition {smax / smin:G3}): '{Name(cols[blame])}' is not determined by the data";
                     }
                     else
@@ -413,16 +415,16 @@ public static class NonlinearLeastSquares
             {
                 Model = _model.Name, Parameters = pars, Covariance = cov, Residuals = resid, PointCount = _nUsed,
                 VariedCount = _nVaried, ChiSquare = chi2, RSquared = 1 - chi2 / tss, Iterations = iterations,
-                Exit = exit, ExitDetail = detail,
+                Exit = exit, ExitDetail = detail, SingularParameter = singular,
             };
         }
 
-        private FitResult Fail(FitExit exit, string detail, int iterations) => new()
+        private FitResult Fail(FitExit exit, string detail, int iterations, int? singular = null) => new()
         {
             Model = _model.Name,
             Parameters = Enumerable.Range(0, _np).Select(j => new FitParameter(Name(j), iterations == 0 ? _start[j] : _p[j], double.NaN, _start[j], _varied[j])).ToArray(),
             Residuals = [], PointCount = _nUsed, VariedCount = _nVaried, ChiSquare = double.NaN, RSquared = double.NaN,
-            Iterations = iterations, Exit = exit, ExitDetail = detail,
+            Iterations = iterations, Exit = exit, ExitDetail = detail, SingularParameter = singular,
         };
     }
 }

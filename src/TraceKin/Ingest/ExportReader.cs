@@ -4,7 +4,8 @@ namespace TraceKin.Ingest;
 
 /// <summary>
 /// Reads one instrument export into a <see cref="RunExport"/>. The format is sniffed from the content, never from the
-/// file name: a file whose first text is a JCAMP-DX labelled record ("##TITLE=") goes to <see cref="JcampReader"/>,
+/// file name (<see cref="ExportFormats"/>, in order): an .xlsx workbook by its bytes, then, on the decoded text, a
+/// JCAMP-DX labelled record ("##TITLE=") to <see cref="JcampReader"/>, a grid of wells to <see cref="GridReader"/>,
 /// anything else to the delimited-text reader. Bad content throws <see cref="InputException"/> with file, line and column.
 /// </summary>
 public static class ExportReader
@@ -27,7 +28,8 @@ public static class ExportReader
     internal static RunExport FromBytes(ReadOnlyMemory<byte> bytes, string file, IngestSettings settings, bool fastRows)
     {
         if (bytes.Length == 0) throw Fail.At(file, 1, 1, "an empty file", "a header line and data rows", "was the export saved completely?");
-        if (SpreadsheetReader.Looks(bytes)) return SpreadsheetReader.Read(bytes, file, settings, fastRows);
+        foreach (var format in ExportFormats.Binary)
+            if (format.Looks(bytes)) return format.Read(bytes, file, settings, fastRows);
         var decoded = TextDecoding.ToUtf8(bytes, file, settings.Encoding);
         return Read(decoded.Utf8, decoded.Encoding, file, settings, fastRows);
     }
@@ -50,13 +52,18 @@ public static class ExportReader
     internal static RunExport ReadText(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows) =>
         Read(utf8, encoding, file, settings, fastRows);
 
-    private static RunExport Read(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows) =>
-        settings.Layout switch
+    /// <summary>The format ingest.layout forces, else the first in <see cref="ExportFormats.Text"/> whose content test passes.</summary>
+    private static RunExport Read(ReadOnlyMemory<byte> utf8, string encoding, string file, IngestSettings settings, bool fastRows)
+    {
+        var formats = ExportFormats.Text;
+        var format = formats.FirstOrDefault(f => f.Layout is not null && f.Layout == settings.Layout);
+        if (format is null)
         {
-            "grid" => GridReader.Read(utf8, file, encoding, settings),
-            "columns" => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
-            _ when JcampReader.Looks(utf8.Span) => JcampReader.Read(utf8, file, encoding, settings),
-            _ when GridReader.Looks(utf8.Span) => GridReader.Read(utf8, file, encoding, settings),
-            _ => DelimitedReader.Read(utf8, file, encoding, settings, fastRows),
-        };
+            var span = utf8.Span;
+            format = formats[^1];
+            for (var i = 0; i < formats.Count - 1; i++)
+                if (formats[i].Looks(span)) { format = formats[i]; break; }
+        }
+        return format.Read(utf8, file, encoding, settings, fastRows);
+    }
 }

@@ -65,7 +65,7 @@ public sealed record IngestSettings
             SaturationPoints = s.Int("saturation_points") ?? 3,
             IgnoreColumns = s.Strings("ignore_columns") ?? [],
             WellUnit = s.String("well_unit") ?? "AU",
-            Layout = s.Choice("layout", "auto", "auto", "columns", "grid"),
+            Layout = s.Choice("layout", "auto", ["auto", .. ExportFormats.Layouts]),
             Sheet = s.String("sheet"),
         };
         if (Units.Find(result.WellUnit) is not { Quantity: Quantity.Absorbance or Quantity.GasVolume or Quantity.Pressure or Quantity.Conductivity or Quantity.Concentration })

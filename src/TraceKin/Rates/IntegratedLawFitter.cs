@@ -590,7 +590,7 @@ public static class IntegratedLawFitter
             var f2 = NonlinearLeastSquares.Fit(model, y, oc, options with { MaxIterations = 400 });
             if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
         }
-        if (fit.Exit == FitExit.Singular && fit.ExitDetail.Contains("'yEnd'", StringComparison.Ordinal))
+        if (fit.Exit == FitExit.Singular && fit.SingularParameter == LawModel.YEnd)
         {
             var f2 = (bool[])fixedP.Clone();
             f2[LawModel.YEnd] = true;

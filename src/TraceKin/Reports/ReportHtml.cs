@@ -24,6 +24,7 @@ public static class ReportHtml
         nameof(SeriesFindings.Orders), nameof(SeriesFindings.RateConstant), nameof(SeriesFindings.RateConstantAtFittedOrders),
         nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.Saturation), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
         nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
+        nameof(SeriesFindings.OtherLaws),
     ];
 
     /// <summary>Writes report.html into <paramref name="outDir"/>; <paramref name="plots"/> null leaves the plots out (analyse --no-plots).</summary>
@@ -198,6 +199,7 @@ public static class ReportHtml
             h.Raw("</tbody>\n</table>\n");
         }
         if (f.Saturation is { } sat) LawChoice(h, f, sat);
+        foreach (var other in f.OtherLaws) OtherLaw(h, f, other);
         Extras(h, f);
         if (f.OrderFit is { } fit)
         {
@@ -225,6 +227,11 @@ public static class ReportHtml
             law = $"v = Vmax·[{sat.Substrate}]/(Km + [{sat.Substrate}])" + string.Concat(others);
             constants.Add(ReportNumber.Result("Vmax", sat.Vmax.Value, sat.Vmax.StdError, sat.Vmax.Unit, sat.Vmax.Ci95Low, sat.Vmax.Ci95High));
             constants.Add(ReportNumber.Result("Km", sat.Km.Value, sat.Km.StdError, sat.Km.Unit, sat.Km.Ci95Low, sat.Km.Ci95High));
+        }
+        else if (f.OtherLaws.FirstOrDefault(l => l.Law == f.ChosenLaw) is { } other)
+        {
+            law = other.Formula;
+            constants.AddRange(other.Estimates.Select(e => ReportNumber.Result(e.Name, e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High)));
         }
         else if (orders.Count > 0)
         {
@@ -279,6 +286,26 @@ public static class ReportHtml
         if (sat.CrossCheck is { } dr)
             h.Element("p", $"Double-reciprocal line (display only, never the result): Vmax ≈ {ReportNumber.Plain(dr.Vmax)}, Km ≈ {ReportNumber.Plain(dr.Km)} mol/L.", "class=\"note\"");
         h.Raw("<details><summary>The saturation fit in detail</summary>\n").Element("pre", sat.Fit.ToReport(), "class=\"fit-report\"").Raw("</details>\n");
+        h.Raw("</div>\n");
+    }
+
+    /// <summary>
+    /// A competing law without a section of its own (<see cref="SeriesFindings.OtherLaws"/>): the AICc comparison with
+    /// the power law and its Akaike weight (Burnham &amp; Anderson 2002, eq. 2.14), its estimates, and its fit, folded.
+    /// </summary>
+    private static void OtherLaw(Html h, SeriesFindings f, Series.CompetingLawFindings l)
+    {
+        var ci = CultureInfo.InvariantCulture;
+        h.Raw($"<div class=\"extra\" {Html.Attr("data-law", l.Law)}>\n").Element("h3", $"Power law or {l.Law} law");
+        var delta = l.AiccPowerLaw - l.Aicc;
+        var w = 1 / (1 + Math.Exp(-delta / 2));
+        h.Element("p", string.Format(ci,
+            "The {0} has the lower AICc, by {1} (AICc of the power law minus that of {2}: {3}); on the rates alone that gives the {4} law an Akaike weight of {5} and the power law {6}. Used here: the {7} law.",
+            delta >= 0 ? $"{l.Law} law" : "power law", ReportNumber.Plain(Math.Abs(delta), 3), l.Formula, ReportNumber.Plain(delta, 3), l.Law,
+            ReportNumber.Plain(w, 2), ReportNumber.Plain(1 - w, 2), f.ChosenLaw));
+        if (l.Estimates.Count > 0)
+            h.Element("p", string.Join("; ", l.Estimates.Select(e => ReportNumber.Result(e.Name, e.Value, e.StdError, e.Unit, e.Ci95Low, e.Ci95High))) + ".");
+        h.Raw($"<details><summary>The {l.Law} fit in detail</summary>\n").Element("pre", l.Fit.ToReport(), "class=\"fit-report\"").Raw("</details>\n");
         h.Raw("</div>\n");
     }
 

@@ -7,7 +7,8 @@ namespace TraceKin.Reports;
 
 /// <summary>
 /// The Series stage's model results inside summary.json, as a separate block of top-level fields: "chosenLaw", "design",
-/// "powerLaw", "saturation", "temperature", "arrhenius", "eyring", "globalFit" (documented in docs/formats.md). Absent results are null.
+/// "powerLaw", "saturation", "otherLaws" (only when a competing law without a block of its own was fitted), "temperature",
+/// "arrhenius", "eyring", "globalFit" (documented in docs/formats.md). Absent results are null.
 /// </summary>
 public static class SeriesModelsJson
 {
@@ -112,6 +113,34 @@ public static class SeriesModelsJson
             w.WriteEndObject();
         }
         else w.WriteNull("saturation");
+
+        // Competing laws without a block of their own (SeriesLaws): written only when there is one, in registry order.
+        if (f?.OtherLaws is { Count: > 0 } others)
+        {
+            w.WriteStartArray("otherLaws");
+            foreach (var l in others)
+            {
+                w.WriteStartObject();
+                w.WriteString("law", l.Law);
+                w.WriteString("formula", l.Formula);
+                w.WriteStartArray("estimates");
+                foreach (var est in l.Estimates)
+                {
+                    w.WriteStartObject();
+                    w.WriteString("name", est.Name);
+                    EstimateFields(w, est.Value, est.StdError, est.Unit, est.Dof, est.Ci95Low, est.Ci95High, est.Method);
+                    w.WriteEndObject();
+                }
+                w.WriteEndArray();
+                Num(w, "aiccPowerLaw", l.AiccPowerLaw);
+                Num(w, "aicc", l.Aicc);
+                Num(w, "evidenceRatio", l.EvidenceRatio);
+                w.WriteBoolean("usedInstead", l.UsedInstead);
+                FitStats(w, "fit", l.Fit);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+        }
 
         var t = f?.Temperature;
         if (t is not null)

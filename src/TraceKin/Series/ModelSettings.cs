@@ -12,8 +12,8 @@ public sealed record ModelSettings
     /// <summary>Species whose orders are fitted; null = every species whose starting concentration varies.</summary>
     public string[]? Species { get; init; }
 
-    /// <summary>Rate laws to fit and compare by AICc: "power" (always fitted) and/or "saturation".</summary>
-    public string[] Laws { get; init; } = [Power, Saturation];
+    /// <summary>Rate laws to fit and compare by AICc: "power" (always fitted) and any of <see cref="SeriesLaws.Competitors"/>.</summary>
+    public string[] Laws { get; init; } = SeriesLaws.Defaults;
 
     /// <summary>The species the saturation law saturates in; null = try every varied species and keep the best AICc.</summary>
     public string? Substrate { get; init; }
@@ -52,12 +52,12 @@ public sealed record ModelSettings
 
     public static ModelSettings FromToml(TomlSection s)
     {
-        var laws = s.Strings("laws") ?? [Power, Saturation];
+        var laws = s.Strings("laws") ?? SeriesLaws.Defaults;
         for (var i = 0; i < laws.Length; i++)
         {
             var l = laws[i].Trim().ToLowerInvariant();
-            if (l is not (Power or Saturation))
-                throw Fail.Setting(s.File, $"{s.KeyName("laws")}[{i}]", Fail.Quote(laws[i]), "\"power\" or \"saturation\"");
+            if (!SeriesLaws.Names.Contains(l))
+                throw Fail.Setting(s.File, $"{s.KeyName("laws")}[{i}]", Fail.Quote(laws[i]), string.Join(" or ", SeriesLaws.Names.Select(n => $"\"{n}\"")));
             laws[i] = l;
         }
         if (!laws.Contains(Power)) laws = [Power, .. laws];

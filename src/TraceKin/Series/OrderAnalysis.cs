@@ -150,21 +150,17 @@ public static class OrderAnalysis
         }).ToArray();
 
         var curvature = PowerLawCurvature.Check(usable, lnc, varied, groups, weights, warnings, settings.OrderMargin);
-        SaturationFindings? saturation = null;
-        var chosen = ModelSettings.Power;
-        if (settings.Fits(ModelSettings.Saturation))
+        // The laws that compete with the power law by AICc (SeriesLaws), in registry order; of those to be used
+        // instead of the power law, the lowest AICc is chosen.
+        var competing = new List<(ISeriesLaw Law, CompetingLawFindings Result)>();
+        var chosen = SeriesLaws.Power;
+        var chosenAicc = double.PositiveInfinity;
+        var lawInput = new SeriesLawInput(usable, varied, fitted, power, weights, settings, groups.Count);
+        foreach (var law in SeriesLaws.Competitors)
         {
-            if (groups.Count > 1)
-            {
-                // Said only when the user named a substrate; by default the saturation law is simply not tried here.
-                if (settings.Substrate is not null)
-                    warnings.Add(new Warning("saturation-not-fitted", "series", "the saturation law is fitted only to a series at one temperature (Km depends on temperature)"));
-            }
-            else if (power.Converged)
-            {
-                saturation = SaturationAnalysis.Analyse(usable, varied, fitted, power, weights, settings, warnings);
-                if (saturation?.Preferred == ModelSettings.Saturation) chosen = ModelSettings.Saturation;
-            }
+            if (!settings.Fits(law.Name) || law.Fit(lawInput, warnings) is not { } result) continue;
+            competing.Add((law, result));
+            if (result.UsedInstead && result.Aicc < chosenAicc) (chosen, chosenAicc) = (law.Name, result.Aicc);
         }
 
         TemperatureFindings? temperature = null;
@@ -175,7 +171,7 @@ public static class OrderAnalysis
         if (settings.GlobalFit)
             global = GlobalFit.Analyse(usable, varied, groups, fitted, power.Converged ? power : null, warnings);
 
-        return new SeriesFindings(orders, headline, free, useRounded ? rounded : null, perRun, pairs, logLog, used, warnings)
+        var findings = new SeriesFindings(orders, headline, free, useRounded ? rounded : null, perRun, pairs, logLog, used, warnings)
         {
             GlobalFit = global,
             LogLogOrders = logLogOrders,
@@ -183,10 +179,11 @@ public static class OrderAnalysis
             Design = design,
             Curvature = curvature,
             OrderVerdicts = verdicts,
-            Saturation = saturation,
             ChosenLaw = chosen,
             Temperature = temperature,
         };
+        foreach (var (law, result) in competing) findings = law.Attach(findings, result);
+        return findings;
     }
 
     /// <summary>Weights 1/se(v0)² when every run has a positive standard error, else null (equal weights).</summary>

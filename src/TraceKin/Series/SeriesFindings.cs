@@ -147,7 +147,7 @@ public sealed record TemperatureFindings(IReadOnlyList<TemperatureGroup> Groups,
 /// a cross-check). <see cref="RateConstant"/> is the headline k of a single-temperature series: at the rounded orders
 /// (<see cref="RoundedOrders"/>) when every order's interval contains its simple value, else at the fitted orders;
 /// <see cref="RateConstantAtFittedOrders"/> is always the latter. A series at several temperatures has no single k: see
-/// <see cref="Temperature"/>. <see cref="ChosenLaw"/> is "power" or "saturation".
+/// <see cref="Temperature"/>. <see cref="ChosenLaw"/> is "power" or the name of a competing law (<see cref="SeriesLaws"/>).
 /// </summary>
 public sealed record SeriesFindings(
     IReadOnlyList<Order> Orders,
@@ -170,4 +170,6 @@ public sealed record SeriesFindings(
     public string ChosenLaw { get; init; } = "power";
     public TemperatureFindings? Temperature { get; init; }
     public GlobalFitFindings? GlobalFit { get; init; }
+    /// <summary>Competing laws without a place of their own in the findings (<see cref="ISeriesLaw.Attach"/>), in registry order.</summary>
+    public IReadOnlyList<CompetingLawFindings> OtherLaws { get; init; } = [];
 }

@@ -9,14 +9,7 @@ namespace TraceKin.Signal;
 public static class RunConditions
 {
     /// <summary>The plan.csv parameter columns a conversion kind reads; any other parameter column is an error for that kind.</summary>
-    public static IReadOnlyList<string> UsedBy(SignalSettings s) => s.Kind switch
-    {
-        "absorbance" when s.Calibration is null => ["blank", "path_length"],
-        "gas_volume" when s.ZeroedAfterMixing => ["barometric_pressure", "solution_volume", "gas_temperature"],
-        "gas_volume" => ["barometric_pressure", "solution_volume", "zero_offset", "gas_temperature"],
-        "pressure" => ["gas_temperature"],
-        _ => [],
-    };
+    public static IReadOnlyList<string> UsedBy(SignalSettings s) => SignalKinds.Find(s.Kind)?.PlanConditions(s) ?? [];
 
     /// <summary>The series settings with this run's plan values in place of the series values.</summary>
     public static SignalSettings Apply(SignalSettings s, PlanRow row)

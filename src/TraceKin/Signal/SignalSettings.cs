@@ -11,8 +11,8 @@ namespace TraceKin.Signal;
 /// </summary>
 public sealed record SignalSettings
 {
-    /// <summary>The kinds of signal TraceKin converts.</summary>
-    public static IReadOnlyList<string> Kinds { get; } = ["absorbance", "calibrated", "gas_volume", "pressure", "conductivity"];
+    /// <summary>The kinds of signal TraceKin converts: the names of <see cref="SignalKinds.All"/>.</summary>
+    public static IReadOnlyList<string> Kinds => SignalKinds.Names;
 
     /// <summary>series.toml's file name, for errors found while converting.</summary>
     public string Source { get; init; } = "series.toml";
@@ -93,6 +93,21 @@ public sealed record SignalSettings
     /// <summary>Reference temperature of the compensation, K.</summary>
     public double ReferenceTemperature { get; init; } = 298.15;
 
+    // ---- kinds that keep their keys in a record of their own ----
+    /// <summary>
+    /// The settings of kinds whose keys live in a record of their own rather than in properties here, by kind name
+    /// (set by the kind's <see cref="ISignalKind.Read"/> with <see cref="WithOptions"/>, read with <see cref="Options{T}"/>).
+    /// Internal, so the report's settings table (which lists public properties) shows such keys as series.toml gave them.
+    /// </summary>
+    internal IReadOnlyDictionary<string, object> KindOptions { get; init; } = new Dictionary<string, object>();
+
+    /// <summary>These settings with <paramref name="options"/> as the settings of kind <paramref name="kind"/>.</summary>
+    public SignalSettings WithOptions(string kind, object options) =>
+        this with { KindOptions = new Dictionary<string, object>(KindOptions, StringComparer.Ordinal) { [kind] = options } };
+
+    /// <summary>The settings record of kind <paramref name="kind"/>, or null when it has none.</summary>
+    public T? Options<T>(string kind) where T : class => KindOptions.TryGetValue(kind, out var o) ? o as T : null;
+
     public static SignalSettings FromToml(TomlSection s)
     {
         var d = new SignalSettings();
@@ -102,33 +117,7 @@ public sealed record SignalSettings
         if (coefficient == 0)
             throw Fail.Setting(s.File, s.KeyName("coefficient"), "0", "a non-zero stoichiometric coefficient (negative for a reactant, positive for a product)");
 
-        var lengthUnit = s.Choice("path_length_unit", "cm", "cm", "mm");
-        double Cm(double v) => lengthUnit == "mm" ? v / 10 : v;
-        var temperatureUnit = UnitOf(s, "temperature_unit", "K", Quantity.Temperature);
-        var pressureUnit = UnitOf(s, "pressure_unit", "Pa", Quantity.Pressure);
-        var volumeUnit = UnitOf(s, "volume_unit", "mL", Quantity.GasVolume);
-        var conductivityUnit = UnitOf(s, "conductivity_unit", "S/m", Quantity.Conductivity);
-
-        double? Temperature(string key)
-        {
-            if (s.Double(key) is not { } v) return null;
-            var k = temperatureUnit.ToInternal(v);
-            if (!(k > 0 && k < 1000))
-                throw Fail.Setting(s.File, s.KeyName(key), $"{v.ToString(CultureInfo.InvariantCulture)} {temperatureUnit.Symbol}", "a temperature between 0 K and 1000 K",
-                    "set temperature_unit = \"°C\" for Celsius");
-            return k;
-        }
-
-        var absorbers = new List<Absorber>();
-        foreach (var a in s.Sections("absorber"))
-        {
-            var sp = a.String("species") ?? throw Fail.Setting(s.File, a.KeyName("species"), "nothing", "the name of the other absorbing species, as in plan.csv");
-            var eps = a.Positive("molar_absorptivity") ?? throw Fail.Setting(s.File, a.KeyName("molar_absorptivity"), "nothing", $"the molar absorptivity of {sp} in L/(mol·cm)");
-            var nu = a.Double("coefficient") ?? throw Fail.Setting(s.File, a.KeyName("coefficient"), "nothing", $"the stoichiometric coefficient of {sp} (negative for a reactant)");
-            absorbers.Add(new Absorber(sp, eps, nu, NonNegative(a, "molar_absorptivity_u") ?? 0));
-            RejectUnknown(a);
-        }
-
+        var table = new SignalTable(s);
         var settings = d with
         {
             Source = s.File,
@@ -136,91 +125,24 @@ public sealed record SignalSettings
             Channel = s.String("channel"),
             Species = species,
             Coefficient = coefficient,
-            MolarAbsorptivity = s.Positive("molar_absorptivity"),
-            MolarAbsorptivityU = NonNegative(s, "molar_absorptivity_u") ?? 0,
-            PathLength = Cm(s.Positive("path_length") ?? d.PathLength),
-            PathLengthU = Cm(NonNegative(s, "path_length_u") ?? 0),
-            Blank = s.Double("blank", 0),
-            ReferenceChannel = s.String("reference_channel"),
-            LinearLimit = s.Positive("linear_limit") ?? d.LinearLimit,
-            Absorbers = absorbers,
-            CheckChannel = s.String("check_channel"),
-            CheckMolarAbsorptivity = s.Positive("check_molar_absorptivity"),
-            CheckBlank = s.Double("check_blank", 0),
-            CheckTolerance = s.Positive("check_tolerance") ?? d.CheckTolerance,
-            Temperature = Temperature("temperature"),
-            TemperatureU = (NonNegative(s, "temperature_u") ?? 0) * temperatureUnit.Factor,
-            BarometricPressure = s.Positive("barometric_pressure") is { } pb ? pressureUnit.ToInternal(pb) : null,
-            BarometricPressureU = (NonNegative(s, "barometric_pressure_u") ?? 0) * pressureUnit.Factor,
-            DryGas = s.Bool("dry_gas") ?? false,
-            GasCoefficient = s.Positive("gas_coefficient") ?? d.GasCoefficient,
-            SolutionVolume = s.Positive("solution_volume") is { } sv ? volumeUnit.ToInternal(sv) : null,
-            SolutionVolumeU = (NonNegative(s, "solution_volume_u") ?? 0) * volumeUnit.Factor,
-            ZeroOffset = volumeUnit.ToInternal(s.Double("zero_offset", 0)),
-            ZeroedAfterMixing = s.Bool("zeroed_after_mixing") ?? false,
-            GasMoleChange = s.Double("gas_mole_change"),
-            InitialPressure = s.Positive("initial_pressure") is { } p0 ? pressureUnit.ToInternal(p0) : null,
-            InitialMoleFraction = NonNegative(s, "initial_mole_fraction"),
-            KappaInitial = s.Double("kappa_initial") is { } k0 ? conductivityUnit.ToInternal(k0) : null,
-            KappaInitialU = (NonNegative(s, "kappa_initial_u") ?? 0) * conductivityUnit.Factor,
-            KappaFinal = s.Double("kappa_final") is { } k1 ? conductivityUnit.ToInternal(k1) : null,
-            KappaFinalU = (NonNegative(s, "kappa_final_u") ?? 0) * conductivityUnit.Factor,
-            TemperatureCoefficient = s.Double("temperature_coefficient"),
-            TemperatureCoefficientU = NonNegative(s, "temperature_coefficient_u") ?? 0,
-            ReferenceTemperature = Temperature("reference_temperature") ?? d.ReferenceTemperature,
-            Calibration = s.Has("calibration") ? CalibrationSettings.FromToml(s.Section("calibration"), species) : null,
         };
+        // Each kind reads the keys it introduces (all kinds, in registry order, so every key is read and checked
+        // whatever the chosen kind); the calibration table, shared by several kinds, last.
+        foreach (var k in SignalKinds.All) settings = k.Read(table, settings);
+        settings = settings with { Calibration = s.Has("calibration") ? CalibrationSettings.FromToml(s.Section("calibration"), species) : null };
         settings.Validate(s);
         return settings;
     }
 
-    /// <summary>Checks that need several keys at once: each kind's required keys, and keys that contradict each other.</summary>
+    /// <summary>Checks that need several keys at once: keys that contradict each other, then the chosen kind's own checks.</summary>
     private void Validate(TomlSection s)
     {
-        Exception Missing(string key, string expected, string hint = "") => Fail.Setting(s.File, s.KeyName(key), "nothing", expected, hint);
         if (InitialMoleFraction is > 1)
             throw Fail.Setting(s.File, s.KeyName("initial_mole_fraction"), InitialMoleFraction.Value.ToString(CultureInfo.InvariantCulture), "a mole fraction between 0 and 1");
         if (ZeroedAfterMixing && Kind != "gas_volume")
             throw Fail.Setting(s.File, s.KeyName("zeroed_after_mixing"), $"zeroed_after_mixing with kind = \"{Kind}\"", "kind = \"gas_volume\"",
                 "only a gas collector is zeroed; leave the key out for other kinds");
-        switch (Kind)
-        {
-            case "absorbance":
-                if (MolarAbsorptivity is not null && Calibration is not null)
-                    throw Fail.Setting(s.File, s.KeyName("molar_absorptivity"), "both a molar absorptivity and [signal.calibration]", "one of them");
-                if (Absorbers.Count > 0 && Calibration is not null)
-                    throw Fail.Setting(s.File, s.KeyName("absorber"), "other absorbers with [signal.calibration]", "other species in [[signal.calibration.other]] instead",
-                        "a calibration learns every species' contribution from its standards");
-                if (CheckChannel is not null && CheckMolarAbsorptivity is null)
-                    throw Missing("check_molar_absorptivity", "the molar absorptivity at the check channel, in L/(mol·cm)");
-                break;
-            case "calibrated":
-                if (Calibration is null) throw Missing("calibration", "a [signal.calibration] table of standards for kind = \"calibrated\"");
-                break;
-            case "gas_volume" or "pressure" when Calibration is not null:
-                throw Fail.Setting(s.File, s.KeyName("calibration"), $"a calibration table with kind = \"{Kind}\"", "no calibration: this kind is converted from physical laws",
-                    "use kind = \"calibrated\" to read the signal through standards instead");
-            case "gas_volume" when ZeroedAfterMixing && s.Double("zero_offset") is not null:
-                throw Fail.Setting(s.File, s.KeyName("zero_offset"), "a zero offset with zeroed_after_mixing = true", "one of them",
-                    "a collector zeroed after mixing has its offset extrapolated from the trace");
-            // gas_volume's barometric pressure and solution volume may come per run from plan.csv: SeriesCheck asks for them.
-            case "pressure":
-                if (GasMoleChange is null) throw Missing("gas_mole_change", "the change in moles of gas per unit extent of reaction, e.g. 1 for A(g) → 2 B(g)");
-                if (GasMoleChange == 0)
-                    throw Fail.Setting(s.File, s.KeyName("gas_mole_change"), "0", "a non-zero change in moles of gas", "a reaction that keeps the number of gas moles cannot be followed by its pressure");
-                break;
-            case "conductivity":
-                if (Calibration is null && KappaFinal is null)
-                    throw Missing("kappa_final", "the conductivity at complete reaction (or a [signal.calibration] table)");
-                if (Calibration is null && Coefficient > 0)
-                    throw Fail.Setting(s.File, s.KeyName("coefficient"), Coefficient.ToString(CultureInfo.InvariantCulture),
-                        "a negative coefficient: the two-point conductivity conversion follows the limiting reactant");
-                if (KappaInitial is { } k0 && KappaFinal is { } k1 && k0 == k1)
-                    throw Fail.Setting(s.File, s.KeyName("kappa_final"), "the same value as kappa_initial", "a conductivity at complete reaction that differs from the one at mixing");
-                if (TemperatureCoefficient is { } a && !(Math.Abs(a) < 1))
-                    throw Fail.Setting(s.File, s.KeyName("temperature_coefficient"), a.ToString(CultureInfo.InvariantCulture), "a coefficient per kelvin, e.g. 0.02 (2 %/K)");
-                break;
-        }
+        SignalKinds.Find(Kind)?.Validate(this, s);
     }
 
     /// <summary>

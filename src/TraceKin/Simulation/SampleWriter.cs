@@ -114,23 +114,11 @@ public static class SampleWriter
     /// <summary>The signal column's header and the unit its numbers are written in: signal.channel when set, else a default per kind.</summary>
     private static (string Header, UnitInfo Unit) SignalHeader(SignalSettings s)
     {
-        var header = s.Channel ?? s.Kind switch
-        {
-            "gas_volume" => "volume (mL)",
-            "pressure" => "pressure (kPa)",
-            "conductivity" => "conductivity (mS/cm)",
-            "calibrated" => "signal (AU)",
-            _ => "A",
-        };
+        var column = SignalKinds.Find(s.Kind)?.SampleColumn ?? ("A", Units.Absorbance);
+        var header = s.Channel ?? column.Header;
         var open = header.LastIndexOfAny(['(', '[']);
         var unit = open >= 0 ? Units.Find(header[(open + 1)..].TrimEnd(')', ']', ' ')) : null;
-        return (header, unit ?? Units.Find(s.Kind switch
-        {
-            "gas_volume" => Units.Litre,
-            "pressure" => Units.Pascal,
-            "conductivity" => Units.SiemensPerMetre,
-            _ => Units.Absorbance,
-        })!);
+        return (header, unit ?? Units.Find(column.Unit)!);
     }
 
     private static int StableHash(string s)

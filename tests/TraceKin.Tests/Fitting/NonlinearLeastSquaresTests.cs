@@ -102,6 +102,53 @@ public sealed class NonlinearLeastSquaresTests
     }
 
     [Fact]
+    public void A_singular_fit_names_the_parameter_to_blame_by_index_as_well_as_in_words()
+    {
+        // a·b·x: only the product is determined (common practice, no source); the index is the parameter the detail names.
+        var x = Enumerable.Range(1, 10).Select(i => (double)i).ToArray();
+        var y = x.Select(v => 3 * v + 0.01 * Math.Sin(v)).ToArray();
+        var m = new CurveModel("product", ["a", "b"], x, (p, v) => p[0] * p[1] * v);
+        var fit = NonlinearLeastSquares.Fit(m, y, [1, 2]);
+        Assert.Equal(FitExit.Singular, fit.Exit);
+        Assert.NotNull(fit.SingularParameter);
+        Assert.Contains($"'{fit.Parameters[fit.SingularParameter!.Value].Name}'", fit.ExitDetail);
+    }
+
+    [Fact]
+    public void A_parameter_without_effect_is_the_singular_one()
+    {
+        // c multiplies nothing: its Jacobian column is zero at every point (common practice, no source).
+        var x = Enumerable.Range(1, 8).Select(i => (double)i).ToArray();
+        var y = x.Select(v => 2 * v + 1).ToArray();
+        var m = new CurveModel("line", ["a", "c", "b"], x, (p, v) => p[0] + p[2] * v + 0 * p[1]);
+        var fit = NonlinearLeastSquares.Fit(m, y, [0.5, 1, 1]);
+        Assert.Equal(FitExit.Singular, fit.Exit);
+        Assert.Equal(1, fit.SingularParameter);
+        Assert.Contains("'c'", fit.ExitDetail);
+    }
+
+    [Fact]
+    public void A_converged_fit_blames_no_parameter()
+    {
+        var (m, y) = Misra1a(analytic: true);
+        var fit = NonlinearLeastSquares.Fit(m, y, [500, 1e-4]);
+        Assert.Equal(FitExit.Converged, fit.Exit);
+        Assert.Null(fit.SingularParameter);
+    }
+
+    [Fact]
+    public void A_linear_design_with_a_repeated_column_blames_the_repeat()
+    {
+        // Columns 1 and 2 equal: the second is not separable from the first (common practice, no source).
+        var x = new double[6, 2];
+        for (var i = 0; i < 6; i++) { x[i, 0] = i + 1; x[i, 1] = i + 1; }
+        var fit = LinearLeastSquares.Fit("repeat", ["u", "v"], x, [1.0, 2.1, 2.9, 4.2, 5.0, 6.1]);
+        Assert.Equal(FitExit.Singular, fit.Exit);
+        Assert.Equal(1, fit.SingularParameter);
+        Assert.Contains("'v'", fit.ExitDetail);
+    }
+
+    [Fact]
     public void A_model_that_gives_nan_at_the_start_is_reported_as_invalid_values()
     {
         var x = new[] { 1.0, 2, 3, 4 };
