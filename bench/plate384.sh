@@ -23,6 +23,9 @@ molar_absorptivity = 18000
 path_length = 0.3
 blank = 0
 
+[rates]
+limiting_reactant = "S"   # one P from each S: each well's end level is its [S]0 (docs/methods.md)
+
 [model]
 species = ["S"]
 laws = ["power", "saturation"]

@@ -101,6 +101,10 @@ public static class IntegratedLawFitter
             if (withDrift) continue;
             var seed = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw)
                 .OrderBy(r => r.Item2.AicC).FirstOrDefault();
+            // With the end known, the integer laws differ only in the curvature they assume: when their AICc lie within 2
+            // of each other the trace cannot tell its order, order n would only crawl along its flat valley, and the
+            // Akaike-weighted integer laws already carry that spread.
+            if (endKnown && CannotTellOrder(integer)) continue;
             all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol, endKnown: endKnown));
         }
 
@@ -582,8 +586,10 @@ public static class IntegratedLawFitter
             if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
         }
         if (!fit.Converged && law is NthOrderLaw && model.KnownSpan is { } whole && startOverride is null
-            && OrderFromCurvature(model, t, y, w, whole, lower, upper) is { } oc)
+            && OrderFromCurvature(model, t, y, w, whole, lower, upper) is { } oc
+            && !(fit.Exit == FitExit.AtBound && Math.Abs(oc[LawModel.FirstShape] - fit.Parameters[LawModel.FirstShape].Value) < 0.25))
         {
+            // (A fit that stopped on a bound of n the curvature also points to is where the data put it: not retried.)
             // With the end known, the order is the trace's curvature: y″/y′ at t0 = −n·kk·[A]0^(n−1) = n·y′/(y0 − y_end)
             // (Taylor expansion, common practice, no source). k and n trade off strongly ([A]0^(n−1) moves by e^(Δn·ln[A]0)),
             // so the fit from the integer law's end can crawl; it starts instead from the order the curvature gives.
@@ -659,8 +665,15 @@ public static class IntegratedLawFitter
         return start;
     }
 
+    /// <summary>True when fewer than two of zero, first and second order converged or their AICc span less than 2.</summary>
+    private static bool CannotTellOrder(List<(LawModel, FitResult)> integer)
+    {
+        var aicc = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw).Select(r => r.Item2.AicC).ToList();
+        return aicc.Count < 2 || aicc.Max() - aicc.Min() < 2;
+    }
+
     /// <summary>A start for order n on a trace whose whole change is known: y0, y′(0) and y″(0) from a quadratic over the
-    /// valid samples, n = y″·(y0 − y_end)/(y′)² clamped into the law's bounds (½ when the quadratic shows no deceleration),
+    /// valid samples, n = y″·(y0 − y_end)/(y′)² clamped into the law's bounds (the lower one when the quadratic shows no deceleration),
     /// kk from y′(0) = −(y0 − y_end)·kk·[A]0^(n−1). Null when the quadratic fails or y′(0) runs the wrong way.</summary>
     private static double[]? OrderFromCurvature(LawModel model, double[] t, double[] y, double[] w, double span, double[] lower, double[] upper)
     {
@@ -670,8 +683,9 @@ public static class IntegratedLawFitter
         if (!q.Converged) return null;
         double c0 = q.Parameters[0].Value, c1 = q.Parameters[1].Value, c2 = q.Parameters[2].Value;
         var n = 2 * c2 * span / (c1 * c1);
-        // A trace whose noise hides its curvature (or shows it the wrong way) starts halfway between zero and first order.
-        if (!double.IsFinite(n) || !(n > 0)) n = 0.5;
+        // A trace whose noise hides its curvature (or shows it the wrong way) points to the bound n = 0.
+        if (!double.IsFinite(n)) return null;
+        if (!(n > 0)) n = 0;
         var nIndex = LawModel.FirstShape;
         n = Math.Clamp(n, lower[nIndex] + 0.02, upper[nIndex] - 0.02);
         var kk = -c1 / (span * Math.Pow(a0, n - 1));
