@@ -28,6 +28,10 @@ public sealed record SeriesConfig(
     /// <summary>The text the settings were read from, to locate a settings problem found later (see <see cref="TomlKeyLocation"/>).</summary>
     public string? Text { get; init; }
 
+    /// <summary>The parsed document the settings were read from (null for settings made in code): the report reads which
+    /// keys were written from it instead of parsing the text again.</summary>
+    internal TomlTable? Table { get; init; }
+
     /// <summary>A problem named by a series.toml key (this file's, or an export's conflict with a key) located at that key.</summary>
     public Problem Locate(Problem p)
     {
@@ -71,7 +75,7 @@ public sealed record SeriesConfig(
             foreach (var s in sections.Prepend(root))
                 foreach (var k in s.UnreadKeys)
                     throw Fail.Setting(file, s.KeyName(k), "a key TraceKin does not know", "one of the keys listed in docs/formats.md", "check the spelling");
-            return config with { Text = text };
+            return config with { Text = text, Table = table };
         }
         catch (InputException ex) when (ex.Problem.Key is not null && ex.Problem.Line == 0)
         {

@@ -3,7 +3,6 @@ using System.Collections;
 using System.Globalization;
 using System.Reflection;
 using System.Text;
-using Tomlyn;
 using Tomlyn.Model;
 using TraceKin.Setup;
 
@@ -29,16 +28,9 @@ public static class SettingsProvenance
 
     public static IReadOnlyList<SettingUse> Rows(SeriesConfig config)
     {
-        TomlTable? raw = null;
-        try
-        {
-            if (config.Text is { } text) raw = TomlSerializer.Deserialize<TomlTable>(text);
-        }
-        catch (Exception)
-        {
-            // Settings made in code (no text), or text that does not parse: the values are still known, only their source is not.
-            raw = null;
-        }
+        // The document series.toml was parsed into, once, when it was read; settings made in code have none: their values
+        // are still known, only their source is not.
+        var raw = config.Table;
 
         var rows = new List<SettingUse>
         {
