@@ -30,26 +30,9 @@ public sealed class KnownEndTests(ITestOutputHelper output)
         if (law is NthOrderLaw) par.Add(1.4);
         par.Add(2e-7);
         var p = par.ToArray();
-        var np = p.Length;
-        var jac = new double[t.Length * np];
-        Assert.True(model.TryJacobian(p, jac));
+        RateLawTests.AssertJacobianMatchesDifferences(model, p, name);
         var plus = new double[t.Length];
         var minus = new double[t.Length];
-        for (var j = 0; j < np; j++)
-        {
-            var h = 1e-6 * Math.Max(Math.Abs(p[j]), 1e-4);
-            var pp = (double[])p.Clone(); pp[j] += h;
-            var pm = (double[])p.Clone(); pm[j] -= h;
-            model.Evaluate(pp, plus);
-            model.Evaluate(pm, minus);
-            for (var i = 0; i < t.Length; i++)
-            {
-                var fd = (plus[i] - minus[i]) / (2 * h);
-                var an = jac[i * np + j];
-                Assert.True(Math.Abs(fd - an) <= 1e-5 * Math.Max(Math.Abs(fd), 1e-3) + 1e-7,
-                    $"{name}: ∂y/∂{model.ParameterNames[j]} at t = {t[i]}: analytic {an:G8}, differences {fd:G8}");
-            }
-        }
         // The end level is no parameter: y(t) does not depend on it, and it sits the known span from y0.
         model.Evaluate(p, plus);
         var moved = (double[])p.Clone(); moved[LawModel.YEnd] = -7;
