@@ -35,6 +35,11 @@ public static class SeriesCheck
         foreach (var sp in config.Model.Species ?? [])
             Species("model.species", sp, false);
         Species("model.substrate", config.Model.Substrate, false);
+        Species("rates.limiting_reactant", config.Rates.LimitingReactant, false);
+        if (config.Rates.LimitingReactant is { } limiting && s.Coefficient < 0)
+            throw Fail.Setting(config.File, "rates.limiting_reactant", Fail.Quote(limiting),
+                $"a limiting reactant only for a product curve (signal.coefficient > 0; here {s.Coefficient.ToString(System.Globalization.CultureInfo.InvariantCulture)}, a reactant, whose own [X]0 already sets its change)",
+                "remove rates.limiting_reactant");
 
         var used = RunConditions.UsedBy(s);
         foreach (var (name, column) in plan.ConditionColumns)

@@ -59,6 +59,27 @@ public class LimitingReactantTests
         Assert.DoesNotContain(known.Warnings, w => w.Code == "product-end-unknown");
     }
 
+    [Theory]
+    [InlineData("T", "an [X]0 column")]
+    [InlineData("S", "only for a product curve")]
+    public void A_limiting_reactant_the_plan_lacks_or_on_a_reactant_curve_is_one_located_setting_problem(string species, string expected)
+    {
+        using var dir = new RepoPaths.TempDir();
+        var series = LongerPlate(dir, limiting: false);
+        var toml = File.ReadAllLines(Path.Combine(series, "series.toml")).ToList();
+        toml.Insert(toml.IndexOf("[rates]") + 1, $"limiting_reactant = \"{species}\"");
+        // the reactant case: the signal follows S itself, falling
+        if (species == "S") toml = toml.Select(l => l.StartsWith("coefficient = 1", StringComparison.Ordinal) ? "coefficient = -1"
+            : l.StartsWith("species = \"P\"", StringComparison.Ordinal) ? "species = \"S\"" : l).ToList();
+        File.WriteAllLines(Path.Combine(series, "series.toml"), toml);
+        var result = SeriesRunner.Analyse(series, new AnalysisOptions { Workers = 2 });
+        var bad = Assert.Single(result.Rejected);
+        Assert.Equal("series.toml", bad.File);
+        Assert.Equal(toml.IndexOf($"limiting_reactant = \"{species}\"") + 1, bad.Line);
+        Assert.Contains(expected, bad.Expected);
+        Assert.Empty(result.Runs);
+    }
+
     [Fact]
     public void A_run_without_the_limiting_reactant_is_rejected_at_its_plan_row_and_the_others_analysed()
     {
