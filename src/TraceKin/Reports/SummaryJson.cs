@@ -1,14 +1,15 @@
 using System.Text.Json;
 using TraceKin.Analysis;
-using TraceKin.Fitting;
 using TraceKin.Traces;
 
 namespace TraceKin.Reports;
 
 /// <summary>
 /// summary.json: the machine-readable results, with stable field names (documented in docs/formats.md and
-/// docs/summary.schema.json). Numbers are written round-trip exact; a number that is not finite is written as null.
-/// No time stamps, so the same inputs give the same bytes.
+/// docs/summary.schema.json), serialised from the records of SummaryRecords.cs (SummaryJsonContext). Numbers are
+/// written round-trip exact; a number that is not finite is written as null; text as itself in UTF-8, escaped only
+/// where JSON needs it or a reader would not see it (SummaryTextEncoder). No time stamps, so the same inputs give the
+/// same bytes.
 /// </summary>
 /// <param name="plots">Whether the run plots are drawn: each run's <c>plotFile</c> names its picture, or is null.</param>
 public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter

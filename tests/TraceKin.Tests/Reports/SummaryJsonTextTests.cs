@@ -112,3 +112,52 @@ public sealed class SummaryJsonTextTests(AnalysedSample sample) : IClassFixture<
         Assert.DoesNotContain("\\u", text, StringComparison.Ordinal);
     }
 }
+
+/// <summary>A big series reaches the file in pieces while its runs are still being mapped (common practice, no source: stream, do not buffer).</summary>
+public sealed class SummaryJsonStreamingTests
+{
+    private sealed class CountingStream(Func<int> mapped) : Stream
+    {
+        private readonly MemoryStream _bytes = new();
+        public int FirstWriteAtRun { get; private set; } = -1;
+        public int Writes { get; private set; }
+        public byte[] ToArray() => _bytes.ToArray();
+
+        public override void Write(ReadOnlySpan<byte> buffer)
+        {
+            if (Writes++ == 0) FirstWriteAtRun = mapped();
+            _bytes.Write(buffer);
+        }
+
+        public override void Write(byte[] buffer, int offset, int count) => Write(buffer.AsSpan(offset, count));
+        public override void Flush() { }
+        public override bool CanRead => false;
+        public override bool CanSeek => false;
+        public override bool CanWrite => true;
+        public override long Length => _bytes.Length;
+        public override long Position { get => _bytes.Position; set => throw new NotSupportedException(); }
+        public override int Read(byte[] buffer, int offset, int count) => throw new NotSupportedException();
+        public override long Seek(long offset, SeekOrigin origin) => throw new NotSupportedException();
+        public override void SetLength(long value) => throw new NotSupportedException();
+    }
+
+    [Fact]
+    public void Runs_are_written_as_they_are_mapped_not_after_the_last()
+    {
+        const int runs = 20_000;
+        var mapped = 0;
+        var stream = new CountingStream(() => mapped);
+        var records = Enumerable.Range(0, runs).Select(i =>
+        {
+            mapped++;
+            return new RunRecord($"R{i}", $"r{i}.csv", null, null, 298.15, new SortedDictionary<string, double?>(StringComparer.Ordinal) { ["A"] = 0.001 },
+                new InitialRateRecord(1e-6, 1e-8, 10, "mol/(L·s)", "line", 0, 30, 12, 0, 0), null, "single", true, null, 0, false, 0, 0, []);
+        });
+        var summary = new SummaryRecord("TraceKin", "0", "big", records, [], null, [], null, [], null, null, null, null, null, null, null, null, null, [], []);
+        JsonSerializer.Serialize(stream, summary, SummaryJsonContext.Writer.SummaryRecord);
+        Assert.InRange(stream.FirstWriteAtRun, 1, runs / 2);
+        Assert.True(stream.Writes > 10, $"{stream.Writes} writes");
+        using var doc = JsonDocument.Parse(stream.ToArray());
+        Assert.Equal(runs, doc.RootElement.GetProperty("runs").GetArrayLength());
+    }
+}
