@@ -19,7 +19,7 @@ import sys
 def main():
     if len(sys.argv) != 4:
         sys.exit(__doc__)
-    with open(sys.argv[1]) as f:
+    with open(sys.argv[1], encoding="utf-8") as f:
         tk = json.load(f)
     with open(sys.argv[2], newline="") as f:
         base = {r["quantity"]: r for r in csv.DictReader(f)}

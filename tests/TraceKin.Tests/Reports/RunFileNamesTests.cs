@@ -86,8 +86,7 @@ public class RunFileNamesTests
         using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir.Path, "summary.json")));
         var runs = doc.RootElement.GetProperty("runs").EnumerateArray().ToDictionary(r => r.GetProperty("id").GetString()!, r => r.GetProperty("plotFile").GetString()!);
         Assert.Equal(8, runs.Count);
-        using var schema = JsonDocument.Parse(File.ReadAllText(Path.Combine(RepoPaths.Docs, "summary.schema.json")));
-        Assert.Empty(SchemaCheck.Validate(schema.RootElement, doc.RootElement));
+        Assert.Empty(SchemaCheck.Check(doc.RootElement));
         Assert.Equal("plots/run-R3.png", runs["R3"]);
         Assert.True(runs[longId].Length <= "plots/".Length + 88);
         Assert.Equal(8, runs.Values.Distinct().Count());

@@ -2,30 +2,42 @@ using TraceKin.Tests.Support;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using System.Text.RegularExpressions;
+using Json.Schema;
 
 namespace TraceKin.Tests.Reports;
 
 /// <summary>
-/// docs/summary.schema.json (JSON Schema draft 2020-12) against summary.json files that analyse really writes. The
-/// checker below implements the keywords the schema uses (type, const, required, properties, additionalProperties,
-/// items, minItems, maxItems, pattern, local $ref) as the 2020-12 validation vocabulary defines them.
+/// docs/summary.schema.json (JSON Schema draft 2020-12) against summary.json files that analyse really writes, validated
+/// by JsonSchema.Net (a general implementation of the 2020-12 specification), plus a check that every property written
+/// is declared in the schema, so a renamed property fails even where the schema lets unknown properties through.
 /// </summary>
 public sealed class SummarySchemaTests(AnalysedSample sample) : IClassFixture<AnalysedSample>
 {
-    private static JsonElement Schema { get; } = JsonDocument.Parse(File.ReadAllText(Path.Combine(RepoPaths.Docs, "summary.schema.json"))).RootElement;
-
     [Fact]
     public void Schema_declares_draft_2020_12()
     {
-        Assert.Equal("https://json-schema.org/draft/2020-12/schema", Schema.GetProperty("$schema").GetString());
+        Assert.Equal("https://json-schema.org/draft/2020-12/schema", SchemaCheck.SchemaDocument.GetProperty("$schema").GetString());
+    }
+
+    [Theory]
+    [InlineData("violet-complex-acid", 8)]
+    [InlineData("amber-ester-warmth", 15)]
+    [InlineData("teal-lactonase-plate", 32)]
+    public void Summary_of_each_demo_series_matches_the_schema_and_declares_every_property(string demo, int runs)
+    {
+        using var outDir = new RepoPaths.TempDir();
+        AnalysedSample.Analyse(RepoPaths.Sample(demo), outDir.Path, plots: true);
+        using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir.Path, "summary.json")));
+        Assert.Empty(SchemaCheck.Check(doc.RootElement));
+        Assert.Equal(runs, doc.RootElement.GetProperty("runs").GetArrayLength());
     }
 
     [Fact]
-    public void Summary_of_the_sample_matches_the_schema()
+    public void Summary_without_plots_matches_the_schema()
     {
-        using var doc = JsonDocument.Parse(File.ReadAllText(sample.SummaryPath));
-        Assert.Empty(SchemaCheck.Validate(Schema, doc.RootElement));
-        Assert.Equal(8, doc.RootElement.GetProperty("runs").GetArrayLength());
+        using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(sample.NoPlotsDir, "summary.json")));
+        Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("runs")[0].GetProperty("plotFile").ValueKind);
+        Assert.Empty(SchemaCheck.Check(doc.RootElement));
     }
 
     [Fact]
@@ -42,7 +54,7 @@ public sealed class SummarySchemaTests(AnalysedSample sample) : IClassFixture<An
             using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(outDir, "summary.json")));
             Assert.Equal(1, doc.RootElement.GetProperty("rejected").GetArrayLength());
             Assert.True(doc.RootElement.GetProperty("warnings").GetArrayLength() >= 1);
-            Assert.Empty(SchemaCheck.Validate(Schema, doc.RootElement));
+            Assert.Empty(SchemaCheck.Check(doc.RootElement));
         }
         finally
         {
@@ -51,39 +63,100 @@ public sealed class SummarySchemaTests(AnalysedSample sample) : IClassFixture<An
         }
     }
 
-    [Fact]
-    public void Every_property_summary_json_writes_is_documented_in_the_schema()
+    private JsonNode Sample() => JsonNode.Parse(File.ReadAllText(sample.SummaryPath))!;
+
+    private static List<string> CheckOf(JsonNode node)
     {
-        using var doc = JsonDocument.Parse(File.ReadAllText(sample.SummaryPath));
-        var undocumented = SchemaCheck.Undocumented(Schema, doc.RootElement);
-        Assert.True(undocumented.Count == 0, "add these to docs/summary.schema.json: " + string.Join(", ", undocumented));
+        using var doc = JsonDocument.Parse(node.ToJsonString());
+        return SchemaCheck.Check(doc.RootElement);
+    }
+
+    private static void Rename(JsonObject o, string from, string to)
+    {
+        var v = o[from];
+        o.Remove(from);
+        o[to] = v;
     }
 
     [Fact]
-    public void Checker_finds_a_missing_required_property_and_a_wrong_type()
+    public void The_unchanged_sample_passes_so_the_cases_below_fail_for_their_change_alone()
     {
-        // Without this, a checker that accepts everything would pass the tests above.
-        var node = JsonNode.Parse(File.ReadAllText(sample.SummaryPath))!;
+        Assert.Empty(CheckOf(Sample()));
+    }
+
+    [Fact]
+    public void Removing_a_required_property_fails()
+    {
+        var node = Sample();
+        node.AsObject().Remove("rateConstant");
         node["runs"]![0]!["initialRate"]!.AsObject().Remove("stdError");
+        var errors = CheckOf(node);
+        Assert.Contains(errors, e => e.StartsWith("/: required:", StringComparison.Ordinal) && e.Contains("rateConstant", StringComparison.Ordinal));
+        Assert.Contains(errors, e => e.StartsWith("/runs/0/initialRate: required:", StringComparison.Ordinal) && e.Contains("stdError", StringComparison.Ordinal));
+        Assert.Equal(2, errors.Count);
+    }
+
+    [Fact]
+    public void Renaming_a_required_property_fails_as_missing_and_as_undeclared()
+    {
+        var node = Sample();
+        Rename(node["powerLaw"]!.AsObject(), "curvature", "curvatures");
+        var errors = CheckOf(node);
+        Assert.Contains(errors, e => e.StartsWith("/powerLaw: required:", StringComparison.Ordinal) && e.Contains("curvature", StringComparison.Ordinal));
+        Assert.Contains("$.powerLaw.curvatures: not declared in the schema", errors);
+        Assert.Equal(2, errors.Count);
+    }
+
+    [Fact]
+    public void Renaming_an_optional_property_fails_as_undeclared()
+    {
+        // initialRate.modelStdError is not required, and initialRate lets unknown properties through.
+        var node = Sample();
+        Rename(node["runs"]![2]!["initialRate"]!.AsObject(), "modelStdError", "modelStdErr");
+        Assert.Equal(["$.runs[].initialRate.modelStdErr: not declared in the schema"], CheckOf(node));
+    }
+
+    [Fact]
+    public void A_wrong_type_a_value_outside_an_enum_and_a_pattern_mismatch_fail()
+    {
+        var node = Sample();
         node["orders"]![0]!["dof"] = "five";
+        node["powerLaw"]!["orderVerdicts"]![0]!["verdict"] = "maybe";
         node["runs"]![1]!["sha256"] = "not-a-hash";
-        using var doc = JsonDocument.Parse(node.ToJsonString());
-        var errors = SchemaCheck.Validate(Schema, doc.RootElement);
-        Assert.Contains("$.runs[0].initialRate: missing required property stdError", errors);
-        Assert.Contains("$.orders[0].dof: expected integer, found String", errors);
-        Assert.Contains(errors, e => e.StartsWith("$.runs[1].sha256: does not match", StringComparison.Ordinal));
+        var errors = CheckOf(node);
+        Assert.Contains(errors, e => e.StartsWith("/orders/0/dof: type:", StringComparison.Ordinal));
+        Assert.Contains(errors, e => e.StartsWith("/powerLaw/orderVerdicts/0/verdict: enum:", StringComparison.Ordinal));
+        Assert.Contains(errors, e => e.StartsWith("/runs/1/sha256: pattern:", StringComparison.Ordinal));
         Assert.Equal(3, errors.Count);
     }
 }
 
-/// <summary>A small JSON Schema 2020-12 checker for the keywords docs/summary.schema.json uses.</summary>
+/// <summary>summary.json against docs/summary.schema.json: JsonSchema.Net's validation plus every written property declared.</summary>
 public static class SchemaCheck
 {
-    public static List<string> Validate(JsonElement schema, JsonElement instance)
+    private static readonly string SchemaText = File.ReadAllText(Path.Combine(RepoPaths.Docs, "summary.schema.json"));
+
+    public static JsonElement SchemaDocument { get; } = JsonDocument.Parse(SchemaText).RootElement.Clone();
+
+    private static readonly JsonSchema Schema = JsonSchema.FromText(SchemaText);
+
+    /// <summary>Every schema error and every undeclared property, each as one line.</summary>
+    public static List<string> Check(JsonElement instance) =>
+        [.. Validate(instance), .. Undocumented(SchemaDocument, instance).Select(p => p + ": not declared in the schema")];
+
+    /// <summary>The schema's errors, as "instance location: keyword: message" (location as a JSON Pointer, "/" for the root).</summary>
+    public static List<string> Validate(JsonElement instance)
     {
+        var result = Schema.Evaluate(instance, new EvaluationOptions { OutputFormat = OutputFormat.List });
+        if (result.IsValid) return [];
         var errors = new List<string>();
-        Check(schema, schema, instance, "$", errors);
-        return errors;
+        foreach (var d in result.Details ?? [])
+            foreach (var (keyword, message) in d.Errors ?? new Dictionary<string, string>())
+            {
+                var at = d.InstanceLocation.ToString();
+                errors.Add($"{(at.Length == 0 ? "/" : at)}: {keyword}: {message}");
+            }
+        return errors.Distinct().ToList();
     }
 
     private static JsonElement Resolve(JsonElement root, JsonElement schema)
@@ -97,64 +170,6 @@ public static class SchemaCheck
             schema = target;
         }
         return schema;
-    }
-
-    private static bool HasType(JsonElement v, string type) => type switch
-    {
-        "object" => v.ValueKind == JsonValueKind.Object,
-        "array" => v.ValueKind == JsonValueKind.Array,
-        "string" => v.ValueKind == JsonValueKind.String,
-        "number" => v.ValueKind == JsonValueKind.Number,
-        "integer" => v.ValueKind == JsonValueKind.Number && v.TryGetDouble(out var d) && Math.Floor(d) == d,
-        "boolean" => v.ValueKind is JsonValueKind.True or JsonValueKind.False,
-        "null" => v.ValueKind == JsonValueKind.Null,
-        _ => throw new NotSupportedException("type " + type),
-    };
-
-    private static void Check(JsonElement root, JsonElement schema, JsonElement v, string at, List<string> errors)
-    {
-        schema = Resolve(root, schema);
-        if (schema.ValueKind == JsonValueKind.True) return;
-        if (schema.TryGetProperty("type", out var type))
-        {
-            var types = type.ValueKind == JsonValueKind.Array ? type.EnumerateArray().Select(t => t.GetString()!).ToArray() : [type.GetString()!];
-            if (!types.Any(t => HasType(v, t)))
-            {
-                errors.Add($"{at}: expected {string.Join(" or ", types)}, found {v.ValueKind}");
-                return;
-            }
-        }
-        if (schema.TryGetProperty("const", out var c) && c.GetRawText() != v.GetRawText())
-            errors.Add($"{at}: expected {c.GetRawText()}, found {v.GetRawText()}");
-        if (schema.TryGetProperty("pattern", out var pattern) && v.ValueKind == JsonValueKind.String && !Regex.IsMatch(v.GetString()!, pattern.GetString()!))
-            errors.Add($"{at}: does not match {pattern.GetString()}");
-        if (v.ValueKind == JsonValueKind.Object)
-        {
-            if (schema.TryGetProperty("required", out var req))
-                foreach (var name in req.EnumerateArray().Select(x => x.GetString()!))
-                    if (!v.TryGetProperty(name, out _)) errors.Add($"{at}: missing required property {name}");
-            var props = schema.TryGetProperty("properties", out var p) ? p : default;
-            foreach (var member in v.EnumerateObject())
-            {
-                if (props.ValueKind == JsonValueKind.Object && props.TryGetProperty(member.Name, out var sub))
-                    Check(root, sub, member.Value, $"{at}.{member.Name}", errors);
-                else if (schema.TryGetProperty("additionalProperties", out var extra) && extra.ValueKind == JsonValueKind.Object)
-                    Check(root, extra, member.Value, $"{at}.{member.Name}", errors);
-                else if (schema.TryGetProperty("additionalProperties", out var no) && no.ValueKind == JsonValueKind.False)
-                    errors.Add($"{at}: property {member.Name} is not allowed");
-            }
-        }
-        if (v.ValueKind == JsonValueKind.Array)
-        {
-            var n = v.GetArrayLength();
-            if (schema.TryGetProperty("minItems", out var min) && n < min.GetInt32()) errors.Add($"{at}: {n} items, fewer than {min.GetInt32()}");
-            if (schema.TryGetProperty("maxItems", out var max) && n > max.GetInt32()) errors.Add($"{at}: {n} items, more than {max.GetInt32()}");
-            if (schema.TryGetProperty("items", out var items))
-            {
-                var i = 0;
-                foreach (var item in v.EnumerateArray()) Check(root, items, item, $"{at}[{i++}]", errors);
-            }
-        }
     }
 
     /// <summary>Paths of object properties in <paramref name="instance"/> that the schema neither declares nor allows as additional.</summary>
