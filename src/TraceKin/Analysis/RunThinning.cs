@@ -11,7 +11,7 @@ namespace TraceKin.Analysis;
 /// their curves (their numbers stay). Scalars (rates, parameters, point counts, χ²) are untouched. Arrays shared
 /// between traces (the time axis) stay shared.
 /// </summary>
-public static class RunThinning
+internal static class RunThinning
 {
     public static RunResult Thin(RunResult run, int columns)
     {

@@ -11,7 +11,7 @@ namespace TraceKin.Analysis;
 /// A disagreement is one located problem that lists what does exist. Channel names are checked per run, against
 /// each export (<see cref="RunExport.Channel(string?, string)"/>).
 /// </summary>
-public static class SeriesCheck
+internal static class SeriesCheck
 {
     public static void Check(SeriesConfig config, Plan plan)
     {

@@ -3,7 +3,7 @@ using MathNet.Numerics.Statistics;
 namespace TraceKin.Fitting;
 
 /// <summary>A robust centre and spread shared by the spike screen and the report's distribution of k per run.</summary>
-public static class RobustScale
+internal static class RobustScale
 {
     /// <summary>Median and 1.4826·MAD (the MAD scaled to the SD of a normal sample; Leys et al. 2013, eq. 1), found by
     /// selection (MathNet's in-place median), not by sorting; reorders and overwrites the array it is given.</summary>

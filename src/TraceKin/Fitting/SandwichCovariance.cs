@@ -8,7 +8,7 @@ namespace TraceKin.Fitting;
 /// the weights are right up to one common factor: where the runs' own standard errors misstate how far their rates
 /// actually scatter, and differently across the design, it says so.
 /// </summary>
-public static class SandwichCovariance
+internal static class SandwichCovariance
 {
     /// <summary>(JᵀWJ)⁻¹ for a Jacobian <paramref name="jac"/> (n × p, row-major) and weights <paramref name="w"/>
     /// (null: equal), or null when the design is singular (non-finite entries; a determinant threshold would scale with

@@ -26,7 +26,7 @@ public sealed record BinaryExportFormat(string Name, IReadOnlyList<string> Exten
 /// here (and its tests and docs). <see cref="ExportReader"/> dispatches on these lists, <see cref="IngestSettings"/>
 /// takes the <c>layout</c> values from them, and the series runner warns about unplanned files by their extensions.
 /// </summary>
-public static class ExportFormats
+internal static class ExportFormats
 {
     /// <summary>Tried first, on the raw bytes.</summary>
     public static IReadOnlyList<BinaryExportFormat> Binary { get; } =

@@ -42,7 +42,7 @@ public abstract class DesignLaw
 /// in play, k following Arrhenius (<see cref="Series.Arrhenius"/>, centred form). Parameters: k (at T_ref), n(X)…, Ea (J/mol).
 /// ∂v/∂k = v/k, ∂v/∂n = v·ln[X]0, ∂v/∂Ea = −v·(1/T − 1/T_ref)/R.
 /// </summary>
-public sealed class PowerLawDesign : DesignLaw
+internal sealed class PowerLawDesign : DesignLaw
 {
     private readonly string[] _species;
     private readonly string _kUnit;
@@ -96,7 +96,7 @@ public sealed class PowerLawDesign : DesignLaw
 /// v0 = Vmax·[S]0/(Km + [S]0)·Π[Y]0^m: the saturation law of <see cref="Series.SaturationModel"/> (same parameters, same
 /// analytic derivatives). Parameters: Vmax, Km (mol/L), n(Y)… for the co-reactants.
 /// </summary>
-public sealed class SaturationDesign : DesignLaw
+internal sealed class SaturationDesign : DesignLaw
 {
     private readonly string[] _co;
 

@@ -13,7 +13,7 @@ public sealed record DesignPoint(RunConditions Conditions, int Runs);
 /// best place given all the others — a scan of the whole range and a golden-section refinement around the best scanned
 /// level — until a full sweep improves nothing. Deterministic: no random starts.
 /// </summary>
-public static class DesignSearch
+internal static class DesignSearch
 {
     private const int ScanLevels = 41;
     private const int MaxSweeps = 40;

@@ -19,7 +19,7 @@ public sealed record SimulatedDesign(string Name, int Runs, IReadOnlyList<Simula
 /// that generated the rates is preferred by more than 2 AICc units (Burnham &amp; Anderson 2002, §2.6: within 2 units both
 /// laws have substantial support), a power law counting as preferred also when the saturation fit runs away.
 /// </summary>
-public static class DesignSimulation
+internal static class DesignSimulation
 {
     public static SimulatedDesign Run(string name, DesignLaw law, double[] theta, RateNoise noise, IReadOnlyList<RunConditions> runs,
         ModelSettings settings, int draws, int seed)

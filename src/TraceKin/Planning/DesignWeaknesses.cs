@@ -8,7 +8,7 @@ namespace TraceKin.Planning;
 /// starting concentrations that move together (<see cref="OrderDesign.Check"/>), a single temperature level or too narrow
 /// a temperature span, and a saturation series that never approaches saturation or never goes below Km.
 /// </summary>
-public static class DesignWeaknesses
+internal static class DesignWeaknesses
 {
     /// <summary>Span (largest/smallest [X]0) below which an order is poorly pinned: a span of about a decade is the usual aim
     /// (common practice, no source); below 3× it is said.</summary>

@@ -8,7 +8,7 @@ namespace TraceKin.Planning;
 /// with SAS, 2007, ch. 17, from memory). With those weights the fit's covariance is M⁻¹ to first order, so the standard
 /// errors a design will give are √diag(M⁻¹).
 /// </summary>
-public static class FisherInformation
+internal static class FisherInformation
 {
     public static Matrix<double> Of(DesignLaw law, ReadOnlySpan<double> theta, IEnumerable<RunConditions> runs, RateNoise noise)
     {

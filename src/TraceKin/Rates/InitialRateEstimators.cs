@@ -9,7 +9,7 @@ namespace TraceKin.Rates;
 /// (b) a polynomial (degree 2 or 3, by AICc) over the longer early window, differentiated at t0,
 /// (c) the derivative at t0 of the integrated-law fit chosen by AICc (delta-method error).
 /// </summary>
-public static class InitialRateEstimators
+internal static class InitialRateEstimators
 {
     /// <summary>
     /// (a) Straight line. Curvature test: fit c0 + c1·t + c2·t² over the window; while |c2| &gt; 2·SE(c2) (curvature

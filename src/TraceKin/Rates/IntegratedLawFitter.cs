@@ -23,7 +23,7 @@ public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenMo
 /// considerably less support for the simpler model); order n only when it beats every integer law by more than 10.
 /// Fits that did not converge take no part in the choice.
 /// </summary>
-public static class IntegratedLawFitter
+internal static class IntegratedLawFitter
 {
     /// <summary>Candidate laws for a trace: integer orders always; pseudo-first and mixed second order when the partner's [B]0 is known.</summary>
     public static IReadOnlyList<RateLaw> Candidates(double? a0, double? partner)

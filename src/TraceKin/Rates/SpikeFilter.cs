@@ -18,7 +18,7 @@ public sealed record Spike(int Index, double Time, double Value);
 /// The cutoff grows with the number of points so that a clean trace of any length rarely loses a sample: see
 /// <see cref="CutoffFor"/>.
 /// </summary>
-public static class SpikeFilter
+internal static class SpikeFilter
 {
     /// <summary>The smallest cutoff, for short traces: 3.5 after Iglewicz &amp; Hoaglin (1993), "How to Detect and
     /// Handle Outliers", from memory.</summary>

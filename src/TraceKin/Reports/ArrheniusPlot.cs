@@ -11,7 +11,7 @@ namespace TraceKin.Reports;
 /// (fitted on k, drawn in these coordinates), with its 95 % confidence band from the k_ref/Ea covariance (delta method).
 /// Written as plots/arrhenius.png.
 /// </summary>
-public sealed class ArrheniusPlot : ISeriesPlot
+internal sealed class ArrheniusPlot : ISeriesPlot
 {
     public const string FileName = "arrhenius.png";
 

@@ -8,7 +8,7 @@ namespace TraceKin.Reports;
 /// A dense scatter drawn as what it looks like at the plot's resolution: one vertical hairline per pixel column from
 /// the column's lowest to its highest value (see <see cref="Decimation.Band"/>), all in one draw call.
 /// </summary>
-public sealed class ColumnBandSeries : XYAxisSeries
+internal sealed class ColumnBandSeries : XYAxisSeries
 {
     public double[] X { get; init; } = [];
     public double[] Low { get; init; } = [];

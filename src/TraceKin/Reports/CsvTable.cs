@@ -19,7 +19,7 @@ public enum CsvStyle
 /// apostrophe in front (OWASP, "CSV Injection"); numbers are written round-trip exact ("R"), never neutralised, in
 /// the invariant culture — with a decimal comma instead of the point in <see cref="CsvStyle.DecimalComma"/>.
 /// </summary>
-public sealed class CsvTable : IDisposable
+internal sealed class CsvTable : IDisposable
 {
     private static readonly NumberFormatInfo CommaDecimals = new() { NumberDecimalSeparator = ",", NegativeSign = "-", PositiveSign = "+" };
     private readonly CsvWriter _writer;

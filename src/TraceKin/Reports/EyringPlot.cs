@@ -6,7 +6,7 @@ using TraceKin.Series;
 namespace TraceKin.Reports;
 
 /// <summary>The Eyring plot: ln(k/T) against 1/T with the fitted Eyring curve. Written as plots/eyring.png.</summary>
-public sealed class EyringPlot : ISeriesPlot
+internal sealed class EyringPlot : ISeriesPlot
 {
     public const string FileName = "eyring.png";
 

@@ -8,7 +8,7 @@ namespace TraceKin.Reports;
 /// messages cannot inject markup. It writes straight to a <see cref="TextWriter"/>, so a report with hundreds of embedded
 /// plots streams to its file instead of being held whole in memory.
 /// </summary>
-public sealed class Html
+internal sealed class Html
 {
     private readonly TextWriter _w;
 

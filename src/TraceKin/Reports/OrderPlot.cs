@@ -10,7 +10,7 @@ namespace TraceKin.Reports;
 /// fitted orders, each species centred on its geometric mean so that species decades apart share the axes, with the
 /// fitted line and its 95 % band. Written as plots/orders.png.
 /// </summary>
-public sealed class OrderPlot : ISeriesPlot
+internal sealed class OrderPlot : ISeriesPlot
 {
     public const string FileName = "orders.png";
 

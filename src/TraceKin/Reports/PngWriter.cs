@@ -12,7 +12,7 @@ namespace TraceKin.Reports;
 /// The image is lossless. About three times faster than the PNG encoder bundled with the drawing library for a
 /// plot (measured with `TraceKin.Bench render`, bench/README.md).
 /// </summary>
-public sealed class PngWriter
+internal sealed class PngWriter
 {
     private static ReadOnlySpan<byte> Signature => [0x89, (byte)'P', (byte)'N', (byte)'G', 0x0D, 0x0A, 0x1A, 0x0A];
 

@@ -10,7 +10,7 @@ namespace TraceKin.Reports;
 /// untransformed axes, with the power-law and saturation fits (the chosen law drawn solid, the other dashed). With
 /// varied co-reactants the rates are divided by their fitted power terms first. Written as plots/rate-concentration.png.
 /// </summary>
-public sealed class RateConcentrationPlot : ISeriesPlot
+internal sealed class RateConcentrationPlot : ISeriesPlot
 {
     public const string FileName = "rate-concentration.png";
 

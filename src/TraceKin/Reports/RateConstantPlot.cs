@@ -8,7 +8,7 @@ namespace TraceKin.Reports;
 /// k per run (v0/Π[X]0^n at the orders used, ±1 se) in plan order, with the series' k and its 95 % interval as a band:
 /// a run that stands apart shows at a glance. Written as plots/k-per-run.png.
 /// </summary>
-public sealed class RateConstantPlot : ISeriesPlot
+internal sealed class RateConstantPlot : ISeriesPlot
 {
     public const string FileName = "k-per-run.png";
 

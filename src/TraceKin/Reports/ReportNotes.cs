@@ -4,7 +4,7 @@ namespace TraceKin.Reports;
 /// The fixed prose of the HTML report: short method notes with their published sources, and the safety cautions.
 /// Kept apart from the layout so the wording can be reviewed on its own (docs/methods.md holds the full formulas).
 /// </summary>
-public static class ReportNotes
+internal static class ReportNotes
 {
     /// <summary>(topic, note with source). Plain text; the report escapes it.</summary>
     public static IReadOnlyList<(string Topic, string Note)> Methods { get; } =

@@ -4,7 +4,7 @@ namespace TraceKin.Reports;
 /// The report's stylesheet: plain and readable on screen, and a print layout with page margins that suit both A4 and
 /// US Letter, table rows and figures kept whole across page breaks, and plots scaled to the page width.
 /// </summary>
-public static class ReportStyle
+internal static class ReportStyle
 {
     public const string Css = """
 :root { --ink: #1f2328; --muted: #5b6470; --rule: #d8dce1; --soft: #f5f6f8; --bad: #9b1c1c; --bad-bg: #fdf0f0; --warn: #7a4b00; --warn-bg: #fff6e0; --ok: #1c6b3a; }

@@ -9,7 +9,7 @@ namespace TraceKin.Reports;
 /// "arrhenius", "eyring", "globalFit" (documented in docs/formats.md), mapped
 /// from <see cref="SeriesFindings"/> onto the records of SeriesModelRecords.cs. Absent results are null.
 /// </summary>
-public static class SeriesModelsJson
+internal static class SeriesModelsJson
 {
     internal static DesignRecord? Design(SeriesFindings? f) =>
         f?.Design is { } d ? new DesignRecord(d.Species, d.ConditionNumber, d.Separable, d.Confounded.Select(set => (IReadOnlyList<string>)set.ToList()).ToList()) : null;

@@ -17,7 +17,7 @@ public sealed record SettingUse(string Key, string Value, string Source);
 /// whether a key was written is seen in the text the settings were parsed from (<see cref="SeriesConfig.Text"/>; the
 /// file is not read again). Keys written in the file that map to no single setting (e.g. a unit key) are listed as written.
 /// </summary>
-public static class SettingsProvenance
+internal static class SettingsProvenance
 {
     private static readonly Dictionary<string, string> UnitOf = new(StringComparer.Ordinal)
     {

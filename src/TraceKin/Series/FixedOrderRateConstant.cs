@@ -9,7 +9,7 @@ namespace TraceKin.Series;
 /// (Draper &amp; Smith, Applied Regression Analysis, 3rd ed., §5.2). A single run gives k = v/x with se(v)/x and no
 /// interval (0 degrees of freedom).
 /// </summary>
-public static class FixedOrderRateConstant
+internal static class FixedOrderRateConstant
 {
     public static RateConstant? Fit(IReadOnlyList<RunPoint> runs, IReadOnlyDictionary<string, double> orders, List<Warning> warnings, string kind = "rounded", string where = "series")
     {

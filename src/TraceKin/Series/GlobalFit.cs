@@ -9,7 +9,7 @@ namespace TraceKin.Series;
 /// The followed species always gets an order (its depletion shapes each curve), as does every species whose [X]0 varies.
 /// Traces longer than <see cref="MaxPointsPerRun"/> are thinned to every m-th point so all runs weigh alike.
 /// </summary>
-public static class GlobalFit
+internal static class GlobalFit
 {
     public const int MaxPointsPerRun = 300;
 

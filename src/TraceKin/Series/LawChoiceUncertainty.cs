@@ -14,7 +14,7 @@ namespace TraceKin.Series;
 /// however many runs, k is not narrowed below what the law choice allows. (Taking the worst case over signs instead,
 /// Σ|H_ji|·s_i, covered the truth in 100 % of simulated series: far too wide.)
 /// </summary>
-public static class LawChoiceUncertainty
+internal static class LawChoiceUncertainty
 {
     /// <summary>u_sys for every parameter of a fit with Jacobian <paramref name="jac"/> (n × p, row-major), weights
     /// <paramref name="w"/> (null: equal), and per-run systematic errors <paramref name="s"/> (absolute, in rate units).

@@ -10,7 +10,7 @@ namespace TraceKin.Series;
 /// means some combination of species never varies: the species that carry weight in its right singular vector are
 /// confounded and get no order.
 /// </summary>
-public static class OrderDesign
+internal static class OrderDesign
 {
     /// <summary>Condition number above which the design is treated as singular.</summary>
     public const double SingularCondition = 1e8;

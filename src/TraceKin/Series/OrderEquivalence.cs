@@ -30,7 +30,7 @@ public sealed record OrderVerdict(string Species, double Order, double SimpleVal
 /// matters to the chemist, not about any difference at all: with enough runs an order of 1.0005 is "significantly"
 /// not 1, yet equivalent to 1 within ±0.05.
 /// </summary>
-public static class OrderEquivalence
+internal static class OrderEquivalence
 {
     /// <summary>Default practical margin on an order (docs/methods.md, "Verdicts on orders", says why ±0.05).</summary>
     public const double DefaultMargin = 0.05;

@@ -14,7 +14,7 @@ namespace TraceKin.Series;
 /// significant, so the warning needs the departure to matter too: the local order must change across the measured
 /// range by more than the practical margin on orders.
 /// </summary>
-public static class PowerLawCurvature
+internal static class PowerLawCurvature
 {
     public static IReadOnlyList<CurvatureCheck> Check(IReadOnlyList<RunPoint> runs, double[,] lnc, IReadOnlyList<string> varied,
         TemperatureGroups groups, double[]? rateWeights, List<Warning> warnings, double margin = OrderEquivalence.DefaultMargin)

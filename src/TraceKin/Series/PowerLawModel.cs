@@ -7,7 +7,7 @@ namespace TraceKin.Series;
 /// shared by all groups. Parameters: k_1..k_G, then n_1..n_m. Analytic Jacobian: ∂v/∂k_g = Π[X]^n (runs of group g),
 /// ∂v/∂n_j = v·ln[X_j]0.
 /// </summary>
-public sealed class PowerLawModel : IFitModel
+internal sealed class PowerLawModel : IFitModel
 {
     private readonly double[,] _lnc;
     private readonly int[] _group;

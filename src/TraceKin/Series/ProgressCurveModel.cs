@@ -9,7 +9,7 @@ namespace TraceKin.Series;
 /// settings; every other species with an order is taken as consumed 1:1 (ν = −1), as `tracekin simulate` does by
 /// default. Integrated by <see cref="Rosenbrock2"/>. Parameters: k_1..k_G, then n_1..n_m.
 /// </summary>
-public sealed class ProgressCurveModel : IFitModel
+internal sealed class ProgressCurveModel : IFitModel
 {
     private readonly IReadOnlyList<RunPoint> _runs;
     private readonly int[] _group, _offset;

@@ -9,7 +9,7 @@ namespace TraceKin.Series;
 /// implicit Euler) and the step is controlled by h_new = h·min(4, max(0.2, 0.9·(tol/err)^(1/2))) (Hairer &amp; Wanner,
 /// Solving ODEs II, §IV.8, from memory). Being linearly implicit it stays stable for stiff rate laws.
 /// </summary>
-public static class Rosenbrock2
+internal static class Rosenbrock2
 {
     private static readonly double Gamma = 1 + 1 / Math.Sqrt(2);
 

@@ -9,7 +9,7 @@ namespace TraceKin.Series;
 /// 2002, §2.4 and §2.9: evidence ratio exp(ΔAICc/2)). Both fits see the same rates and weights, so their AICc compare.
 /// The substrate is the configured one, or each varied species with ≥ 3 levels in turn (the best AICc is kept).
 /// </summary>
-public static class SaturationAnalysis
+internal static class SaturationAnalysis
 {
     /// <summary>Km beyond this multiple of the largest [S]0 means saturation was never approached in the series.</summary>
     public const double KmBeyondRange = 10;

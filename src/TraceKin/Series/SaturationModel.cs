@@ -7,7 +7,7 @@ namespace TraceKin.Series;
 /// v0 = Vmax·[S]0/(Km + [S]0)·Π_j [Y_j]0^m_j (Michaelis &amp; Menten 1913; Bates &amp; Watts 1988, §2.1).
 /// Parameters: Vmax, Km, then m_1..m_q. Analytic Jacobian.
 /// </summary>
-public sealed class SaturationModel : IFitModel
+internal sealed class SaturationModel : IFitModel
 {
     private readonly double[] _s;
     private readonly double[,] _lny;

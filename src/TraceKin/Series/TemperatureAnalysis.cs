@@ -8,7 +8,7 @@ namespace TraceKin.Series;
 /// (<see cref="FixedOrderRateConstant"/>), then the Arrhenius and Eyring laws fitted on those k by weighted nonlinear
 /// least squares (weights 1/se(k)², relative). Needs at least three temperatures (one degree of freedom).
 /// </summary>
-public static class TemperatureAnalysis
+internal static class TemperatureAnalysis
 {
     public const string ExtrapolationCaution =
         "Arrhenius and Eyring parameters describe only the measured temperature range; extrapolating k outside it (for example for thermal-safety or scale-up decisions) needs independent data at those temperatures and the judgement of a qualified, licensed professional";

@@ -31,7 +31,7 @@ public sealed record SetupRecord(IReadOnlyList<SetupCell> Cells, int Line, int E
 /// Numbers are not parsed here: the caller parses each cell with an explicit culture (a general reader's number
 /// parser accepts group separators, so "0,02" would read as 2).
 /// </summary>
-public sealed class SetupTable
+internal sealed class SetupTable
 {
     public required char Delimiter { get; init; }
     /// <summary>The first record that is not a comment or blank.</summary>

@@ -9,7 +9,7 @@ namespace TraceKin.Setup;
 /// (<c>calibration = { file = "std.csv" }</c>). A key that is not written is placed at its table's header (where it
 /// belongs), else at line 1, column 1.
 /// </summary>
-public static class TomlKeyLocation
+internal static class TomlKeyLocation
 {
     public static (int Line, int Column) Find(string text, string dottedKey)
     {

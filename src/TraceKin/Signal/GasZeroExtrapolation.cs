@@ -10,7 +10,7 @@ namespace TraceKin.Signal;
 /// the lost gas with the opposite sign and serves as the zero offset (a local polynomial extrapolated to t0, as the
 /// initial-rate estimator does; Savitzky &amp; Golay 1964, Anal. Chem. 36, 1627).
 /// </summary>
-public static class GasZeroExtrapolation
+internal static class GasZeroExtrapolation
 {
     /// <summary>Smallest number of samples fitted (three parameters and at least one degree of freedom more than two).</summary>
     public const int MinimumPoints = 6;

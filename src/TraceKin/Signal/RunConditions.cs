@@ -6,7 +6,7 @@ namespace TraceKin.Signal;
 /// A run's own conversion parameters: plan.csv columns (<see cref="Plan.ConditionNames"/>) override the series.toml
 /// values for that run only, and every constant the conversion prints says which of the two it came from.
 /// </summary>
-public static class RunConditions
+internal static class RunConditions
 {
     /// <summary>The plan.csv parameter columns a conversion kind reads; any other parameter column is an error for that kind.</summary>
     public static IReadOnlyList<string> UsedBy(SignalSettings s) => SignalKinds.Find(s.Kind)?.PlanConditions(s) ?? [];

@@ -15,7 +15,7 @@ public sealed record RunConversionResult(Trace Concentration, SignalModel Model,
 /// Applies a run's <see cref="SignalModel"/> to its export: picks the channel, subtracts a reference channel,
 /// converts point by point (with each point's temperature where that matters), and checks the result.
 /// </summary>
-public static class RunConversion
+internal static class RunConversion
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 

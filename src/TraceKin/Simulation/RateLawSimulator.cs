@@ -33,7 +33,7 @@ public sealed record SimulatedLaw(
 /// (Press et al., Numerical Recipes, 3rd ed., §17.1, from memory), using many small sub-steps per sample,
 /// so that simulated runs carry no closed-form assumption.
 /// </summary>
-public static class RateLawSimulator
+internal static class RateLawSimulator
 {
     /// <summary>Concentrations (mol/L) of every species at each sample time.</summary>
     public static Dictionary<string, double[]> Integrate(SimulatedLaw law, IReadOnlyDictionary<string, double> c0, double? temperatureK,

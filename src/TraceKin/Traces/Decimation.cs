@@ -5,7 +5,7 @@ namespace TraceKin.Traces;
 /// in time order, so the drawn envelope looks the same as drawing every point (common practice, no source).
 /// Sparse traces are returned whole.
 /// </summary>
-public static class Decimation
+internal static class Decimation
 {
     public static (double[] X, double[] Y) Envelope(ReadOnlySpan<double> x, ReadOnlySpan<double> y, int columns)
     {

@@ -6,7 +6,7 @@ namespace TraceKin.Traces;
 /// and the number without zeros ("A1"). Rows run A, B, … Z, AA, AB, … (the usual letter order on plates with more than
 /// 26 rows; common practice, no source).
 /// </summary>
-public static class WellName
+internal static class WellName
 {
     /// <summary>Largest column number accepted (a 1536-well plate has 48 columns).</summary>
     public const int MaxColumn = 48;

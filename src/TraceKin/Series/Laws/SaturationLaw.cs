@@ -6,7 +6,7 @@ namespace TraceKin.Series;
 /// The saturation law v0 = Vmax·[S]0/(Km + [S]0)·Π[Y]0^n (<see cref="SaturationModel"/>, fitted by
 /// <see cref="SaturationAnalysis"/>), for a series at one temperature (Km depends on temperature).
 /// </summary>
-public sealed class SaturationLaw : ISeriesLaw
+internal sealed class SaturationLaw : ISeriesLaw
 {
     public string Name => ModelSettings.Saturation;
 

@@ -4,7 +4,7 @@ namespace TraceKin.Series;
 /// The series-level rate laws, in one place: the power law (always fitted: the orders come from it) and the laws that
 /// compete with it by AICc. A new competing law is one file and one line in <see cref="Competitors"/>.
 /// </summary>
-public static class SeriesLaws
+internal static class SeriesLaws
 {
     /// <summary>The power law v0 = k·Π[X]0^n (<see cref="OrderAnalysis"/>), always fitted.</summary>
     public const string Power = ModelSettings.Power;

@@ -7,7 +7,7 @@ namespace TraceKin.Signal;
 /// kind = "absorbance": Beer–Lambert from ε and l (<see cref="BeerLambert"/>, other absorbers included), or, with a
 /// [signal.calibration] table, the standards' curve read backwards (<see cref="CalibratedConversion"/>).
 /// </summary>
-public sealed class AbsorbanceKind : ISignalKind
+internal sealed class AbsorbanceKind : ISignalKind
 {
     public string Name => "absorbance";
 

@@ -7,7 +7,7 @@ namespace TraceKin.Signal;
 /// calibrated, conductivity): the run's signal brought into the standards' unit, optionally temperature-compensated
 /// first, and the curve read backwards.
 /// </summary>
-public static class CalibratedConversion
+internal static class CalibratedConversion
 {
     /// <param name="run">The run.</param>
     /// <param name="quantity">The signal's quantity and internal unit, or null for the export channel's own (none without an export).</param>

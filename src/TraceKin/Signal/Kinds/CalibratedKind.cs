@@ -4,7 +4,7 @@ using TraceKin.Traces;
 namespace TraceKin.Signal;
 
 /// <summary>kind = "calibrated": any signal read through a [signal.calibration] table of standards (<see cref="CalibratedConversion"/>).</summary>
-public sealed class CalibratedKind : ISignalKind
+internal sealed class CalibratedKind : ISignalKind
 {
     public string Name => "calibrated";
 

@@ -9,7 +9,7 @@ namespace TraceKin.Signal;
 /// (<see cref="ConductivityConversion"/>), or, with a [signal.calibration] table, the standards' curve read after the
 /// optional temperature compensation.
 /// </summary>
-public sealed class ConductivityKind : ISignalKind
+internal sealed class ConductivityKind : ISignalKind
 {
     public string Name => "conductivity";
 

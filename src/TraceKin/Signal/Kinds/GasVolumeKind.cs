@@ -5,7 +5,7 @@ using TraceKin.Traces;
 namespace TraceKin.Signal;
 
 /// <summary>kind = "gas_volume": gas collected (over water or dry) read as a volume, converted by <see cref="GasOverWater"/>.</summary>
-public sealed class GasVolumeKind : ISignalKind
+internal sealed class GasVolumeKind : ISignalKind
 {
     public string Name => "gas_volume";
 

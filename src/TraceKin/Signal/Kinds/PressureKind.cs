@@ -5,7 +5,7 @@ using TraceKin.Traces;
 namespace TraceKin.Signal;
 
 /// <summary>kind = "pressure": the total pressure of a gas-phase reaction in a closed vessel, converted by <see cref="PressureConversion"/>.</summary>
-public sealed class PressureKind : ISignalKind
+internal sealed class PressureKind : ISignalKind
 {
     public string Name => "pressure";
 

@@ -3,7 +3,7 @@ using TraceKin.Traces;
 namespace TraceKin.Signal;
 
 /// <summary>The registered signal kinds, in one place: a new kind is one file and one line here.</summary>
-public static class SignalKinds
+internal static class SignalKinds
 {
     /// <summary>Every kind TraceKin converts, in the order errors and docs list them (and their keys are read).</summary>
     public static IReadOnlyList<ISignalKind> All { get; } =
