@@ -301,7 +301,11 @@ internal static class IntegratedLawFitter
     private static double BestPlainDriftScore(IEnumerable<(LawModel Model, FitResult Fit)> plain, double[] t, double[] w)
     {
         var best = plain.Where(r => r.Fit.Converged).OrderBy(r => r.Fit.AicC).FirstOrDefault();
-        return best.Fit is null || best.Fit.Residuals.Length != t.Length ? double.NaN : DriftScore(best.Model, best.Fit, t, w);
+        if (best.Fit is null || best.Fit.Residuals.Length != t.Length) return double.NaN;
+        // A law whose own terms already span a linear drift (zero order is a straight line) leaves no residual to test:
+        // the screen then fits the drift variant, but nothing here is evidence of a drift.
+        var score = DriftScore(best.Model, best.Fit, t, w);
+        return double.IsFinite(score) ? score : double.NaN;
     }
 
     /// <summary>Score statistic below which a law's drift variant is not fitted in "auto" mode (see <see cref="DriftScore"/>).</summary>
