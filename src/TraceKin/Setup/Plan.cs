@@ -113,6 +113,11 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
     [GeneratedRegex(@"^(?<name>[^\(\[]+?)\s*(?:[\(\[](?<unit>[^\)\]]*)[\)\]])?$")]
     private static partial Regex UnitHeader();
 
+    private static readonly IReadOnlyDictionary<string, string> NoText = new Dictionary<string, string>();
+    private static readonly IReadOnlyDictionary<string, double> NoNumbers = new Dictionary<string, double>();
+    private static readonly IReadOnlyDictionary<string, int> NoIndices = new Dictionary<string, int>();
+    private static readonly IReadOnlyDictionary<string, PlanCondition> NoConditions = new Dictionary<string, PlanCondition>();
+
     public static Plan FromFile(string path) =>
         FromText(System.IO.File.ReadAllText(path), System.IO.Path.GetFileName(path));
 
@@ -276,14 +281,16 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                 conc[sp] = v;
             }
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
-            rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
+            // A table the plan's columns leave empty is one shared empty table: a plan of 20,000 rows kept five per row.
+            rows.Add(new PlanRow(run, fileName, temp, conc, ex.Count == 0 ? NoText : ex, rec.Line)
             {
                 Role = role,
                 Group = groupCol >= 0 && rec[groupCol].Trimmed.Length > 0 ? rec[groupCol].Trimmed : null,
                 Subtract = subtractCol >= 0 && rec[subtractCol].Trimmed.Length > 0 ? rec[subtractCol].Trimmed : null,
                 SubtractCell = subtractCol >= 0 ? (rec[subtractCol].Line, rec[subtractCol].Column) : (0, 0),
                 Channel = channel, ChannelCell = channelCol >= 0 ? (rec[channelCol].Line, rec[channelCol].Column) : (0, 0),
-                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
+                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond.Count == 0 ? NoConditions : cond, InitialPressures = pressures.Count == 0 ? NoNumbers : pressures,
+                ConditionCells = condCells.Count == 0 ? NoIndices : condCells, ConditionLines = condLines.Count == 0 ? NoIndices : condLines,
             });
         }
         if (rows.Count == 0)
