@@ -173,6 +173,12 @@ if (args[0] == "memory")
         Console.WriteLine(string.Create(ci, $"heap_after_analyse_live_mb={after / 1e6:F1}"));
         Console.WriteLine(string.Create(ci, $"retained_bytes_per_run={(after - before) / (double)Math.Max(1, result.Runs.Count):F0}"));
         Console.WriteLine(string.Create(ci, $"peak_working_set_after_analyse_mb={proc.PeakWorkingSet64 / 1048576.0:F0}"));
+        void GcInfo(string when)
+        {
+            var info = GC.GetGCMemoryInfo(GCKind.Any);
+            Console.WriteLine(string.Create(ci, $"gc_{when}: heap_mb={info.HeapSizeBytes / 1e6:F1} fragmented_mb={info.FragmentedBytes / 1e6:F1} committed_mb={info.TotalCommittedBytes / 1e6:F1} gen0_budget_after_mb={info.GenerationInfo[0].SizeAfterBytes / 1e6:F1} gen0_before_mb={info.GenerationInfo[0].SizeBeforeBytes / 1e6:F1} max_committed_mb={GC.GetGCMemoryInfo(GCKind.Ephemeral).TotalCommittedBytes / 1e6:F1}"));
+        }
+        GcInfo("after_analyse");
         if (args.Contains("--breakdown"))
         {
             var walk = new HeapWalk();
@@ -190,13 +196,25 @@ if (args[0] == "memory")
             foreach (var (type, (bytes, count)) in walk.ByType.OrderByDescending(kv => kv.Value.Bytes).Take(35))
                 Console.WriteLine(string.Create(ci, $"type {type}: {bytes / n:F0} B/run, {count / n:F1} objects/run"));
         }
+        {
+            // The series stage again on the same per-run results: what it allocates and how much the heap grows meanwhile.
+            var points = result.Runs.Select(r => new TraceKin.Series.RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+            var allocated = GC.GetTotalAllocatedBytes(true);
+            var clock = Stopwatch.StartNew();
+            var findings = TraceKin.Series.OrderAnalysis.Analyse(points, config.Model);
+            Console.WriteLine(string.Create(ci, $"series_stage_again_seconds={clock.Elapsed.TotalSeconds:F3} allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocated) / 1e6:F1} findings_live_mb={(GC.GetTotalMemory(true) - after) / 1e6:F1}"));
+            GC.KeepAlive(findings);
+        }
         if (wait is not null)
         {
             Console.WriteLine($"pid={Environment.ProcessId} waiting for {wait}");
             while (!File.Exists(wait)) Thread.Sleep(200);
         }
         sw.Restart();
+        var allocatedBefore = GC.GetTotalAllocatedBytes(true);
         failed = outputs.Write(result);
+        Console.WriteLine(string.Create(ci, $"write_allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocatedBefore) / 1e6:F1}"));
+        GcInfo("after_write");
         Console.WriteLine(string.Create(ci, $"write_seconds={sw.Elapsed.TotalSeconds:F3}"));
     }
     Console.WriteLine(string.Create(ci, $"outputs_not_written={failed.Count}"));

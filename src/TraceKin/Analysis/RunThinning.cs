@@ -96,6 +96,8 @@ public static class RunThinning
             UncertaintyBudget = shared?.Budget(run.Converted.UncertaintyBudget) ?? run.Converted.UncertaintyBudget,
             Warnings = Warnings(run.Converted.Warnings),
         };
+        // Runs converted alike (the same constants, no warning of their own) keep one conversion record between them.
+        if (shared is not null) converted = shared.Conversion(converted);
         var estimates = new Dictionary<InitialRate, InitialRate>(ReferenceEqualityComparer.Instance);
         InitialRate StripRate(InitialRate r) =>
             estimates.TryGetValue(r, out var t) ? t : estimates[r] = r with { Fitted = [], Unit = Text(r.Unit), Method = Text(r.Method) };
@@ -121,6 +123,8 @@ public static class RunThinning
                     Covariance = null,
                 },
                 ExcludedBecause = f.ExcludedBecause is { } why ? (shared?.Text(why) ?? string.Intern(why)) : null,
+                // the runs test is in the per-run tables; no report or summary shows it for a kept fit
+                Runs = keepEveryFit ? f.Runs : null,
             }).ToArray(),
             HeadlineRule = Text(run.Rates.HeadlineRule),
             Unresolved = MaybeText(run.Rates.Unresolved),

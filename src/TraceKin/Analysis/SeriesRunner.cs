@@ -154,6 +154,9 @@ public static class SeriesRunner
             RateSystematicError = x.Run.Rates.Headline.ModelStdError,
         }).ToList();
         SeriesFindings? findings = null;
+        // The runs' stripped records were promoted among their full versions' garbage: one compacting collection packs
+        // them together before the series stage allocates (a few megabytes less at the peak of a 20,000-run batch).
+        if (options.CompactAfterRuns) GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
         var seriesClock = System.Diagnostics.Stopwatch.StartNew();
         try { findings = OrderAnalysis.Analyse(points, config.Model); }
         catch (Exception ex) when (ex is not OperationCanceledException)

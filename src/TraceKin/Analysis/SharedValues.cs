@@ -1,6 +1,7 @@
 using System.Collections.Concurrent;
 using System.Globalization;
 using System.Text;
+using TraceKin.Signal;
 using TraceKin.Traces;
 
 namespace TraceKin.Analysis;
@@ -67,6 +68,27 @@ internal sealed class SharedValues
 
     /// <summary>A trace without points, shared with every equal one.</summary>
     public Trace EmptyTrace(Trace trace) => EmptyTraces([trace])[0];
+
+    private readonly ConcurrentDictionary<ConvertedRun, ConvertedRun> _conversions = new(new SameConversion());
+
+    /// <summary>A conversion already stripped of its points and sharing its parts: one object for every equal one.</summary>
+    public ConvertedRun Conversion(ConvertedRun stripped) => _conversions.GetOrAdd(stripped, stripped);
+
+    /// <summary>Equal parts by reference (they are the shared copies), numbers by their bits (so 0 and −0 stay apart).</summary>
+    private sealed class SameConversion : IEqualityComparer<ConvertedRun>
+    {
+        public bool Equals(ConvertedRun? a, ConvertedRun? b) =>
+            ReferenceEquals(a, b) || (a is not null && b is not null && a.StdErrors is null && b.StdErrors is null
+                && ReferenceEquals(a.Concentration, b.Concentration) && a.Species == b.Species
+                && Bits(a.Coefficient) == Bits(b.Coefficient) && Bits(a.RelativeSystematicUncertainty) == Bits(b.RelativeSystematicUncertainty)
+                && ReferenceEquals(a.ConstantsUsed, b.ConstantsUsed) && ReferenceEquals(a.UncertaintyBudget, b.UncertaintyBudget)
+                && ReferenceEquals(a.Warnings, b.Warnings) && a.Equals(b)); // the record's own equality covers any later member
+
+        public int GetHashCode(ConvertedRun c) => HashCode.Combine(c.Species, Bits(c.Coefficient), Bits(c.RelativeSystematicUncertainty),
+            System.Runtime.CompilerServices.RuntimeHelpers.GetHashCode(c.ConstantsUsed));
+
+        private static long Bits(double x) => BitConverter.DoubleToInt64Bits(x);
+    }
 
     /// <summary>A list of warnings, shared when empty (the warnings themselves already share their codes and file names).</summary>
     public static IReadOnlyList<Warning> Warnings(IReadOnlyList<Warning> warnings) => warnings.Count == 0 ? [] : warnings;

@@ -191,6 +191,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         // A semicolon-delimited plan may use decimal commas; a comma-delimited one cannot.
         var culture = delimiter == ';' && LooksDecimalComma(table.Rows) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
         var rows = new List<PlanRow>();
+        var sameConc = new Dictionary<string, Dictionary<string, double>>(StringComparer.Ordinal);
         var seenRuns = new Dictionary<string, int>(StringComparer.Ordinal);
         var seenChannels = new Dictionary<(string File, string Channel), int>();
         foreach (var rec in table.Rows)
@@ -280,6 +281,10 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                 }
                 conc[sp] = v;
             }
+            // Rows planned at the same concentrations (replicates, a plate's conditions) share one table of them.
+            var concKey = string.Join("\u0001", conc.Select(kv => kv.Key.Length.ToString(CultureInfo.InvariantCulture) + ":" + kv.Key + "\u0002" + BitConverter.DoubleToInt64Bits(kv.Value).ToString(CultureInfo.InvariantCulture)));
+            if (sameConc.TryGetValue(concKey, out var seen)) conc = seen;
+            else sameConc[concKey] = conc;
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
             // A table the plan's columns leave empty is one shared empty table: a plan of 20,000 rows kept five per row.
             rows.Add(new PlanRow(run, fileName, temp, conc, ex.Count == 0 ? NoText : ex, rec.Line)
