@@ -31,7 +31,8 @@ public sealed record AnalysisOptions
     /// <summary>
     /// With <see cref="TraceRetention.None"/> and a run sink that writes every fit as the runs finish (the per-run
     /// tables), a series planned with more runs than this keeps of each run, once the sink has seen it, only the chosen
-    /// law's fit and any that did not converge, so memory stays flat however many runs there are. Default: keep all.
+    /// law's fit and any that did not converge (without their runs tests) and only the headline initial-rate estimate,
+    /// so memory stays flat however many runs there are. Default: keep all.
     /// </summary>
     public int KeepEveryFitUpTo { get; init; } = int.MaxValue;
     /// <summary>
