@@ -22,10 +22,16 @@ using TraceKin.Traces;
 //   TraceKin.Bench phases SERIES --out DIR [--plots] [--full]
 //                                                the library path of `analyse` (no logging): time of the parallel
 //                                                run stage and of each series writer, managed heap and GC counts
+//   TraceKin.Bench memory SERIES --out DIR [--plots] [--wait FILE] [--breakdown]
+//                                                the path of `analyse` (its options and SeriesOutputs, no logging):
+//                                                live managed heap before and after the analysis (bytes a run
+//                                                retains), after the outputs, and the peak working set; --wait
+//                                                pauses after the analysis until FILE exists (for dotnet-gcdump);
+//                                                --breakdown lists the bytes the result holds by path and by type
 // Output is `key=value` lines on stdout so that bench/batch.sh can pick the numbers up.
-if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases" or "ingest"))
+if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases" or "ingest" or "memory"))
 {
-    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render|phases|ingest SERIES [--workers N] [--out DIR] [--full] [--repeat N]");
+    Console.Error.WriteLine("usage: TraceKin.Bench parse|stages|render|phases|ingest|memory SERIES [--workers N] [--out DIR] [--full] [--repeat N]");
     return 2;
 }
 var folder = args[1];
@@ -133,6 +139,91 @@ if (args[0] == "ingest")
     Console.WriteLine(string.Create(ci, $"best_process_cpu_ms_per_file={bestCpu:F3}"));
     Console.WriteLine(string.Create(ci, $"load_average={File.ReadAllText("/proc/loadavg").Split(' ')[0]}"));
     Console.WriteLine($"digest={digest}");
+    return 0;
+}
+
+if (args[0] == "memory")
+{
+    outDir ??= Path.Combine(Path.GetTempPath(), "tracekin-bench-memory");
+    Directory.CreateDirectory(outDir);
+    string? wait = null;
+    for (var i = 2; i < args.Length - 1; i++)
+        if (args[i] == "--wait") wait = args[i + 1];
+    var proc = Process.GetCurrentProcess();
+    var before = GC.GetTotalMemory(true);
+    var sw = Stopwatch.StartNew();
+    SeriesResult result;
+    IReadOnlyList<OutputFailure> failed;
+    using (var outputs = new SeriesOutputs(outDir, plotsWanted))
+    {
+        // as AnalyseCommand.Analyse sets them
+        result = SeriesRunner.Analyse(folder, new AnalysisOptions
+        {
+            Workers = workers,
+            RunSink = outputs.RunSink,
+            Retention = TraceRetention.None,
+            KeepEveryFitUpTo = ReportHtml.MaxListedRuns,
+        });
+        var analysed = sw.Elapsed.TotalSeconds;
+        var after = GC.GetTotalMemory(true);
+        proc.Refresh();
+        Console.WriteLine(string.Create(ci, $"runs={result.Runs.Count}"));
+        Console.WriteLine(string.Create(ci, $"analyse_seconds={analysed:F3}"));
+        Console.WriteLine(string.Create(ci, $"heap_before_mb={before / 1e6:F1}"));
+        Console.WriteLine(string.Create(ci, $"heap_after_analyse_live_mb={after / 1e6:F1}"));
+        Console.WriteLine(string.Create(ci, $"retained_bytes_per_run={(after - before) / (double)Math.Max(1, result.Runs.Count):F0}"));
+        Console.WriteLine(string.Create(ci, $"peak_working_set_after_analyse_mb={proc.PeakWorkingSet64 / 1048576.0:F0}"));
+        void GcInfo(string when)
+        {
+            var info = GC.GetGCMemoryInfo(GCKind.Any);
+            Console.WriteLine(string.Create(ci, $"gc_{when}: heap_mb={info.HeapSizeBytes / 1e6:F1} fragmented_mb={info.FragmentedBytes / 1e6:F1} committed_mb={info.TotalCommittedBytes / 1e6:F1} gen0_budget_after_mb={info.GenerationInfo[0].SizeAfterBytes / 1e6:F1} gen0_before_mb={info.GenerationInfo[0].SizeBeforeBytes / 1e6:F1} max_committed_mb={GC.GetGCMemoryInfo(GCKind.Ephemeral).TotalCommittedBytes / 1e6:F1}"));
+        }
+        GcInfo("after_analyse");
+        if (args.Contains("--breakdown"))
+        {
+            var walk = new HeapWalk();
+            foreach (var run in result.Runs) walk.Walk(run, "run");
+            if (result.Plan is { } p) walk.Walk(p, "plan");
+            if (result.Findings is { } f) walk.Walk(f, "findings");
+            walk.Walk(result.Warnings, "warnings");
+            walk.Walk(result.Replicates, "replicates");
+            var n = (double)Math.Max(1, result.Runs.Count);
+            Console.WriteLine(string.Create(ci, $"walked_mb={walk.Bytes / 1e6:F1}"));
+            foreach (var (path, (bytes, count)) in walk.ByPath.OrderByDescending(kv => kv.Value.Bytes).Take(45))
+                Console.WriteLine(string.Create(ci, $"path {path}: {bytes / n:F0} B/run, {count / n:F1} objects/run"));
+            foreach (var (path, (bytes, count)) in walk.RepeatedText.OrderByDescending(kv => kv.Value.Bytes).Take(20))
+                Console.WriteLine(string.Create(ci, $"repeated text {path}: {bytes / n:F0} B/run, {count / n:F1} strings/run"));
+            foreach (var (type, (bytes, count)) in walk.ByType.OrderByDescending(kv => kv.Value.Bytes).Take(35))
+                Console.WriteLine(string.Create(ci, $"type {type}: {bytes / n:F0} B/run, {count / n:F1} objects/run"));
+        }
+        {
+            // The series stage again on the same per-run results: what it allocates and how much the heap grows meanwhile.
+            var points = result.Runs.Select(r => new TraceKin.Series.RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+            var allocated = GC.GetTotalAllocatedBytes(true);
+            var clock = Stopwatch.StartNew();
+            var findings = TraceKin.Series.OrderAnalysis.Analyse(points, config.Model);
+            Console.WriteLine(string.Create(ci, $"series_stage_again_seconds={clock.Elapsed.TotalSeconds:F3} allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocated) / 1e6:F1} findings_live_mb={(GC.GetTotalMemory(true) - after) / 1e6:F1}"));
+            GC.KeepAlive(findings);
+        }
+        if (wait is not null)
+        {
+            Console.WriteLine($"pid={Environment.ProcessId} waiting for {wait}");
+            while (!File.Exists(wait)) Thread.Sleep(200);
+        }
+        sw.Restart();
+        var allocatedBefore = GC.GetTotalAllocatedBytes(true);
+        failed = outputs.Write(result);
+        Console.WriteLine(string.Create(ci, $"write_allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocatedBefore) / 1e6:F1}"));
+        GcInfo("after_write");
+        Console.WriteLine(string.Create(ci, $"write_seconds={sw.Elapsed.TotalSeconds:F3}"));
+    }
+    Console.WriteLine(string.Create(ci, $"outputs_not_written={failed.Count}"));
+    Console.WriteLine(string.Create(ci, $"heap_after_write_live_mb={GC.GetTotalMemory(true) / 1e6:F1}"));
+    proc.Refresh();
+    Console.WriteLine(string.Create(ci, $"peak_working_set_mb={proc.PeakWorkingSet64 / 1048576.0:F0}"));
+    Console.WriteLine(string.Create(ci, $"gc_counts={GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}"));
+    Console.WriteLine(string.Create(ci, $"load_average={File.ReadAllText("/proc/loadavg").Split(' ')[0]}"));
+    GC.KeepAlive(result);
     return 0;
 }
 

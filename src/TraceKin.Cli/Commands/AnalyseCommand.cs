@@ -152,10 +152,13 @@ public static class AnalyseCommand
             Retention = TraceRetention.None,
             // The per-run tables hold every fit; beyond the runs the report lists fit by fit, the result keeps the chosen.
             KeepEveryFitUpTo = ReportHtml.MaxListedRuns,
+            CompactAfterRuns = true,
             Progress = progress.Report,
             Planned = progress.Planned,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
+        // The series stage's working arrays are garbage now: collected and the heap packed before the writers allocate.
+        GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
         var outputsClock = System.Diagnostics.Stopwatch.StartNew();
         // Every series output, the report last; one that fails is listed in the report and here, the others are written.
         var notWritten = outputs.Write(result);

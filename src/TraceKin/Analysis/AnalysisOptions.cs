@@ -31,9 +31,16 @@ public sealed record AnalysisOptions
     /// <summary>
     /// With <see cref="TraceRetention.None"/> and a run sink that writes every fit as the runs finish (the per-run
     /// tables), a series planned with more runs than this keeps of each run, once the sink has seen it, only the chosen
-    /// law's fit and any that did not converge, so memory stays flat however many runs there are. Default: keep all.
+    /// law's fit and any that did not converge (without their runs tests) and only the headline initial-rate estimate,
+    /// so memory stays flat however many runs there are. Default: keep all.
     /// </summary>
     public int KeepEveryFitUpTo { get; init; } = int.MaxValue;
+    /// <summary>
+    /// One blocking, compacting collection of the managed heap once the per-run stages are done, before the series
+    /// stage: what the runs keep then lies packed rather than among the garbage of their full versions, which lowers
+    /// the peak memory of a large batch (bench/README.md, "Batch speed"). For the command line; off by default.
+    /// </summary>
+    public bool CompactAfterRuns { get; init; }
     /// <summary>Pixel columns of the display copy kept under <see cref="TraceRetention.Display"/> (at most 4 points per column).</summary>
     public int RetainedColumns { get; init; } = 200;
     /// <summary>

@@ -63,31 +63,74 @@ internal static class RunThinning
 
     /// <summary>The run without per-point arrays (see <see cref="TraceRetention.None"/>).</summary>
     /// <param name="keepEveryFit">False: only the chosen fit and the fits that did not converge are kept (their notes
-    /// are reported); the others were written by the run sink.</param>
-    public static RunResult Strip(RunResult run, bool keepEveryFit = true)
+    /// are reported), and of the initial-rate estimates only the headline; the others were written by the run sink.</param>
+    public static RunResult Strip(RunResult run, bool keepEveryFit = true) => Strip(run, keepEveryFit, null);
+
+    /// <param name="shared">One copy of each value that repeats between runs (texts, pairs, emptied traces), kept for
+    /// the whole analysis; null: the run keeps its own.</param>
+    internal static RunResult Strip(RunResult run, bool keepEveryFit, SharedValues? shared)
     {
+        string Text(string t) => shared?.Text(t) ?? t;
+        string? MaybeText(string? t) => t is null ? null : Text(t);
         static Trace Empty(Trace t) => t with { Times = [], Values = [] };
+        IReadOnlyList<Trace> EmptyAll(IReadOnlyList<Trace> ts) => shared?.EmptyTraces(ts) ?? ts.Select(Empty).ToArray();
+        IReadOnlyList<Warning> Warnings(IReadOnlyList<Warning> w) => shared is null ? w : SharedValues.Warnings(w);
+        // A name equal to the run's file is the plan row's own string.
+        string File(string f) => f == run.Plan.File ? run.Plan.File : f;
+
         var export = run.Export with
         {
-            Channels = run.Export.Channels.Select(Empty).ToArray(),
-            Auxiliary = run.Export.Auxiliary.Select(Empty).ToArray(),
+            File = File(run.Export.File),
+            Channels = EmptyAll(run.Export.Channels),
+            Auxiliary = EmptyAll(run.Export.Auxiliary),
+            Metadata = shared?.Metadata(run.Export.Metadata) ?? run.Export.Metadata,
+            Detected = shared?.Pairs(run.Export.Detected) ?? run.Export.Detected,
+            Warnings = Warnings(run.Export.Warnings),
         };
-        var converted = run.Converted with { Concentration = Empty(run.Converted.Concentration), StdErrors = null };
+        var converted = run.Converted with
+        {
+            Concentration = shared?.EmptyTrace(run.Converted.Concentration) ?? Empty(run.Converted.Concentration),
+            StdErrors = null,
+            Species = Text(run.Converted.Species),
+            ConstantsUsed = shared?.Pairs(run.Converted.ConstantsUsed) ?? run.Converted.ConstantsUsed,
+            UncertaintyBudget = shared?.Budget(run.Converted.UncertaintyBudget) ?? run.Converted.UncertaintyBudget,
+            Warnings = Warnings(run.Converted.Warnings),
+        };
+        // Runs converted alike (the same constants, no warning of their own) keep one conversion record between them.
+        if (shared is not null) converted = shared.Conversion(converted);
         var estimates = new Dictionary<InitialRate, InitialRate>(ReferenceEqualityComparer.Instance);
-        InitialRate StripRate(InitialRate r) => estimates.TryGetValue(r, out var t) ? t : estimates[r] = r with { Fitted = [] };
+        InitialRate StripRate(InitialRate r) =>
+            estimates.TryGetValue(r, out var t) ? t : estimates[r] = r with { Fitted = [], Unit = Text(r.Unit), Method = Text(r.Method) };
+        var headline = StripRate(run.Rates.Headline);
         var rates = run.Rates with
         {
-            Estimates = run.Rates.Estimates.Select(StripRate).ToArray(),
-            Headline = StripRate(run.Rates.Headline),
+            // Beyond the threshold the per-run tables hold every estimate; the result keeps the headline (the same object).
+            Estimates = run.Rates.Estimates.Where(e => keepEveryFit || ReferenceEquals(e, run.Rates.Headline)).Select(StripRate).ToArray(),
+            Headline = headline,
             // The covariances served the initial-rate errors, already computed; the reasons a fit took no part repeat
             // from run to run, so one copy of each text is kept (at 20,000 runs this is most of what a run retains).
             Fits = run.Rates.Fits.Where(f => keepEveryFit || f.Chosen || !f.Fit.Converged).Select(f => f with
             {
+                Law = Text(f.Law),
+                RateConstantUnit = Text(f.RateConstantUnit),
                 Fitted = [],
-                Fit = f.Fit with { Residuals = [], Covariance = null },
-                ExcludedBecause = f.ExcludedBecause is { } why ? string.Intern(why) : null,
+                Fit = f.Fit with
+                {
+                    Model = Text(f.Fit.Model),
+                    ExitDetail = Text(f.Fit.ExitDetail),
+                    Parameters = shared is null ? f.Fit.Parameters : f.Fit.Parameters.Select(p => p with { Name = Text(p.Name) }).ToArray(),
+                    Residuals = [],
+                    Covariance = null,
+                },
+                ExcludedBecause = f.ExcludedBecause is { } why ? (shared?.Text(why) ?? string.Intern(why)) : null,
+                // the runs test is in the per-run tables; no report or summary shows it for a kept fit
+                Runs = keepEveryFit ? f.Runs : null,
             }).ToArray(),
+            HeadlineRule = Text(run.Rates.HeadlineRule),
+            Unresolved = MaybeText(run.Rates.Unresolved),
+            Spikes = run.Rates.Spikes.Count == 0 && shared is not null ? [] : run.Rates.Spikes,
+            Warnings = Warnings(run.Rates.Warnings),
         };
-        return run with { Export = export, Converted = converted, Rates = rates, TracesThinned = true };
+        return run with { Export = export, Converted = converted, Rates = rates, Warnings = Warnings(run.Warnings), TracesThinned = true };
     }
 }

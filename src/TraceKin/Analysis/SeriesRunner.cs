@@ -71,6 +71,8 @@ public static class SeriesRunner
         var exports = new SharedExports(folder, plan, config, options);
         var byRun = options.Reuse is null ? null : plan.Rows.ToDictionary(r => r.Run, StringComparer.Ordinal);
         var madeBlanks = new ConcurrentDictionary<string, BlankSubtraction>(StringComparer.Ordinal);
+        // The runs kept without their points share one copy of every value that repeats between them.
+        var shared = options.Retention == TraceRetention.None ? new SharedValues() : null;
         Parallel.ForEach(order, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, options.Workers), CancellationToken = cancel }, i =>
         {
             var row = plan.Rows[i];
@@ -100,7 +102,7 @@ public static class SeriesRunner
                     // Only the global fit (model.global_fit) reads the traces again: without it, none is kept.
                     if (config.Model.GlobalFit) fitTrace = GlobalFit.Thin(SeriesTrace(run));
                     run = options.Retention == TraceRetention.None
-                        ? RunThinning.Strip(run, keepEveryFit: options.RunSink is null || plan.Rows.Count <= options.KeepEveryFitUpTo)
+                        ? RunThinning.Strip(run, keepEveryFit: options.RunSink is null || plan.Rows.Count <= options.KeepEveryFitUpTo, shared)
                         : RunThinning.Thin(run, options.RetainedColumns);
                 }
             }
@@ -152,6 +154,9 @@ public static class SeriesRunner
             RateSystematicError = x.Run.Rates.Headline.ModelStdError,
         }).ToList();
         SeriesFindings? findings = null;
+        // The runs' stripped records were promoted among their full versions' garbage: one compacting collection packs
+        // them together before the series stage allocates (a few megabytes less at the peak of a 20,000-run batch).
+        if (options.CompactAfterRuns) GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
         var seriesClock = System.Diagnostics.Stopwatch.StartNew();
         try { findings = OrderAnalysis.Analyse(points, config.Model); }
         catch (Exception ex) when (ex is not OperationCanceledException)

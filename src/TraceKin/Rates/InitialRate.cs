@@ -19,10 +19,10 @@ public sealed record InitialRate(
     double ConcentrationAtZero,
     double[] Fitted)
 {
-    private ModelCurve _fitted = new(Fitted);
+    private ModelCurve _fitted = ModelCurve.Of(Fitted);
 
     /// <summary>The estimator's model at the points it used; a law's curve is evaluated when first asked for.</summary>
-    public double[] Fitted { get => _fitted.Values; init => _fitted = new ModelCurve(value); }
+    public double[] Fitted { get => _fitted.Values; init => _fitted = ModelCurve.Of(value); }
 
     /// <summary>Sets <see cref="Fitted"/> to be computed on first use.</summary>
     internal Func<double[]> FittedBy { init => _fitted = new ModelCurve(value); }

@@ -11,7 +11,7 @@ public sealed record LawFit(string Law, FitResult Fit, bool Chosen)
 
     /// <summary>The model at every trace time, evaluated when first asked for (a plot, the spike check): a batch
     /// without plots never pays for it.</summary>
-    public double[] Fitted { get => _fitted.Values; init => _fitted = new ModelCurve(value); }
+    public double[] Fitted { get => _fitted.Values; init => _fitted = ModelCurve.Of(value); }
 
     /// <summary>Sets <see cref="Fitted"/> to be computed on first use.</summary>
     internal Func<double[]> FittedBy { init => _fitted = new ModelCurve(value); }
@@ -46,6 +46,8 @@ internal sealed class ModelCurve
     private readonly Lazy<double[]> _values;
     public ModelCurve(double[] values) => _values = new Lazy<double[]>(values);
     public ModelCurve(Func<double[]> compute) => _values = new Lazy<double[]>(compute, LazyThreadSafetyMode.ExecutionAndPublication);
+    /// <summary>Given values; no points is the one shared empty curve (a run kept without its points holds no copy).</summary>
+    public static ModelCurve Of(double[] values) => values.Length == 0 ? Empty : new ModelCurve(values);
     public double[] Values => _values.Value;
 }
 

@@ -29,12 +29,15 @@ public static class ReportHtml
 
     /// <summary>Writes report.html into <paramref name="outDir"/>; <paramref name="plots"/> null leaves the plots out (analyse --no-plots).</summary>
     public static void Write(SeriesResult result, string outDir, ReportPlots? plots) =>
-        AtomicFile.Write(Path.Combine(outDir, FileName), stream =>
-        {
-            using var writer = new StreamWriter(stream, new System.Text.UTF8Encoding(false), 1 << 16, leaveOpen: true);
-            Render(result, plots, new Html(writer));
-            writer.Flush();
-        }, root: outDir);
+        AtomicFile.Write(Path.Combine(outDir, FileName), stream => WriteTo(result, plots, stream), root: outDir);
+
+    /// <summary>The page streamed to <paramref name="stream"/> as UTF-8 (no byte order mark), never held whole in memory.</summary>
+    public static void WriteTo(SeriesResult result, ReportPlots? plots, Stream stream)
+    {
+        using var writer = new StreamWriter(stream, new System.Text.UTF8Encoding(false), 1 << 16, leaveOpen: true);
+        Render(result, plots, new Html(writer));
+        writer.Flush();
+    }
 
     /// <summary>The page as text; <paramref name="plots"/> null leaves the plots out (analyse --no-plots).</summary>
     public static string Render(SeriesResult r, ReportPlots? plots)

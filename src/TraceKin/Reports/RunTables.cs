@@ -180,6 +180,8 @@ public sealed class RunTables : IRunSink, ISeriesReportWriter, IDisposable
                     Append(later);
                     _next++;
                 }
+                // every slot is written: the run names are not needed to place rows any more
+                if (_next == _slots) _slotOf = null;
             }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException) { Fail(ex); }
         }

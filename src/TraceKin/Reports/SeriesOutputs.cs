@@ -99,21 +99,36 @@ public sealed class SeriesOutputs : IDisposable
         if (_queue is not null)
             foreach (var (path, error) in _queue.Complete()) Failed(Relative(path), error);
         // The report last: it embeds the plots drawn above and lists every output that is missing. While the numbers
-        // are still being written (a large summary.json) the page is drawn in memory meanwhile, and drawn again only
-        // if one of them then fails, so the page can name it.
+        // are still being written (a large summary.json) the page is streamed meanwhile into its temporary file (never
+        // held whole in memory), renamed into place once they are done, and drawn again only if one of them then
+        // fails, so the page can name it.
         var numbersDone = Task.WhenAll(numbers);
-        byte[]? page = null;
+        PendingFile? page = null;
         var failedBefore = _failures.Count;
         if (!numbersDone.IsCompleted)
         {
-            try { page = new System.Text.UTF8Encoding(false).GetBytes(ReportHtml.Render(Shown(result), Images)); }
-            catch (Exception ex) when (ex is not OperationCanceledException) { page = null; } // drawn again below, and recorded there if it fails again
+            try
+            {
+                page = AtomicFile.Begin(Path.Combine(_outDir, ReportHtml.FileName), _outDir);
+                ReportHtml.WriteTo(Shown(result), Images, page.Stream);
+            }
+            catch (Exception ex) when (ex is not OperationCanceledException)
+            {
+                page?.Dispose(); // drawn again below, and recorded there if it fails again
+                page = null;
+            }
         }
         numbersDone.Wait();
-        if (page is not null && _failures.Count == failedBefore)
-            Contain(ReportHtml.FileName, () => AtomicFile.WriteAllBytes(Path.Combine(_outDir, ReportHtml.FileName), page, root: _outDir));
-        else
-            Contain(ReportHtml.FileName, () => ReportHtml.Write(Shown(result), _outDir, Images));
+        using (page)
+        {
+            if (page is not null && _failures.Count == failedBefore)
+                Contain(ReportHtml.FileName, page.Commit);
+            else
+            {
+                page?.Dispose();
+                Contain(ReportHtml.FileName, () => ReportHtml.Write(Shown(result), _outDir, Images));
+            }
+        }
         return Sorted();
     }
 

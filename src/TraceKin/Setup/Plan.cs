@@ -113,6 +113,11 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
     [GeneratedRegex(@"^(?<name>[^\(\[]+?)\s*(?:[\(\[](?<unit>[^\)\]]*)[\)\]])?$")]
     private static partial Regex UnitHeader();
 
+    private static readonly IReadOnlyDictionary<string, string> NoText = new Dictionary<string, string>();
+    private static readonly IReadOnlyDictionary<string, double> NoNumbers = new Dictionary<string, double>();
+    private static readonly IReadOnlyDictionary<string, int> NoIndices = new Dictionary<string, int>();
+    private static readonly IReadOnlyDictionary<string, PlanCondition> NoConditions = new Dictionary<string, PlanCondition>();
+
     public static Plan FromFile(string path) =>
         FromText(System.IO.File.ReadAllText(path), System.IO.Path.GetFileName(path));
 
@@ -186,6 +191,7 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
         // A semicolon-delimited plan may use decimal commas; a comma-delimited one cannot.
         var culture = delimiter == ';' && LooksDecimalComma(table.Rows) ? CultureInfo.GetCultureInfo("de-DE") : CultureInfo.InvariantCulture;
         var rows = new List<PlanRow>();
+        var sameConc = new Dictionary<string, Dictionary<string, double>>(StringComparer.Ordinal);
         var seenRuns = new Dictionary<string, int>(StringComparer.Ordinal);
         var seenChannels = new Dictionary<(string File, string Channel), int>();
         foreach (var rec in table.Rows)
@@ -275,15 +281,21 @@ public sealed partial record Plan(string File, IReadOnlyList<PlanRow> Rows, IRea
                 }
                 conc[sp] = v;
             }
+            // Rows planned at the same concentrations (replicates, a plate's conditions) share one table of them.
+            var concKey = string.Join("\u0001", conc.Select(kv => kv.Key.Length.ToString(CultureInfo.InvariantCulture) + ":" + kv.Key + "\u0002" + BitConverter.DoubleToInt64Bits(kv.Value).ToString(CultureInfo.InvariantCulture)));
+            if (sameConc.TryGetValue(concKey, out var seen)) conc = seen;
+            else sameConc[concKey] = conc;
             var ex = extra.ToDictionary(e => e.Name, e => rec[e.Col].Trimmed, StringComparer.Ordinal);
-            rows.Add(new PlanRow(run, fileName, temp, conc, ex, rec.Line)
+            // A table the plan's columns leave empty is one shared empty table: a plan of 20,000 rows kept five per row.
+            rows.Add(new PlanRow(run, fileName, temp, conc, ex.Count == 0 ? NoText : ex, rec.Line)
             {
                 Role = role,
                 Group = groupCol >= 0 && rec[groupCol].Trimmed.Length > 0 ? rec[groupCol].Trimmed : null,
                 Subtract = subtractCol >= 0 && rec[subtractCol].Trimmed.Length > 0 ? rec[subtractCol].Trimmed : null,
                 SubtractCell = subtractCol >= 0 ? (rec[subtractCol].Line, rec[subtractCol].Column) : (0, 0),
                 Channel = channel, ChannelCell = channelCol >= 0 ? (rec[channelCol].Line, rec[channelCol].Column) : (0, 0),
-                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond, InitialPressures = pressures, ConditionCells = condCells, ConditionLines = condLines,
+                FileColumn = rec[fileCol].Column, FileLine = rec[fileCol].Line, Conditions = cond.Count == 0 ? NoConditions : cond, InitialPressures = pressures.Count == 0 ? NoNumbers : pressures,
+                ConditionCells = condCells.Count == 0 ? NoIndices : condCells, ConditionLines = condLines.Count == 0 ? NoIndices : condLines,
             });
         }
         if (rows.Count == 0)

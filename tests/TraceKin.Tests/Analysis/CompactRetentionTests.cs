@@ -36,6 +36,33 @@ public sealed class CompactRetentionTests
     }
 
     [Fact]
+    public void Beyond_the_threshold_a_kept_run_holds_its_headline_estimate_and_shares_what_repeats_between_runs()
+    {
+        using var outDir = new RepoPaths.TempDir();
+        using var tables = new RunTables(outDir.Path);
+        var compact = SeriesRunner.Analyse(RepoPaths.Sample("violet-complex-acid"), new AnalysisOptions { Workers = 2, Retention = TraceRetention.None, KeepEveryFitUpTo = 4, RunSink = tables });
+        tables.Write(compact, outDir.Path);
+        var runs = compact.Runs;
+        Assert.True(runs.Count >= 2);
+        foreach (var r in runs)
+        {
+            // the other estimates are in initial-rates.csv, the runs test in law-fits.csv
+            Assert.Same(r.Rates.Headline, Assert.Single(r.Rates.Estimates));
+            Assert.All(r.Rates.Fits, f => Assert.Null(f.Runs));
+            Assert.Empty(r.Converted.Concentration.Values);
+        }
+        // equal values are one object: the format decisions, the headline's method text, the emptied concentration trace
+        var (a, b) = (runs[0], runs[1]);
+        Assert.Equal(a.Export.Detected, b.Export.Detected);
+        Assert.Same(a.Export.Detected, b.Export.Detected);
+        if (a.Rates.Headline.Method == b.Rates.Headline.Method) Assert.Same(a.Rates.Headline.Method, b.Rates.Headline.Method);
+        if (a.Converted.Concentration == b.Converted.Concentration) Assert.Same(a.Converted.Concentration, b.Converted.Concentration);
+        // initial-rates.csv still has every estimate of every run (one row each, after the header)
+        var rows = File.ReadAllLines(Path.Combine(outDir.Path, RunTables.RatesFile)).Length - 1;
+        Assert.True(rows > runs.Count, $"{rows} estimate rows for {runs.Count} runs");
+    }
+
+    [Fact]
     public void Without_a_sink_every_fit_is_kept_however_large_the_series()
     {
         var r = SeriesRunner.Analyse(RepoPaths.Sample("violet-complex-acid"), new AnalysisOptions { Workers = 2, Retention = TraceRetention.None, KeepEveryFitUpTo = 4 });
