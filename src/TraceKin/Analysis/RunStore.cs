@@ -45,7 +45,7 @@ public sealed class RunStore
     {
         if (config.Signal.Calibration?.File is not null || config.Text is null) return null;
         var sb = new StringBuilder();
-        sb.Append(Hash(config.Text)).Append('\n');
+        sb.Append(SettingsHash(config.Text)).Append('\n');
         foreach (var r in blanks.Prepend(row))
         {
             if (!_shas.TryGetValue(r.File, out var sha)) return null;
@@ -70,6 +70,19 @@ public sealed class RunStore
     }
 
     internal void Computed() => Interlocked.Increment(ref _computed);
+
+    private sealed record TextHash(string Text, string Hash);
+    private TextHash? _settings;
+
+    /// <summary>series.toml's hash, taken once per text (every run of a pass shares it).</summary>
+    private string SettingsHash(string text)
+    {
+        var known = Volatile.Read(ref _settings);
+        if (known is not null && ReferenceEquals(known.Text, text)) return known.Hash;
+        var made = new TextHash(text, Hash(text));
+        Volatile.Write(ref _settings, made);
+        return made.Hash;
+    }
 
     private static string Hash(string text) => Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(text)));
 

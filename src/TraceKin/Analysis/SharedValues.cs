@@ -33,9 +33,7 @@ internal sealed class SharedValues
     public IReadOnlyList<KeyValuePair<string, string>> Pairs(IReadOnlyList<KeyValuePair<string, string>> pairs)
     {
         if (pairs.Count == 0) return [];
-        var key = new StringBuilder();
-        foreach (var (k, v) in pairs) Field(Field(key, k).Append('\u0002'), v).Append('\u0002');
-        return _pairs.GetOrAdd(key.ToString(), _ => pairs.Select(p => new KeyValuePair<string, string>(Text(p.Key), Text(p.Value))).ToArray());
+        return _pairs.GetOrAdd(KeyOf(pairs), _ => pairs.Select(p => new KeyValuePair<string, string>(Text(p.Key), Text(p.Value))).ToArray());
     }
 
     /// <summary>Named numbers (the uncertainty budget), equal only when every number has the same bits.</summary>
@@ -52,9 +50,15 @@ internal sealed class SharedValues
     public IReadOnlyDictionary<string, string> Metadata(IReadOnlyDictionary<string, string> metadata)
     {
         if (metadata.Count == 0) return NoMetadata;
+        return _metadata.GetOrAdd(KeyOf(metadata), metadata);
+    }
+
+    /// <summary>A content key for text pairs in their order.</summary>
+    private static string KeyOf(IEnumerable<KeyValuePair<string, string>> pairs)
+    {
         var key = new StringBuilder();
-        foreach (var (k, v) in metadata) Field(Field(key, k).Append('\u0002'), v).Append('\u0002');
-        return _metadata.GetOrAdd(key.ToString(), metadata);
+        foreach (var (k, v) in pairs) Field(Field(key, k).Append('\u0002'), v).Append('\u0002');
+        return key.ToString();
     }
 
     /// <summary>Traces with their points already removed: equal names, quantities and units share one array of traces.</summary>

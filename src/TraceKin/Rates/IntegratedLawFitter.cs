@@ -20,7 +20,8 @@ public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenMo
 /// Fits every candidate integrated law (with and, if asked, without a linear drift term) to a whole trace and picks
 /// one by AICc (Burnham &amp; Anderson 2002, "Model Selection and Multimodel Inference", §2.4–2.6; Akaike weights
 /// eq. 2.14). A law's drift variant is preferred only when its AICc is lower by more than 7 (ibid. §2.6: Δ = 4–7 means
-/// considerably less support for the simpler model); order n only when it beats every integer law by more than 10.
+/// considerably less support for the simpler model); order n only when it beats every integer law by more than 10
+/// (with the end level known: whenever it converged, see docs/methods.md).
 /// Fits that did not converge take no part in the choice.
 /// </summary>
 internal static class IntegratedLawFitter
@@ -184,7 +185,9 @@ internal static class IntegratedLawFitter
                         ExcludedBecause = m.Law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw && neglectsPartner is not null ? neglectsPartner : driftExcluded };
                 // Pseudo-first order is the first-order curve re-expressed: one curve, counted once in the average.
                 // Order n joins the average only when it is the chosen law: its extra exponent extrapolates the slope
-                // at t0 its own way, and where it is not clearly better (by 10 AICc) it only adds a bias.
+                // at t0 its own way, and where it is not clearly better (by 10 AICc) it only adds a bias. With the end
+                // known it is the chosen law whenever it converged (its exponent is then the curvature, measured), and
+                // the integer laws, which each assume a curvature, leave the average to it.
                 else if (f.Converged && m.Law is not PseudoFirstOrderLaw and not NthOrderLaw && !(endKnown && nth.Fit is not null)) participants.Add((m, other));
                 fits.Add(other);
                 continue;
@@ -593,10 +596,10 @@ internal static class IntegratedLawFitter
             && OrderFromCurvature(model, t, y, w, whole, lower, upper) is { } oc
             && !(fit.Exit == FitExit.AtBound && Math.Abs(oc[LawModel.FirstShape] - fit.Parameters[LawModel.FirstShape].Value) < 0.25))
         {
-            // (A fit that stopped on a bound of n the curvature also points to is where the data put it: not retried.)
             // With the end known, the order is the trace's curvature: y″/y′ at t0 = −n·kk·[A]0^(n−1) = n·y′/(y0 − y_end)
             // (Taylor expansion, common practice, no source). k and n trade off strongly ([A]0^(n−1) moves by e^(Δn·ln[A]0)),
-            // so the fit from the integer law's end can crawl; it starts instead from the order the curvature gives.
+            // so the fit from the integer law's end can crawl; it starts instead from the order the curvature gives. A fit
+            // that stopped on the bound of n the curvature also points to is where the data put it, and is not retried.
             var f2 = NonlinearLeastSquares.Fit(model, y, oc, options with { MaxIterations = 400 });
             if (f2.Converged || (fit.Exit == FitExit.MaxIterations && f2.Exit != FitExit.MaxIterations)) fit = f2;
         }
@@ -633,14 +636,9 @@ internal static class IntegratedLawFitter
     private static double[]? CurvatureStart(RateLaw law, LawModel model, double[] t, double[] y, double[] w, double nu, double? a0Ref,
         double[] shape, double[] lower, double[] upper)
     {
-        var (tv, yv) = Valid(t, y, w);
-        if (tv.Length < 6) return null;
-        var q = LinearLeastSquares.Polynomial(tv, yv, 2);
-        if (!q.Converged) return null;
-        double c0 = q.Parameters[0].Value, c1 = q.Parameters[1].Value, c2 = q.Parameters[2].Value;
+        if (StartQuadratic(t, y, w) is not var (c0, c1, c2, duration)) return null;
         var target = 2 * c2 / c1;
         if (!(target < 0) || !double.IsFinite(target)) return null;
-        var duration = Math.Max(tv[^1] - tv[0], 1e-12);
         var grad = new double[2 + shape.Length];
         var span = c1 * duration; // first guess of y0 − y_end: the change a straight line would make over the trace
         double kk = 1 / duration;
@@ -669,6 +667,17 @@ internal static class IntegratedLawFitter
         return start;
     }
 
+    /// <summary>c0 + c1·t + c2·t² over the valid samples (so y(0), y′(0) and y″(0)/2) and the time they span; null with
+    /// fewer than six samples or when the fit fails.</summary>
+    private static (double C0, double C1, double C2, double Duration)? StartQuadratic(double[] t, double[] y, double[] w)
+    {
+        var (tv, yv) = Valid(t, y, w);
+        if (tv.Length < 6) return null;
+        var q = LinearLeastSquares.Polynomial(tv, yv, 2);
+        if (!q.Converged) return null;
+        return (q.Parameters[0].Value, q.Parameters[1].Value, q.Parameters[2].Value, Math.Max(tv[^1] - tv[0], 1e-12));
+    }
+
     /// <summary>True when fewer than two of zero, first and second order converged or their AICc span less than 2.</summary>
     private static bool CannotTellOrder(List<(LawModel, FitResult)> integer)
     {
@@ -681,11 +690,7 @@ internal static class IntegratedLawFitter
     /// kk from y′(0) = −(y0 − y_end)·kk·[A]0^(n−1). Null when the quadratic fails or y′(0) runs the wrong way.</summary>
     private static double[]? OrderFromCurvature(LawModel model, double[] t, double[] y, double[] w, double span, double[] lower, double[] upper)
     {
-        var (tv, yv) = Valid(t, y, w);
-        if (tv.Length < 6 || model.InitialConcentration is not { } a0) return null;
-        var q = LinearLeastSquares.Polynomial(tv, yv, 2);
-        if (!q.Converged) return null;
-        double c0 = q.Parameters[0].Value, c1 = q.Parameters[1].Value, c2 = q.Parameters[2].Value;
+        if (model.InitialConcentration is not { } a0 || StartQuadratic(t, y, w) is not var (c0, c1, c2, _)) return null;
         var n = 2 * c2 * span / (c1 * c1);
         // A trace whose noise hides its curvature (or shows it the wrong way) points to the bound n = 0.
         if (!double.IsFinite(n)) return null;

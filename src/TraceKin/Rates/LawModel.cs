@@ -66,11 +66,15 @@ public sealed class LawModel : IFitModel
     /// <summary>y0 − y_end at these parameters (the known one when the end is known).</summary>
     public double Span(ReadOnlySpan<double> p) => KnownSpan ?? p[Y0] - p[YEnd];
 
+    /// <summary>y_end and y0 − y_end at these parameters (y_end follows y0 when the end is known).</summary>
+    private (double YEnd, double Span) Levels(ReadOnlySpan<double> p) =>
+        KnownSpan is { } known ? (p[Y0] - known, known) : (p[YEnd], p[Y0] - p[YEnd]);
+
     public double Value(ReadOnlySpan<double> p, double t)
     {
         var u = Law.Fraction(t, Nu * p[K], A0(p), p.Slice(FirstShape, _shapeCount), _grad);
-        var span = Span(p);
-        var y = (KnownSpan is null ? p[YEnd] : p[Y0] - span) + span * u;
+        var (yEnd, span) = Levels(p);
+        var y = yEnd + span * u;
         return Drift ? y + p[DriftIndex] * t : y;
     }
 
@@ -85,8 +89,8 @@ public sealed class LawModel : IFitModel
         var a0 = A0(parameters);
         var shape = parameters.Slice(FirstShape, _shapeCount);
         var kk = Nu * parameters[K];
-        var span = Span(parameters);
-        double yEnd = KnownSpan is null ? parameters[YEnd] : parameters[Y0] - span, d = Drift ? parameters[DriftIndex] : 0;
+        var (yEnd, span) = Levels(parameters);
+        var d = Drift ? parameters[DriftIndex] : 0;
         if (_tLo is null || _tHi is null)
         {
             for (var i = 0; i < _t.Length; i++)
