@@ -43,7 +43,10 @@ internal static class IntegratedLawFitter
     /// <param name="drift">"auto", "off" or "on".</param>
     /// <param name="endKnown">The whole change is known (|y0 − y_end| = <paramref name="a0"/>, e.g. a product's end level
     /// from its limiting reactant's [X]0): every law is fitted with the end level following the start level.</param>
-    public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift, bool endKnown = false)
+    /// <param name="fitEveryDrift">Fit the other laws' drift variants even where they can only be excluded (for tests that
+    /// check the saving changes no number).</param>
+    public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift, bool endKnown = false,
+        bool fitEveryDrift = false)
     {
         if (endKnown && !(a0 > 0)) throw new ArgumentException("a known end needs a positive [A]0", nameof(a0));
         if (endKnown) partner = null;
@@ -65,6 +68,7 @@ internal static class IntegratedLawFitter
         var all = new List<(LawModel Model, FitResult Fit)>();
         var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
         string? driftExcluded = null;
+        var skippedPatch = false;
         foreach (var withDrift in families)
         {
             if (withDrift && drift == "auto" && DriftSeparability(plainFits.Values, tAll) is { } why)
@@ -74,22 +78,64 @@ internal static class IntegratedLawFitter
             }
             var integer = new List<(LawModel, FitResult)>();
             (LawModel Model, FitResult Fit)? firstOrder = null;
+            var screen = withDrift && drift == "auto";
+            // In "auto" mode the other laws' drift variants take part only when the best drift-free law is itself
+            // improved by its drift term by more than 7 AICc (see below, where the choice is made). That law's drift
+            // variant is therefore fitted first; when it is not supported the others would only be fitted to be
+            // excluded as patches, and are not fitted at all.
+            string? leadLaw = null;
+            (LawModel Model, FitResult Fit)? leadFit = null;
+            var othersCompete = true;
+            HashSet<string>? partnerNeglected = null;
+            if (screen && !fitEveryDrift)
+            {
+                partnerNeglected = NeglectsPartner(all, partner, weights, noise) ? [new FirstOrderLaw().Name, new SecondOrderLaw().Name] : [];
+                var lead = BestPlain(all, r => partnerNeglected.Contains(r.Model.Law.Name) || r.Model.Law is PseudoFirstOrderLaw && partnerNeglected.Count > 0);
+                if (lead.Fit is not null)
+                {
+                    leadLaw = lead.Model.Law.Name;
+                    leadFit = DriftVariant(lead.Model.Law, screen: true);
+                    othersCompete = leadFit is { } lf && lf.Fit.Converged && !(DriftCorrelation(lf.Model, lf.Fit) > MaxDriftCorrelation)
+                        && lf.Fit.AicC < lead.Fit.AicC - 7;
+                }
+            }
+            (LawModel Model, FitResult Fit)? DriftVariant(RateLaw law, bool screen)
+            {
+                if (!(plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged))
+                    return FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                if (screen && DriftScore(plain.Model, plain.Fit, t, weights) < DriftScreenScore) return null;
+                // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
+                var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
+                var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
+                (LawModel Model, FitResult Fit) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol, endKnown);
+                if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                return r;
+            }
             foreach (var law in Candidates(a0, partner))
             {
                 (LawModel Model, FitResult Fit) r;
-                var screen = withDrift && drift == "auto";
                 if (law is PseudoFirstOrderLaw pf && firstOrder is { } fo)
                     r = AsPseudoFirstOrder(pf, fo, t, nu, a0, withDrift);
                 else if (law is PseudoFirstOrderLaw && screen && plainFits.ContainsKey(new FirstOrderLaw().Name))
-                    continue; // its first-order twin was screened out
-                else if (withDrift && plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged)
+                    continue; // its first-order twin was screened out (or not fitted)
+                else if (screen && law.Name == leadLaw)
                 {
-                    if (screen && DriftScore(plain.Model, plain.Fit, t, weights) < DriftScreenScore) continue;
-                    // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
-                    var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
-                    var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
-                    r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol, endKnown);
-                    if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                    if (leadFit is not { } lf) continue;
+                    r = lf;
+                }
+                else if (screen && !othersCompete)
+                {
+                    // Not fitted: it could only patch another law's shape. The reason is still reported whenever a
+                    // patch would have been excluded (a variant past the screen that the partner rule leaves in).
+                    if (!partnerNeglected!.Contains(law.Name) && law is not PseudoFirstOrderLaw
+                        && (!(plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged) || DriftScore(plain.Model, plain.Fit, t, weights) >= DriftScreenScore))
+                        skippedPatch = true;
+                    continue;
+                }
+                else if (withDrift && plainFits.ContainsKey(law.Name))
+                {
+                    if (DriftVariant(law, screen) is not { } dv) continue;
+                    r = dv;
                 }
                 else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol, endKnown: endKnown);
                 if (law is FirstOrderLaw) firstOrder = r;
@@ -128,7 +174,7 @@ internal static class IntegratedLawFitter
         // order at a 6–100-fold excess). They are kept as fits, but the choice and the average go to the law that uses
         // what the experimenter gave, as long as it converged without lack of fit.
         string? neglectsPartner = null;
-        if (partner is > 0 && all.Any(r => r.Model.Law is MixedSecondOrderLaw && !r.Model.Drift && r.Fit.Converged && !LacksFit(r.Fit, weights, noise)))
+        if (NeglectsPartner(all, partner, weights, noise))
         {
             neglectsPartner = "the plan gives [B]0, and the mixed second-order law, which follows B's depletion and holds first order ([B]0 ≫ [A]0) and second order ([B]0 = [A]0) as its limits, describes the trace";
             foreach (var r in all.Where(r => r.Model.Law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw && r.Fit.Converged)) entangled.Add(r.Fit);
@@ -138,8 +184,7 @@ internal static class IntegratedLawFitter
         // is improved by its drift term by more than 7 AICc.
         if (drift == "auto")
         {
-            var bestPlain = all.Where(r => !r.Model.Drift && r.Fit.Converged && !entangled.Contains(r.Fit) && r.Model.Law is not NthOrderLaw)
-                .OrderBy(r => r.Fit.AicC).FirstOrDefault();
+            var bestPlain = BestPlain(all, r => entangled.Contains(r.Fit));
             var itsDrift = bestPlain.Fit is null ? default
                 : all.FirstOrDefault(r => r.Model.Drift && r.Model.Law.Name == bestPlain.Model.Law.Name && r.Fit.Converged && !entangled.Contains(r.Fit));
             var supported = itsDrift.Fit is not null && itsDrift.Fit.AicC < bestPlain.Fit!.AicC - 7;
@@ -149,7 +194,7 @@ internal static class IntegratedLawFitter
                 // is half-believed rather than ignored); the other laws' drift variants are out.
                 var patches = all.Where(r => r.Model.Drift && r.Fit.Converged && !entangled.Contains(r.Fit) && !ReferenceEquals(r.Fit, itsDrift.Fit)).ToList();
                 foreach (var r in patches) entangled.Add(r.Fit);
-                if (patches.Count > 0 && driftExcluded is null && bestPlain.Fit is not null)
+                if ((patches.Count > 0 || skippedPatch) && driftExcluded is null && bestPlain.Fit is not null)
                     driftExcluded = $"a drift term does not improve the best drift-free law ({bestPlain.Model.Law.Name}) by more than 7 AICc, so it would only patch another law's shape";
             }
         }
@@ -239,6 +284,15 @@ internal static class IntegratedLawFitter
             DriftEvidence = driftExcluded is null ? double.NaN : BestPlainDriftScore(plainFits.Values, t, weights),
         };
     }
+
+    /// <summary>With the partner's [B]0 in the plan: does the mixed second-order law (drift-free) describe the trace, so that
+    /// the laws that neglect B's depletion leave the choice to it?</summary>
+    private static bool NeglectsPartner(List<(LawModel Model, FitResult Fit)> all, double? partner, double[] weights, double noise) =>
+        partner is > 0 && all.Any(r => r.Model.Law is MixedSecondOrderLaw && !r.Model.Drift && r.Fit.Converged && !LacksFit(r.Fit, weights, noise));
+
+    /// <summary>The converged drift-free integer law with the lowest AICc among those not <paramref name="excluded"/>.</summary>
+    private static (LawModel Model, FitResult Fit) BestPlain(List<(LawModel Model, FitResult Fit)> all, Func<(LawModel Model, FitResult Fit), bool> excluded) =>
+        all.Where(r => !r.Model.Drift && r.Fit.Converged && !excluded(r) && r.Model.Law is not NthOrderLaw).OrderBy(r => r.Fit.AicC).FirstOrDefault();
 
     /// <summary>Conversion (1 − u at the last sample, by the best drift-free integer law) a trace must show before a
     /// drift term may compete in "auto" mode: past 90 % the reaction's curve has flattened and a linear baseline is
