@@ -64,6 +64,8 @@ internal static class IntegratedLawFitter
         // Fits on the comparison bins stop at a looser tolerance (χ² settled to 1e-10 relative, steps to 1e-5 of the
         // parameters: far inside their standard errors); the fit that is reported is converged to 1e-10.
         var tol = coarse is null ? 1e-10 : CompareTolerance;
+        // The trace's ends and early slope, which every law's start uses: taken once for the points the laws are compared on.
+        var ends = Ends(t, y, weights);
         var families = drift switch { "off" => new[] { false }, "on" => [true], _ => [false, true] };
         var all = new List<(LawModel Model, FitResult Fit)>();
         var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
@@ -102,13 +104,13 @@ internal static class IntegratedLawFitter
             (LawModel Model, FitResult Fit)? DriftVariant(RateLaw law, bool screen)
             {
                 if (!(plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged))
-                    return FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                    return FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown, ends: ends);
                 if (screen && DriftScore(plain.Model, plain.Fit, t, weights) < DriftScreenScore) return null;
                 // The drift variant starts where the drift-free fit ended, with no drift; from scratch if that fails.
                 var warm = plain.Fit.Parameters.Select(p => p.Value).Append(0.0).ToArray();
                 var fixedP = plain.Fit.Parameters.Select(p => !p.Varied).Append(false).ToArray();
-                (LawModel Model, FitResult Fit) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol, endKnown);
-                if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                (LawModel Model, FitResult Fit) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, warm, fixedP, spread, tol, endKnown, ends);
+                if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown, ends: ends);
                 return r;
             }
             foreach (var law in Candidates(a0, partner))
@@ -137,7 +139,7 @@ internal static class IntegratedLawFitter
                     if (DriftVariant(law, screen) is not { } dv) continue;
                     r = dv;
                 }
-                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol, endKnown: endKnown);
+                else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol, endKnown: endKnown, ends: ends);
                 if (law is FirstOrderLaw) firstOrder = r;
                 if (!withDrift) plainFits[law.Name] = r;
                 integer.Add(r);
@@ -152,7 +154,7 @@ internal static class IntegratedLawFitter
             // of each other the trace cannot tell its order, order n would only crawl along its flat valley, and the
             // Akaike-weighted integer laws already carry that spread.
             if (endKnown && CannotTellOrder(integer)) continue;
-            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol, endKnown: endKnown));
+            all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol, endKnown: endKnown, ends: ends));
         }
 
         // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
@@ -545,7 +547,7 @@ internal static class IntegratedLawFitter
 
     internal static (LawModel, FitResult) FitOne(RateLaw law, double[] t, double[] y, double[] w, double nu, double? a0Ref, double? partner, bool drift,
         (LawModel Model, FitResult Fit)? seed, double[]? startOverride = null, bool[]? fixedOverride = null, double[]? spread = null, double tolerance = 1e-10,
-        bool endKnown = false)
+        bool endKnown = false, (double Y0, double YEnd, double Slope)? ends = null)
     {
         var model = new LawModel(law, t, nu, a0Ref, drift, spread, endKnown);
         var np = model.ParameterNames.Count;
@@ -570,7 +572,7 @@ internal static class IntegratedLawFitter
             lower[LawModel.FirstShape + s] = law.ShapeBounds[s].Low;
             upper[LawModel.FirstShape + s] = law.ShapeBounds[s].High;
         }
-        var (y0, yEnd, slope) = Ends(t, y, w);
+        var (y0, yEnd, slope) = ends ?? Ends(t, y, w);
         var a0 = a0Ref ?? Math.Abs(y0 - yEnd);
         var shape = law.GuessShape(a0, partner);
         if (law is MixedSecondOrderLaw && partner is > 0) fixedP[LawModel.FirstShape] = true;
