@@ -26,17 +26,48 @@ public sealed record ReplicateGroup(
 {
     public const double OutlierScore = 3.5;
 
-    /// <summary>Groups of two or more runs with the same conditions, in the order of their first run.</summary>
+    /// <summary>
+    /// Groups of two or more runs with the same conditions, in the order of their first run. A run joins the first group
+    /// whose first run has its conditions. Runs whose conditions are exactly equal join the same group, so the groups are
+    /// searched once per distinct set of conditions (an assay campaign has thousands of runs and a few dozen), not per run.
+    /// </summary>
     public static IReadOnlyList<ReplicateGroup> Find(IReadOnlyList<ReplicateRun> runs)
     {
         var groups = new List<List<ReplicateRun>>();
+        var seen = new Dictionary<string, List<ReplicateRun>>(StringComparer.Ordinal);
         foreach (var r in runs.Where(r => double.IsFinite(r.Rate)))
         {
-            var g = groups.FirstOrDefault(g => Same(g[0], r));
-            if (g is null) groups.Add([r]);
-            else g.Add(r);
+            var key = ExactKey(r);
+            if (key is null || !seen.TryGetValue(key, out var g))
+            {
+                g = groups.FirstOrDefault(g => Same(g[0], r));
+                if (g is null) groups.Add(g = []);
+                if (key is not null) seen[key] = g;
+            }
+            g.Add(r);
         }
         return groups.Where(g => g.Count >= 2).Select(Describe).ToList();
+    }
+
+    /// <summary>
+    /// The run's conditions as <see cref="Same"/> compares them, exactly (the temperature, and each non-zero
+    /// concentration by species): equal keys compare alike with every other run. Null when a value is NaN (never the same).
+    /// </summary>
+    private static string? ExactKey(ReplicateRun r)
+    {
+        var sb = new System.Text.StringBuilder();
+        if (r.TemperatureK is { } t)
+        {
+            if (double.IsNaN(t)) return null;
+            sb.Append(BitConverter.DoubleToInt64Bits(t == 0 ? 0 : t));
+        }
+        else sb.Append('-');
+        foreach (var (species, c) in r.Concentrations.Where(kv => kv.Value != 0).OrderBy(kv => kv.Key, StringComparer.Ordinal))
+        {
+            if (double.IsNaN(c)) return null;
+            sb.Append('|').Append(species.Length).Append(':').Append(species).Append('=').Append(BitConverter.DoubleToInt64Bits(c));
+        }
+        return sb.ToString();
     }
 
     private static ReplicateGroup Describe(List<ReplicateRun> g)
