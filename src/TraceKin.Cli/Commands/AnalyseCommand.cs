@@ -26,7 +26,7 @@ public static class AnalyseCommand
     }
 
     /// <summary>The files `analyse` writes directly into --out (plots/ holds the pictures).</summary>
-    public static readonly string[] OutputFiles = [SummaryJson.FileName, RunsCsv.FileName, .. RunTables.FileNames, ReportHtml.FileName, LogFile];
+    public static readonly string[] OutputFiles = [SummaryJson.FileName, RunsCsv.FileName, PairRatiosCsv.FileName, .. RunTables.FileNames, ReportHtml.FileName, LogFile];
 
     public const string LogFile = "tracekin.log";
 

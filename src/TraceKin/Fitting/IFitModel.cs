@@ -31,4 +31,11 @@ public sealed record FitOptions
     public int MaxIterations { get; init; } = 1000;
     /// <summary>Relative change in chi-square and in parameters below which the fit has converged.</summary>
     public double Tolerance { get; init; } = 1e-12;
+
+    /// <summary>
+    /// A constant added to chi-square wherever the fitter uses it (convergence tests, the gradient's cosine with the
+    /// residual vector, the reported value): the within-group sum of squares of <see cref="GroupedLeastSquares"/>, so a
+    /// fit to group means takes the path of the fit to every point.
+    /// </summary>
+    internal double ConstantChiSquare { get; init; }
 }

@@ -290,7 +290,7 @@ public static class NonlinearLeastSquares
         private bool Residuals(double[] p, double[] f, double[] r, out double chi2, out int bad)
         {
             _model.Evaluate(p, f);
-            chi2 = 0; bad = -1;
+            chi2 = _o.ConstantChiSquare; bad = -1;
             for (var i = 0; i < _n; i++)
             {
                 if (_sw[i] == 0) { r[i] = 0; continue; }

@@ -22,7 +22,7 @@ public static class ReportHtml
     private static readonly HashSet<string> KnownFindings =
     [
         nameof(SeriesFindings.Orders), nameof(SeriesFindings.RateConstant), nameof(SeriesFindings.RateConstantAtFittedOrders),
-        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.Saturation), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios),
+        nameof(SeriesFindings.RoundedOrders), nameof(SeriesFindings.OrderVerdicts), nameof(SeriesFindings.Saturation), nameof(SeriesFindings.PerRunK), nameof(SeriesFindings.PairRatios), nameof(SeriesFindings.PairCount),
         nameof(SeriesFindings.OrderFit), nameof(SeriesFindings.RunsUsed), nameof(SeriesFindings.Warnings),
         nameof(SeriesFindings.OtherLaws),
     ];
@@ -195,11 +195,17 @@ public static class ReportHtml
         {
             h.Element("h3", "Orders from pairs of runs");
             h.Raw("<table class=\"results pairs\">\n<thead><tr><th>runs</th><th>species</th><th>[X]0 ratio</th><th>v0 ratio</th><th>order ± SE</th></tr></thead>\n<tbody>\n");
-            foreach (var p in f.PairRatios)
+            foreach (var p in f.PairRatios.Take(SummaryJson.ListedPairRatios))
                 h.Raw("<tr>").Element("td", $"{p.RunA} / {p.RunB}").Element("td", p.Species)
                     .Element("td", ReportNumber.Plain(p.ConcentrationRatio), "class=\"num\"").Element("td", ReportNumber.Plain(p.RateRatio), "class=\"num\"")
                     .Element("td", ReportNumber.Measured(p.Order, p.StdError), "class=\"num\"").Raw("</tr>\n");
             h.Raw("</tbody>\n</table>\n");
+            // A long table says little the orders do not: the first pairs here, every listed pair in the CSV table.
+            if (f.PairRatios.Count > SummaryJson.ListedPairRatios)
+                h.Raw("<p class=\"note\">").Text(f.PairCount > f.PairRatios.Count
+                        ? FormattableString.Invariant($"The first {SummaryJson.ListedPairRatios} pairs in plan order, of {f.PairRatios.Count} listed ({f.PairCount} in all); every listed pair is in ")
+                        : FormattableString.Invariant($"The first {SummaryJson.ListedPairRatios} pairs in plan order, of {f.PairRatios.Count}; every pair is in "))
+                    .Raw($"<a href=\"{PairRatiosCsv.FileName}\">{PairRatiosCsv.FileName}</a>").Text(".").Raw("</p>\n");
         }
         if (f.Saturation is { } sat) LawChoice(h, f, sat);
         foreach (var other in f.OtherLaws) OtherLaw(h, f, other);

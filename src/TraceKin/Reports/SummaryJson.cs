@@ -41,7 +41,13 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
     public static void WriteTo(SeriesResult r, Stream stream, bool plots = true) =>
         JsonSerializer.Serialize(stream, Record(r, plots), SummaryJsonContext.Writer.SummaryRecord);
 
-    /// <summary>summary.json as records. Runs and pair ratios are mapped as they are written, so a big series is never held twice.</summary>
+    /// <summary>
+    /// How many pairs of runs summary.json and report.html list (the first in plan order); every listed pair is in
+    /// pair-ratios.csv (<see cref="PairRatiosCsv"/>), and the total count is given beside them.
+    /// </summary>
+    public const int ListedPairRatios = 20;
+
+    /// <summary>summary.json as records. Runs are mapped as they are written, so a big series is never held twice.</summary>
     internal static SummaryRecord Record(SeriesResult r, bool plots = true)
     {
         var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
@@ -60,7 +66,10 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
                 r.Runs.Count == 0 ? null : r.Runs.Max(x => x.Converted.RelativeSystematicUncertainty)),
             RateConstantPerRun: (f0?.PerRunK ?? []).Select(pk => new PerRunRateConstantRecord(pk.RunId, pk.Value, pk.StdError)).ToList(),
             RateConvention: RateConvention(r),
-            PairRatios: (f0?.PairRatios ?? []).Select(p => new PairRatioRecord(p.RunA, p.RunB, p.Species, p.ConcentrationRatio, p.RateRatio, p.Order, p.StdError)),
+            PairRatioCount: f0?.PairCount ?? 0,
+            PairRatioTable: PairRatiosCsv.FileName,
+            PairRatiosFirst: (f0?.PairRatios ?? []).Take(ListedPairRatios)
+                .Select(p => new PairRatioRecord(p.RunA, p.RunB, p.Species, p.ConcentrationRatio, p.RateRatio, p.Order, p.StdError)).ToList(),
             ChosenLaw: f0?.ChosenLaw,
             Design: SeriesModelsJson.Design(f0),
             PowerLaw: SeriesModelsJson.PowerLaw(f0),

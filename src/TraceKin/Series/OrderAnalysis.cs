@@ -58,7 +58,7 @@ public static class OrderAnalysis
         if (usable.Count < p + 1 || varied.Count == 0)
         {
             warnings.Add(new Warning("too-few-runs", "series", $"{usable.Count} usable runs for {varied.Count} order(s) and {groups.Count} rate constant(s); need at least {p + 1}"));
-            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings);
+            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings) { PairCount = pairCount };
         }
 
         // Can the design separate the orders at all? If not, say which species move together and fit nothing.
@@ -70,7 +70,7 @@ public static class OrderAnalysis
                     set.Contains("temperature")
                         ? $"[{set[0]}]0 changes only together with the temperature, so its order cannot be told apart from the temperature dependence of k; vary it at a fixed temperature"
                         : $"the starting concentrations of {string.Join(" and ", set)} never vary independently of each other (in every run they keep the same ratio), so their orders cannot be told apart; add runs that change one of them while holding the other(s) fixed"));
-            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings) { Design = design };
+            return new SeriesFindings([], null, null, null, [], pairs, null, used, warnings) { Design = design, PairCount = pairCount };
         }
         if (design.ConditionNumber > OrderDesign.StrongCollinearity)
             warnings.Add(new Warning("design-ill-conditioned", "series",
@@ -86,7 +86,7 @@ public static class OrderAnalysis
         if (!logLog.Converged)
         {
             warnings.Add(new Warning("orders-not-separable", "series", logLog.ExitDetail + "; vary each species independently of the others"));
-            return new SeriesFindings([], null, null, null, [], pairs, logLog, used, warnings) { Design = design };
+            return new SeriesFindings([], null, null, null, [], pairs, logLog, used, warnings) { Design = design, PairCount = pairCount };
         }
         var logLogOrders = OrdersFrom(logLog, varied, groups.Count, "log-log least squares (cross-check)");
 
@@ -181,6 +181,7 @@ public static class OrderAnalysis
             OrderVerdicts = verdicts,
             ChosenLaw = chosen,
             Temperature = temperature,
+            PairCount = pairCount,
         };
         foreach (var (law, result) in competing) findings = law.Attach(findings, result);
         return findings;

@@ -26,17 +26,116 @@ public sealed record ReplicateGroup(
 {
     public const double OutlierScore = 3.5;
 
-    /// <summary>Groups of two or more runs with the same conditions, in the order of their first run.</summary>
+    /// <summary>
+    /// Groups of two or more runs with the same conditions, in the order of their first run. A run joins the first group
+    /// whose first run has its conditions (<see cref="Same"/>). Runs whose conditions are exactly equal join the same
+    /// group, and the groups are indexed by cells of their first run's conditions, so a run is compared only with the
+    /// groups in its own cells: linear in the runs, however many distinct conditions there are.
+    /// </summary>
     public static IReadOnlyList<ReplicateGroup> Find(IReadOnlyList<ReplicateRun> runs)
     {
         var groups = new List<List<ReplicateRun>>();
+        var seen = new Dictionary<string, List<ReplicateRun>>(StringComparer.Ordinal);
+        var cells = new Dictionary<string, List<int>>(StringComparer.Ordinal);
         foreach (var r in runs.Where(r => double.IsFinite(r.Rate)))
         {
-            var g = groups.FirstOrDefault(g => Same(g[0], r));
-            if (g is null) groups.Add([r]);
-            else g.Add(r);
+            var key = ExactKey(r);
+            if (key is null)
+            {
+                // A condition that is not finite is the same as no other (Same): a group of its own, never joined.
+                groups.Add([r]);
+                continue;
+            }
+            if (!seen.TryGetValue(key, out var g))
+            {
+                var first = int.MaxValue;
+                foreach (var cell in Cells(r, nearBoundary: true))
+                    if (cells.TryGetValue(cell, out var list))
+                        foreach (var i in list)
+                            if (i < first && Same(groups[i][0], r)) first = i;
+                if (first < int.MaxValue) g = groups[first];
+                else
+                {
+                    groups.Add(g = []);
+                    var own = Cells(r, nearBoundary: false).Single();
+                    if (!cells.TryGetValue(own, out var list)) cells[own] = list = [];
+                    list.Add(groups.Count - 1);
+                }
+                seen[key] = g;
+            }
+            g.Add(r);
         }
         return groups.Where(g => g.Count >= 2).Select(Describe).ToList();
+    }
+
+    /// <summary>
+    /// The run's conditions as <see cref="Same"/> compares them, exactly (the temperature, and each non-zero
+    /// concentration by species): equal keys compare alike with every other run. Null when a value is not finite (the
+    /// same as nothing, not even itself).
+    /// </summary>
+    private static string? ExactKey(ReplicateRun r)
+    {
+        var sb = KeyText ??= new System.Text.StringBuilder();
+        sb.Clear();
+        if (r.TemperatureK is { } t)
+        {
+            if (!double.IsFinite(t)) return null;
+            sb.Append(BitConverter.DoubleToInt64Bits(t == 0 ? 0 : t));
+        }
+        else sb.Append('-');
+        // The species in ordinal order (a run has a handful: sorted by insertion, without LINQ, for 20,000 runs).
+        var names = KeyNames ??= [];
+        names.Clear();
+        foreach (var (species, c) in r.Concentrations)
+        {
+            if (c == 0) continue;
+            if (!double.IsFinite(c)) return null;
+            var at = names.Count;
+            while (at > 0 && string.CompareOrdinal(names[at - 1], species) > 0) at--;
+            names.Insert(at, species);
+        }
+        foreach (var species in names)
+            sb.Append('|').Append(species.Length).Append(':').Append(species).Append('=').Append(BitConverter.DoubleToInt64Bits(r.Concentrations[species]));
+        return sb.ToString();
+    }
+
+    [ThreadStatic] private static System.Text.StringBuilder? KeyText;
+    [ThreadStatic] private static List<string>? KeyNames;
+
+    private static IEnumerable<KeyValuePair<string, double>> NonZero(ReplicateRun r) =>
+        r.Concentrations.Where(kv => kv.Value != 0).OrderBy(kv => kv.Key, StringComparer.Ordinal);
+
+    /// <summary>Width of a cell in ln|x|: far wider than the 1e-9 tolerance, so two values alike lie in one cell or in neighbours.</summary>
+    private const double CellWidth = 1e-6;
+
+    /// <summary>
+    /// The cells of the run's conditions: per value its sign and ⌊ln|x| / <see cref="CellWidth"/>⌋, per run the species
+    /// with a non-zero concentration. Two runs alike (<see cref="Same"/>: the same species, each value within 1e-9
+    /// relative, so the same sign and ln|x| within 1.0000000005e-9) are in the same cell, or, where a value lies within
+    /// 1e-9 of a cell's edge, in the neighbouring one: with <paramref name="nearBoundary"/> both are given (every
+    /// combination; one cell almost always), else the run's own cell only.
+    /// </summary>
+    private static List<string> Cells(ReplicateRun r, bool nearBoundary)
+    {
+        var values = new List<(string Name, double Value)>();
+        if (r.TemperatureK is { } t) values.Add(("", t));
+        values.AddRange(NonZero(r).Select(kv => (kv.Key, kv.Value)));
+        var keys = new List<string> { r.TemperatureK is null ? "-" : "T" };
+        foreach (var (name, v) in values)
+        {
+            string Cell(long c) => $"|{name.Length}:{name}{(v < 0 ? "-" : "+")}{c}";
+            var x = v == 0 ? double.NegativeInfinity : Math.Log(Math.Abs(v)) / CellWidth;
+            var own = double.IsFinite(x) ? (long)Math.Floor(x) : long.MinValue;
+            var options = new List<string> { Cell(own) };
+            if (nearBoundary && double.IsFinite(x))
+            {
+                // 1e-9 in ln|x| is 1e-3 of a cell; a margin of 1e-2 leaves room for the rounding of the logarithm.
+                if (x - own < 1e-2) options.Add(Cell(own - 1));
+                if (own + 1 - x < 1e-2) options.Add(Cell(own + 1));
+            }
+            keys = keys.SelectMany(k => options.Select(o => k + o)).ToList();
+        }
+        return keys;
     }
 
     private static ReplicateGroup Describe(List<ReplicateRun> g)

@@ -58,7 +58,8 @@ internal static class SaturationAnalysis
             Array.Fill(lower, double.NegativeInfinity);
             lower[0] = 0;
             lower[1] = 0;
-            var fit = NonlinearLeastSquares.Fit(model, rates, start, new FitOptions { Weights = weights, Lower = lower });
+            // Replicate runs (equal [S]0 and co-reactant levels) fitted as one point each: the same fit, exactly (GroupedLeastSquares).
+            var fit = GroupedLeastSquares.Fit(model, rates, start, new FitOptions { Weights = weights, Lower = lower });
             if (!fit.Converged || fit.Parameters.Any(q => !double.IsFinite(q.StdError)))
             {
                 // Km running off beyond the data is what a series without saturation does: no sign of saturation.

@@ -5,13 +5,14 @@ namespace TraceKin.Series;
 /// <summary>
 /// The saturation (Michaelis–Menten–Langmuir) law on initial rates with optional power-law co-reactants,
 /// v0 = Vmax·[S]0/(Km + [S]0)·Π_j [Y_j]0^m_j (Michaelis &amp; Menten 1913; Bates &amp; Watts 1988, §2.1).
-/// Parameters: Vmax, Km, then m_1..m_q. Analytic Jacobian.
+/// Parameters: Vmax, Km, then m_1..m_q. Analytic Jacobian. A run's covariates are [S]0 and its ln[Y_j]0.
 /// </summary>
-internal sealed class SaturationModel : IFitModel
+internal sealed class SaturationModel : IRowModel
 {
     private readonly double[] _s;
     private readonly double[,] _lny;
     private readonly int _q;
+    private readonly IReadOnlyList<string> _coReactants;
 
     /// <param name="substrate">[S]0 of each run.</param>
     /// <param name="lnCoReactants">n×q matrix of ln[Y_j]0 (may have q = 0 columns).</param>
@@ -20,6 +21,7 @@ internal sealed class SaturationModel : IFitModel
         _s = substrate;
         _lny = lnCoReactants;
         _q = coReactants.Count;
+        _coReactants = coReactants;
         ParameterNames = new[] { "Vmax", "Km" }.Concat(coReactants.Select(c => $"n({c})")).ToArray();
     }
 
@@ -29,6 +31,25 @@ internal sealed class SaturationModel : IFitModel
     public string Name => _q == 0 ? "v0 = Vmax·[S]0/(Km + [S]0)" : "v0 = Vmax·[S]0/(Km + [S]0)·Π[Y]0^n";
     public IReadOnlyList<string> ParameterNames { get; }
     public int PointCount => _s.Length;
+    public int CovariateCount => 1 + _q;
+
+    public void Covariates(int point, Span<double> row)
+    {
+        row[0] = _s[point];
+        for (var j = 0; j < _q; j++) row[1 + j] = _lny[point, j];
+    }
+
+    public IFitModel OnPoints(IReadOnlyList<int> points)
+    {
+        var s = new double[points.Count];
+        var lny = new double[points.Count, _q];
+        for (var i = 0; i < points.Count; i++)
+        {
+            s[i] = _s[points[i]];
+            for (var j = 0; j < _q; j++) lny[i, j] = _lny[points[i], j];
+        }
+        return new SaturationModel(s, lny, _coReactants);
+    }
 
     public void Evaluate(ReadOnlySpan<double> p, Span<double> values)
     {

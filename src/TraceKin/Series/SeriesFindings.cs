@@ -172,4 +172,12 @@ public sealed record SeriesFindings(
     public GlobalFitFindings? GlobalFit { get; init; }
     /// <summary>Competing laws without a place of their own in the findings (<see cref="ISeriesLaw.Attach"/>), in registry order.</summary>
     public IReadOnlyList<CompetingLawFindings> OtherLaws { get; init; } = [];
+
+    /// <summary>
+    /// How many pairs of runs differ in one species only; <see cref="PairRatios"/> lists the first
+    /// <see cref="OrderAnalysis.MaxPairRatios"/> of them in plan order. Unset: the listed pairs are all there are.
+    /// </summary>
+    public long PairCount { get => _pairCount ?? PairRatios.Count; init => _pairCount = value; }
+
+    private readonly long? _pairCount;
 }

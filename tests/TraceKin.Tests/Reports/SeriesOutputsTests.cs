@@ -60,7 +60,7 @@ public sealed class SeriesOutputsTests
         Assert.Equal(["extra-table.csv", "plots/orders.png"], failures.Select(f => f.Output));
         Assert.Equal("InvalidOperationException: the axis range is empty (test)", failures.Single(f => f.Output == "plots/orders.png").Error);
         Assert.StartsWith("NotSupportedException:", failures.Single(f => f.Output == "extra-table.csv").Error, StringComparison.Ordinal);
-        foreach (var f in (string[])["report.html", "summary.json", "runs.csv", .. RunTables.FileNames, "plots/k-per-run.png", "plots/rate-concentration.png", "plots/run-R1.png"])
+        foreach (var f in (string[])["report.html", "summary.json", "runs.csv", PairRatiosCsv.FileName, .. RunTables.FileNames, "plots/k-per-run.png", "plots/rate-concentration.png", "plots/run-R1.png"])
             Assert.True(File.Exists(Path.Combine(dir.Path, f)), f);
         Assert.False(File.Exists(Path.Combine(dir.Path, "plots", OrderPlot.FileName)));
 
