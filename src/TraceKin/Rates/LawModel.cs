@@ -94,12 +94,12 @@ public sealed class LawModel : IFitModel
         if (_tLo is null || _tHi is null)
         {
             for (var i = 0; i < _t.Length; i++)
-                values[i] = yEnd + span * Law.Fraction(_t[i], kk, a0, shape, _grad) + d * _t[i];
+                values[i] = yEnd + span * Law.Value(_t[i], kk, a0, shape) + d * _t[i];
             return;
         }
         for (var i = 0; i < _t.Length; i++)
         {
-            var u = 0.5 * (Law.Fraction(_tLo[i], kk, a0, shape, _grad) + Law.Fraction(_tHi[i], kk, a0, shape, _grad));
+            var u = 0.5 * (Law.Value(_tLo[i], kk, a0, shape) + Law.Value(_tHi[i], kk, a0, shape));
             values[i] = yEnd + span * u + d * _t[i];
         }
     }

@@ -49,6 +49,21 @@ public sealed class MixedSecondOrderLaw : RateLaw
         return u;
     }
 
+    public override double Value(double t, double kk, double a0, ReadOnlySpan<double> shape)
+    {
+        // The arithmetic of Fraction for u, without the gradient.
+        var b0 = shape[0];
+        var aIsLo = a0 <= b0;
+        double lo = aIsLo ? a0 : b0, hi = aIsLo ? b0 : a0;
+        var d = hi - lo;
+        var eps = d / hi;
+        var kappa = kk * d;
+        var em1 = Expm1(kappa * t);
+        var den = em1 + eps;
+        if (eps < 1e-9) return 1 / (1 + kk * hi * t);
+        return eps / den;
+    }
+
     public override double InitialFactor(double a0, ReadOnlySpan<double> shape) => Math.Max(a0, shape[0]);
 
     public override double HalfLife(double kk, double a0, ReadOnlySpan<double> shape)

@@ -19,8 +19,7 @@ public sealed class NthOrderLaw : RateLaw
         // series of ln(1 + x), from memory); the series is used for |x| < 0.01 to avoid cancellation (10 terms reach
         // 1e-20 there; beyond it the closed form loses at most ε/x² ≈ 1e-12 of φ to cancellation).
         var m = shape[0] - 1;
-        var lnA = Math.Log(a0);
-        var scale = Math.Exp(m * lnA);
+        var (lnA, scale) = Powers(a0, m);
         var q = kk * scale * t;
         var x = m * q;
         if (1 + x <= 0) { grad[0] = 0; grad[1] = 0; grad[2] = 0; return 0; }
@@ -49,6 +48,46 @@ public sealed class NthOrderLaw : RateLaw
         grad[2] = u * (q * q * phi - q * lnA / (1 + x));
         return u;
     }
+
+    public override double Value(double t, double kk, double a0, ReadOnlySpan<double> shape)
+    {
+        // The arithmetic of Fraction for u, without the gradient.
+        var m = shape[0] - 1;
+        var (_, scale) = Powers(a0, m);
+        var q = kk * scale * t;
+        var x = m * q;
+        if (1 + x <= 0) return 0;
+        double lOverX;
+        if (Math.Abs(x) < 0.01)
+        {
+            double sumL = 0, xp = 1;
+            for (var j = 0; j < 10; j++)
+            {
+                var sign = (j & 1) == 0 ? 1.0 : -1.0;
+                sumL += sign * xp / (j + 1);
+                xp *= x;
+            }
+            lOverX = sumL;
+        }
+        else lOverX = Math.Log(1 + x) / x;
+        return Math.Exp(-q * lOverX);
+    }
+
+    /// <summary>ln a0 and a0^(n−1) = e^((n−1)·ln a0): the same at every point of one evaluation, so kept for the last
+    /// (a0, n − 1) asked for (an immutable pair, safe to read from any thread).</summary>
+    private (double LnA, double Scale) Powers(double a0, double m)
+    {
+        var p = _powers;
+        if (p is null || !(p.A0 == a0) || !(p.M == m) || BitConverter.DoubleToInt64Bits(p.M) != BitConverter.DoubleToInt64Bits(m))
+        {
+            var lnA = Math.Log(a0);
+            _powers = p = new PowerMemo(a0, m, lnA, Math.Exp(m * lnA));
+        }
+        return (p.LnA, p.Scale);
+    }
+
+    private sealed record PowerMemo(double A0, double M, double LnA, double Scale);
+    private PowerMemo? _powers;
 
     public override double InitialFactor(double a0, ReadOnlySpan<double> shape) => Math.Pow(a0, shape[0] - 1);
 

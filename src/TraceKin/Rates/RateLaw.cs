@@ -27,6 +27,16 @@ public abstract class RateLaw
     /// </summary>
     public abstract double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad);
 
+    /// <summary>
+    /// u(t) alone, the same value as <see cref="Fraction"/> (a law overrides it only to skip its gradient, with the
+    /// same arithmetic for u).
+    /// </summary>
+    public virtual double Value(double t, double kk, double a0, ReadOnlySpan<double> shape)
+    {
+        Span<double> grad = stackalloc double[2 + shape.Length];
+        return Fraction(t, kk, a0, shape, grad);
+    }
+
     /// <summary>g in u′(0) = −kk·g(a0, shape); so d[A]/dt at t0 = −|ν|·k·[A]0·g.</summary>
     public abstract double InitialFactor(double a0, ReadOnlySpan<double> shape);
 
