@@ -16,12 +16,17 @@ internal static class Householder
         for (var k = 0; k < cols; k++)
         {
             var col = a.Slice(k * rows, rows);
-            // Scaled norm avoids overflow/underflow for columns with extreme magnitudes.
+            // Scaled norm avoids overflow/underflow for columns with extreme magnitudes. (Math.Max's result for
+            // non-negative values, NaN kept once met, in a loop the compiler can keep free of bounds checks.)
             double scale = 0;
-            for (var i = k; i < rows; i++) scale = Math.Max(scale, Math.Abs(col[i]));
+            for (var i = k; i < col.Length; i++)
+            {
+                var m = Math.Abs(col[i]);
+                if (m > scale || double.IsNaN(m)) scale = double.IsNaN(scale) ? scale : m;
+            }
             if (scale == 0) { tau[k] = 0; rDiag[k] = 0; continue; }
             double ss = 0;
-            for (var i = k; i < rows; i++) { var v = col[i] / scale; ss += v * v; }
+            for (var i = k; i < col.Length; i++) { var v = col[i] / scale; ss += v * v; }
             var norm = scale * Math.Sqrt(ss);
             var alpha = col[k] > 0 ? -norm : norm;
             col[k] -= alpha;
@@ -29,13 +34,14 @@ internal static class Householder
             var vtv = 2 * norm * (norm + Math.Abs(col[k] + alpha));
             tau[k] = 2 / vtv;
             rDiag[k] = alpha;
+            var v0 = col[k..];
             for (var j = k + 1; j < cols; j++)
             {
-                var cj = a.Slice(j * rows, rows);
+                var cj = a.Slice(j * rows + k, v0.Length);
                 double s = 0;
-                for (var i = k; i < rows; i++) s += col[i] * cj[i];
+                for (var i = 0; i < v0.Length && i < cj.Length; i++) s += v0[i] * cj[i];
                 s *= tau[k];
-                for (var i = k; i < rows; i++) cj[i] -= s * col[i];
+                for (var i = 0; i < v0.Length && i < cj.Length; i++) cj[i] -= s * v0[i];
             }
         }
     }
@@ -46,11 +52,12 @@ internal static class Householder
         for (var k = 0; k < cols; k++)
         {
             if (tau[k] == 0) continue;
-            var col = a.Slice(k * rows, rows);
+            var v0 = a.Slice(k * rows + k, rows - k);
+            var bk = b.Slice(k, rows - k);
             double s = 0;
-            for (var i = k; i < rows; i++) s += col[i] * b[i];
+            for (var i = 0; i < v0.Length && i < bk.Length; i++) s += v0[i] * bk[i];
             s *= tau[k];
-            for (var i = k; i < rows; i++) b[i] -= s * col[i];
+            for (var i = 0; i < v0.Length && i < bk.Length; i++) bk[i] -= s * v0[i];
         }
     }
 
