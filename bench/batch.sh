@@ -9,7 +9,8 @@
 # BENCH_SIZES (space-separated RUNSxPOINTS; the first size is also timed with plots against the baseline,
 # the others with plots for TraceKin alone),
 # BENCH_WORKERS (TraceKin workers; default: all cores),
-# BENCH_MORE_PLOTS (0: skip TraceKin's runs with PNGs on the sizes after the first; default 1).
+# BENCH_MORE_PLOTS (0: skip TraceKin's runs with PNGs on the sizes after the first; default 1),
+# BENCH_COMPARE_WITH (a folder of earlier outputs, DIR/RUNSxPOINTS/summary.json and tables, to compare with).
 set -euo pipefail
 
 REPO=$(cd "$(dirname "$0")/.." && pwd)
@@ -110,6 +111,17 @@ for size in $SIZES; do
     (( t_np_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
     $PY "$REPO/bench/compare_results.py" "$out/tracekin-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
         sed 's/^/  /' | tee -a "$REPORT" || STATUS=1
+    # Against an earlier code's outputs on the same batch (BENCH_COMPARE_WITH=DIR holding DIR/RUNSxPOINTS/summary.json
+    # and its tables): every number the two share, and the per-run tables byte for byte.
+    if [[ -n ${BENCH_COMPARE_WITH:-} && -f $BENCH_COMPARE_WITH/$size/summary.json ]]; then
+        $PY "$REPO/bench/compare_summaries.py" "$BENCH_COMPARE_WITH/$size/summary.json" "$out/tracekin-noplots/summary.json" 2>&1 |
+            tail -1 | sed 's/^/  against earlier outputs: summary.json: /' | tee -a "$REPORT"
+        for table in runs.csv initial-rates.csv spikes.csv law-fits.csv law-parameters.csv; do
+            [[ -f $BENCH_COMPARE_WITH/$size/$table ]] || continue
+            cmp -s "$BENCH_COMPARE_WITH/$size/$table" "$out/tracekin-noplots/$table" && same="identical" || same="differs"
+            echo "  against earlier outputs: $table $same" | tee -a "$REPORT"
+        done
+    fi
 
     if (( FIRST )); then
         timed "baseline-plots-$size" $PY "$PEER/pipeline.py" "$batch" --out "$out/baseline-plots" --jobs 2
