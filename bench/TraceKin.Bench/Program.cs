@@ -14,6 +14,8 @@ using TraceKin.Traces;
 //                                                time each stage per run (read, SHA-256, parse, convert, rates,
 //                                                plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
+//   TraceKin.Bench render SERIES --parts         one run plot's thread CPU by part (law curve, build, each series
+//                                                drawn alone, encoding); run with DOTNET_TieredCompilation=0
 //   TraceKin.Bench ingest SERIES [--repeat N] [--read-all-bytes]
 //                                                read (ExportBytes, or File.ReadAllBytes as SeriesRunner does), parse
 //                                                and convert only, one thread, best of N passes per stage (thread CPU);
