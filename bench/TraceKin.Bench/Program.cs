@@ -340,7 +340,11 @@ if (args[0] == "render" && args.Contains("--parts"))
     }
     parts.Add(("draw_without_legend_ms", best(r => { var m = RunPlot.Build(r); m.Legends.Clear(); return Cpu(() => Draw(m)); })));
     foreach (var (name, ms) in parts) Console.WriteLine(string.Create(ci, $"{name}={ms:F3}"));
+    var alloc0 = GC.GetAllocatedBytesForCurrentThread();
+    foreach (var r in runs) _ = renderer.Render(RunPlot.Build(r));
+    var allocated = (GC.GetAllocatedBytesForCurrentThread() - alloc0) / (double)runs.Count;
     Console.WriteLine(string.Create(ci, $"runs={runs.Count}"));
+    Console.WriteLine(string.Create(ci, $"allocated_kb_per_plot={allocated / 1024:F0}"));
     Console.WriteLine(string.Create(ci, $"law_at_every_sample_ms={law / 1e6 / runs.Count:F3}"));
     Console.WriteLine(string.Create(ci, $"build_ms={build:F3}"));
     Console.WriteLine(string.Create(ci, $"draw_ms={draw:F3}"));

@@ -21,15 +21,21 @@ internal enum PixelOrder
 /// alpha (colour type 6) or, for an opaque image, as truecolour (colour type 2, three bytes a pixel: a quarter less to
 /// compress). Every row uses the Up filter, a byte-wise difference from the row above that vectorises and turns the
 /// long vertical runs of a plot into zeros; the filtered rows are compressed by the runtime's zlib at its fastest
-/// level, a block of rows at a time while they are still in the cache. The image is lossless. Pixels may come in R, G,
+/// level, in one call for a plot. The image is lossless. Pixels may come in R, G,
 /// B, A or in B, G, R, A order (<see cref="PixelOrder"/>); the reordering is done in the same pass as the filter.
 /// </summary>
 internal sealed class PngWriter
 {
     private static ReadOnlySpan<byte> Signature => [0x89, (byte)'P', (byte)'N', (byte)'G', 0x0D, 0x0A, 0x1A, 0x0A];
 
-    // Rows filtered per call to the compressor: a block of about 64 kB stays in the cache between the two passes.
-    private const int BlockBytes = 64 * 1024;
+    // Rows filtered per call to the compressor: the whole picture of a plot in one call. Each call has a cost of its own
+    // in the compressor; blocks of 64 kB, meant to stay in the cache, made a run plot about 8 % slower to encode
+    // (bench/README.md). Larger pictures are given in blocks of up to 16 MB, which bounds the buffer.
+    private const int DefaultBlockBytes = 16 << 20;
+    private readonly int _blockBytes;
+
+    /// <param name="blockBytes">At most this many filtered bytes per call to the compressor (at least one row).</param>
+    public PngWriter(int blockBytes = DefaultBlockBytes) => _blockBytes = blockBytes;
 
     // Reused from image to image (one writer per thread): one block of filtered rows and the compressed stream.
     private byte[] _filtered = [];
@@ -53,7 +59,7 @@ internal sealed class PngWriter
 
         // Filtered scanlines: one filter-type byte, then the row minus the row above (the first row is unchanged),
         // in the output's byte order. A block holds whole rows, and 16 bytes more for the vector stores' overhang.
-        var rowsPerBlock = Math.Clamp(BlockBytes / (outRow + 1), 1, height);
+        var rowsPerBlock = Math.Clamp(_blockBytes / (outRow + 1), 1, height);
         var blockSize = rowsPerBlock * (outRow + 1) + 16;
         if (_filtered.Length < blockSize) _filtered = GC.AllocateUninitializedArray<byte>(blockSize);
         var filtered = _filtered;

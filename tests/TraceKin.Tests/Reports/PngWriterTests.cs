@@ -61,8 +61,10 @@ public sealed class PngWriterTests
     [InlineData(7, 5, false, true)]
     [InlineData(900, 650, true, true)]
     [InlineData(901, 31, false, true)]
-    [InlineData(20_000, 3, true, true)] // a row longer than one compression block
-    public void Written_png_decodes_to_the_same_pixels(int width, int height, bool bgra, bool opaque)
+    [InlineData(20_000, 3, true, true)]
+    [InlineData(900, 650, true, true, 100_000)] // the rows given to the compressor in blocks
+    [InlineData(300, 7, false, false, 1_000)]  // a row longer than one block
+    public void Written_png_decodes_to_the_same_pixels(int width, int height, bool bgra, bool opaque, int blockBytes = 16 << 20)
     {
         var order = bgra ? PixelOrder.Bgra : PixelOrder.Rgba;
         var rng = new Random(width * 31 + height);
@@ -76,7 +78,7 @@ public sealed class PngWriterTests
             pixels[i + 2] = noisy ? (byte)rng.Next(256) : (byte)(i / 4 % width < width / 2 ? 255 : 40);
             pixels[i + 3] = opaque || !noisy ? (byte)255 : (byte)rng.Next(256);
         }
-        var writer = new PngWriter();
+        var writer = new PngWriter(blockBytes);
         var png = writer.Write(pixels, width, height, order, opaque);
         Assert.Equal(png, writer.Write(pixels, width, height, order, opaque)); // reused buffers give the same file
         Assert.Equal(opaque ? 2 : 6, png[8 + 8 + 9]); // IHDR colour type: truecolour, or truecolour with alpha
