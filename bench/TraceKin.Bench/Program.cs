@@ -14,6 +14,8 @@ using TraceKin.Traces;
 //                                                time each stage per run (read, SHA-256, parse, convert, rates,
 //                                                plot) and sum
 //   TraceKin.Bench render SERIES                 CPU time per PNG (one thread) for ways of rendering the run plots
+//   TraceKin.Bench render SERIES --parts         one run plot's thread CPU by part (law curve, build, each series
+//                                                drawn alone, encoding); run with DOTNET_TieredCompilation=0
 //   TraceKin.Bench ingest SERIES [--repeat N] [--read-all-bytes]
 //                                                read (ExportBytes, or File.ReadAllBytes as SeriesRunner does), parse
 //                                                and convert only, one thread, best of N passes per stage (thread CPU);
@@ -283,6 +285,77 @@ if (args[0] == "phases")
     return 0;
 }
 
+if (args[0] == "render" && args.Contains("--parts"))
+{
+    // Where one run plot's CPU goes, thread CPU per phase, on one thread, best of 5 passes over the runs (up to 200):
+    // the chosen law at every sample (first use of the lazy curve), the model build (decimation, bands), OxyPlot's
+    // layout (Update and the measuring in Render are not separable: "draw" is layout + rasterisation), and the PNG
+    // encoding (the whole PngRenderer.Render less a draw of the same model into a bitmap of the same format).
+    var runs = rows.Take(200).Select(r => SeriesRunner.AnalyseRun(folder, r, config).Run!).ToList();
+    long law = 0;
+    foreach (var r in runs) { var u = ThreadCpu.Nanoseconds(); _ = r.Rates.Headline.Fitted; law += ThreadCpu.Nanoseconds() - u; }
+    using var renderer = new PngRenderer();
+    using var bitmap = new SkiaSharp.SKBitmap(new SkiaSharp.SKImageInfo(PlotStyle.Width, PlotStyle.Height, SkiaSharp.SKImageInfo.PlatformColorType, SkiaSharp.SKAlphaType.Opaque));
+    using var context = new OxyPlot.SkiaSharp.SkiaRenderContext { RenderTarget = OxyPlot.SkiaSharp.RenderTarget.PixelGraphic, DpiScale = 1, UseTextShaping = false };
+    byte[] Draw(OxyPlot.PlotModel model)
+    {
+        using var canvas = new SkiaSharp.SKCanvas(bitmap);
+        context.SkCanvas = canvas;
+        ((OxyPlot.IPlotModel)model).Update(true);
+        canvas.Clear(SkiaSharp.SKColors.White);
+        ((OxyPlot.IPlotModel)model).Render(context, new OxyPlot.OxyRect(0, 0, PlotStyle.Width, PlotStyle.Height));
+        canvas.Flush();
+        context.SkCanvas = null;
+        return [];
+    }
+    _ = renderer.Render(RunPlot.Build(runs[0])); _ = Draw(RunPlot.Build(runs[0]));
+    double best(Func<RunResult, long> part)
+    {
+        var b = double.MaxValue;
+        for (var pass = 0; pass < 5; pass++)
+        {
+            long sum = 0;
+            foreach (var r in runs) sum += part(r);
+            b = Math.Min(b, sum / 1e6 / runs.Count);
+        }
+        return b;
+    }
+    long Cpu(Action a) { var u = ThreadCpu.Nanoseconds(); a(); return ThreadCpu.Nanoseconds() - u; }
+    long bytes = 0;
+    var build = best(r => Cpu(() => RunPlot.Build(r)));
+    var draw = best(r => { var m = RunPlot.Build(r); return Cpu(() => Draw(m)); });
+    var whole = best(r => { var m = RunPlot.Build(r); return Cpu(() => bytes += renderer.Render(m).Length); });
+    var axes = best(r => { var m = RunPlot.Build(r); m.Series.Clear(); m.Annotations.Clear(); m.Legends.Clear(); return Cpu(() => Draw(m)); });
+    var model0 = RunPlot.Build(runs[0]);
+    var parts = new List<(string, double)>();
+    for (var k = 0; k < model0.Series.Count; k++)
+    {
+        var keep = k;
+        parts.Add(($"draw_axes_and_series_{keep}_{model0.Series[keep].GetType().Name}_ms", best(r => { var m = RunPlot.Build(r); var s = m.Series[keep]; m.Series.Clear(); m.Annotations.Clear(); m.Legends.Clear(); m.Series.Add(s); return Cpu(() => Draw(m)); })));
+    }
+    for (var k = 0; k < model0.Annotations.Count; k++)
+    {
+        var keep = k;
+        parts.Add(($"draw_axes_and_annotation_{keep}_{model0.Annotations[keep].GetType().Name}_ms", best(r => { var m = RunPlot.Build(r); var a = m.Annotations[keep]; m.Series.Clear(); m.Annotations.Clear(); m.Legends.Clear(); m.Annotations.Add(a); return Cpu(() => Draw(m)); })));
+    }
+    parts.Add(("draw_without_legend_ms", best(r => { var m = RunPlot.Build(r); m.Legends.Clear(); return Cpu(() => Draw(m)); })));
+    foreach (var (name, ms) in parts) Console.WriteLine(string.Create(ci, $"{name}={ms:F3}"));
+    var alloc0 = GC.GetAllocatedBytesForCurrentThread();
+    foreach (var r in runs) _ = renderer.Render(RunPlot.Build(r));
+    var allocated = (GC.GetAllocatedBytesForCurrentThread() - alloc0) / (double)runs.Count;
+    Console.WriteLine(string.Create(ci, $"runs={runs.Count}"));
+    Console.WriteLine(string.Create(ci, $"allocated_kb_per_plot={allocated / 1024:F0}"));
+    Console.WriteLine(string.Create(ci, $"law_at_every_sample_ms={law / 1e6 / runs.Count:F3}"));
+    Console.WriteLine(string.Create(ci, $"build_ms={build:F3}"));
+    Console.WriteLine(string.Create(ci, $"draw_ms={draw:F3}"));
+    Console.WriteLine(string.Create(ci, $"draw_axes_text_only_ms={axes:F3}"));
+    Console.WriteLine(string.Create(ci, $"render_png_ms={whole:F3}"));
+    Console.WriteLine(string.Create(ci, $"encode_ms={whole - draw:F3}"));
+    Console.WriteLine(string.Create(ci, $"kb_per_png={bytes / 1024.0 / runs.Count / 5:F1}"));
+    Console.WriteLine(string.Create(ci, $"total_ms={law / 1e6 / runs.Count + build + whole:F3}"));
+    return 0;
+}
+
 if (args[0] == "render")
 {
     var models = rows.Take(40).Select(r => SeriesRunner.AnalyseRun(folder, r, config).Run!).ToList();
@@ -315,7 +388,7 @@ if (args[0] == "render")
         Time($"reused_zlib{z}_shaping{(shaping ? "on" : "off")}_{filter}_{(opaque ? "opaque" : "alpha")}", r => renderer.Render(RunPlot.Build(r)));
     }
     using (var own = new PngRenderer())
-        Time("reused_own_encoder_rgba_up_fastest", r => own.Render(RunPlot.Build(r)));
+        Time("reused_own_encoder_rgb_up_fastest", r => own.Render(RunPlot.Build(r)));
     using (var renderer = new PngRenderer())
     {
         Time("build_only", r => { _ = RunPlot.Build(r); return []; });

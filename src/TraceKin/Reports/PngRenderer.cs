@@ -22,6 +22,7 @@ public sealed class PngRenderer : IDisposable
     public const int DefaultZlibLevel = 1;
 
     private readonly SKBitmap _bitmap;
+    private readonly PixelOrder _order;
     private readonly PngWriter _png = new();
     private readonly SkiaRenderContext _context;
 
@@ -45,7 +46,10 @@ public sealed class PngRenderer : IDisposable
         ZlibLevel = zlibLevel;
         Filter = filter;
         OwnEncoder = ownEncoder;
-        _bitmap = ownEncoder ? new SKBitmap(new SKImageInfo(width, height, SKColorType.Rgba8888, SKAlphaType.Opaque))
+        // Our encoder takes the drawing library's native pixel order (B, G, R, A on little-endian machines), in which
+        // it draws about twice as fast as into R, G, B, A (bench/README.md); the writer reorders while it filters.
+        _order = SKImageInfo.PlatformColorType == SKColorType.Bgra8888 ? PixelOrder.Bgra : PixelOrder.Rgba;
+        _bitmap = ownEncoder ? new SKBitmap(new SKImageInfo(width, height, _order == PixelOrder.Bgra ? SKColorType.Bgra8888 : SKColorType.Rgba8888, SKAlphaType.Opaque))
             : opaque ? new SKBitmap(new SKImageInfo(width, height, SKImageInfo.PlatformColorType, SKAlphaType.Opaque)) : new SKBitmap(width, height);
         _context = new SkiaRenderContext { RenderTarget = RenderTarget.PixelGraphic, DpiScale = 1, UseTextShaping = textShaping };
     }
@@ -58,12 +62,20 @@ public sealed class PngRenderer : IDisposable
             var m = (IPlotModel)model;
             m.Update(true);
             var bg = model.Background;
-            canvas.Clear(new SKColor(bg.R, bg.G, bg.B, bg.A));
+            // Every pixel starts opaque, and the plot draws over it (source-over), so it stays opaque: a see-through
+            // background is laid over white.
+            if (bg.A == 255) canvas.Clear(new SKColor(bg.R, bg.G, bg.B));
+            else
+            {
+                canvas.Clear(SKColors.White);
+                if (bg.A > 0) canvas.DrawColor(new SKColor(bg.R, bg.G, bg.B, bg.A), SKBlendMode.SrcOver);
+            }
             m.Render(_context, new OxyRect(0, 0, Width, Height));
             canvas.Flush();
             _context.SkCanvas = null;
         }
-        if (OwnEncoder) return _png.Write(_bitmap.GetPixelSpan(), Width, Height);
+        // The bitmap is opaque (the background is cleared to an opaque colour first): three bytes a pixel suffice.
+        if (OwnEncoder) return _png.Write(_bitmap.GetPixelSpan(), Width, Height, _order, opaque: true);
         using var ms = new MemoryStream(64 * 1024);
         using (var pixmap = _bitmap.PeekPixels())
             pixmap.Encode(ms, new SKPngEncoderOptions(Filter, ZlibLevel));
