@@ -115,7 +115,7 @@ for size in $SIZES; do
     # and its tables): every number the two share, and the per-run tables byte for byte.
     if [[ -n ${BENCH_COMPARE_WITH:-} && -f $BENCH_COMPARE_WITH/$size/summary.json ]]; then
         $PY "$REPO/bench/compare_summaries.py" "$BENCH_COMPARE_WITH/$size/summary.json" "$out/tracekin-noplots/summary.json" 2>&1 |
-            tail -1 | sed 's/^/  against earlier outputs: summary.json: /' | tee -a "$REPORT"
+            tail -1 | sed 's/^/  against earlier outputs: summary.json: /' | tee -a "$REPORT" || true
         for table in runs.csv initial-rates.csv spikes.csv law-fits.csv law-parameters.csv; do
             [[ -f $BENCH_COMPARE_WITH/$size/$table ]] || continue
             cmp -s "$BENCH_COMPARE_WITH/$size/$table" "$out/tracekin-noplots/$table" && same="identical" || same="differs"
