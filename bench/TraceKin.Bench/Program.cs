@@ -29,7 +29,8 @@ using TraceKin.Traces;
 //                                                live managed heap before and after the analysis (bytes a run
 //                                                retains), after the outputs, and the peak working set; --wait
 //                                                pauses after the analysis until FILE exists (for dotnet-gcdump);
-//                                                --breakdown lists the bytes the result holds by path and by type
+//                                                --breakdown lists the bytes the result holds by path and by type;
+//                                                --allocations samples what the outputs allocate, by type and heap
 // Output is `key=value` lines on stdout so that bench/batch.sh can pick the numbers up.
 if (args.Length < 2 || args[0] is not ("parse" or "stages" or "render" or "phases" or "ingest" or "memory"))
 {
@@ -201,9 +202,13 @@ if (args[0] == "memory")
         {
             // The series stage again on the same per-run results: what it allocates and how much the heap grows meanwhile.
             var points = result.Runs.Select(r => new TraceKin.Series.RunPoint(r.Id, r.Rates.Headline.Value, r.Rates.Headline.StdError, r.Plan.InitialConcentrations, r.Plan.TemperatureK)).ToList();
+            using var seriesSampler = args.Contains("--allocations") ? new AllocationSampler() : null;
             var allocated = GC.GetTotalAllocatedBytes(true);
             var clock = Stopwatch.StartNew();
+            seriesSampler?.Start();
             var findings = TraceKin.Series.OrderAnalysis.Analyse(points, config.Model);
+            seriesSampler?.Stop();
+            seriesSampler?.Print("series", ci);
             Console.WriteLine(string.Create(ci, $"series_stage_again_seconds={clock.Elapsed.TotalSeconds:F3} allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocated) / 1e6:F1} findings_live_mb={(GC.GetTotalMemory(true) - after) / 1e6:F1}"));
             GC.KeepAlive(findings);
         }
@@ -212,10 +217,16 @@ if (args[0] == "memory")
             Console.WriteLine($"pid={Environment.ProcessId} waiting for {wait}");
             while (!File.Exists(wait)) Thread.Sleep(200);
         }
+        using var sampler = args.Contains("--allocations") ? new AllocationSampler() : null;
+        GC.Collect(2, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+        GcInfo("before_write");
         sw.Restart();
         var allocatedBefore = GC.GetTotalAllocatedBytes(true);
+        sampler?.Start();
         failed = outputs.Write(result);
+        sampler?.Stop();
         Console.WriteLine(string.Create(ci, $"write_allocated_mb={(GC.GetTotalAllocatedBytes(true) - allocatedBefore) / 1e6:F1}"));
+        sampler?.Print("write", ci);
         GcInfo("after_write");
         Console.WriteLine(string.Create(ci, $"write_seconds={sw.Elapsed.TotalSeconds:F3}"));
     }

@@ -157,8 +157,9 @@ public static class AnalyseCommand
             Planned = progress.Planned,
         };
         var result = SeriesRunner.Analyse(seriesDir, options);
-        // The series stage's working arrays are garbage now: collected and the heap packed before the writers allocate.
-        GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
+        // The series stage's working arrays are garbage now: collected, the heap packed and the freed memory given back
+        // to the system (aggressive mode) before the writers allocate.
+        GC.Collect(2, GCCollectionMode.Aggressive, blocking: true, compacting: true);
         var outputsClock = System.Diagnostics.Stopwatch.StartNew();
         // Every series output, the report last; one that fails is listed in the report and here, the others are written.
         var notWritten = outputs.Write(result);

@@ -37,7 +37,8 @@ public sealed record AnalysisOptions
     public int KeepEveryFitUpTo { get; init; } = int.MaxValue;
     /// <summary>
     /// One blocking, compacting collection of the managed heap once the per-run stages are done, before the series
-    /// stage: what the runs keep then lies packed rather than among the garbage of their full versions, which lowers
+    /// stage, in aggressive mode (the freed memory is given back to the system at once): what the runs keep then lies
+    /// packed rather than among the garbage of their full versions, which lowers
     /// the peak memory of a large batch (bench/README.md, "Batch speed"). For the command line; off by default.
     /// </summary>
     public bool CompactAfterRuns { get; init; }

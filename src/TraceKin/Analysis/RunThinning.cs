@@ -63,7 +63,8 @@ internal static class RunThinning
 
     /// <summary>The run without per-point arrays (see <see cref="TraceRetention.None"/>).</summary>
     /// <param name="keepEveryFit">False: only the chosen fit and the fits that did not converge are kept (their notes
-    /// are reported), and of the initial-rate estimates only the headline; the others were written by the run sink.</param>
+    /// are reported), without their parameters, and of the initial-rate estimates only the headline; the others, and
+    /// the parameters, were written by the run sink.</param>
     public static RunResult Strip(RunResult run, bool keepEveryFit = true) => Strip(run, keepEveryFit, null);
 
     /// <param name="shared">One copy of each value that repeats between runs (texts, pairs, emptied traces), kept for
@@ -118,7 +119,9 @@ internal static class RunThinning
                 {
                     Model = Text(f.Fit.Model),
                     ExitDetail = Text(f.Fit.ExitDetail),
-                    Parameters = shared is null ? f.Fit.Parameters : f.Fit.Parameters.Select(p => p with { Name = Text(p.Name) }).ToArray(),
+                    // Beyond the threshold no output reads a kept fit's parameters again (law-parameters.csv has them;
+                    // the report lists fit by fit only up to the threshold): a quarter of what such a run holds.
+                    Parameters = !keepEveryFit ? [] : shared is null ? f.Fit.Parameters : f.Fit.Parameters.Select(p => p with { Name = Text(p.Name) }).ToArray(),
                     Residuals = [],
                     Covariance = null,
                 },

@@ -155,8 +155,10 @@ public static class SeriesRunner
         }).ToList();
         SeriesFindings? findings = null;
         // The runs' stripped records were promoted among their full versions' garbage: one compacting collection packs
-        // them together before the series stage allocates (a few megabytes less at the peak of a 20,000-run batch).
-        if (options.CompactAfterRuns) GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
+        // them together before the series stage allocates. Aggressive, not only forced: the freed regions go back to
+        // the system at once instead of staying committed for later allocations (bench/README.md, "Memory, 2026-12-04
+        // 04:50 UTC": about 8 MB less at the peak of a 20,000-run batch, no measurable time).
+        if (options.CompactAfterRuns) GC.Collect(2, GCCollectionMode.Aggressive, blocking: true, compacting: true);
         var seriesClock = System.Diagnostics.Stopwatch.StartNew();
         try { findings = OrderAnalysis.Analyse(points, config.Model); }
         catch (Exception ex) when (ex is not OperationCanceledException)

@@ -474,7 +474,6 @@ public static class ReportHtml
         var species = r.Plan?.Species ?? r.Runs.SelectMany(x => x.Plan.InitialConcentrations.Keys).Distinct().Order(StringComparer.Ordinal).ToList();
         var scales = species.ToDictionary(s => s, s => RunPlot.ConcentrationScale(r.Runs.Select(x => x.Plan.InitialConcentrations.GetValueOrDefault(s, 0)).ToArray()));
         var extra = r.Runs.SelectMany(x => x.Plan.Extra.Keys).Distinct().ToList();
-        var perRunK = r.Findings?.PerRunK.ToDictionary(k => k.RunId) ?? [];
         var kUnit = r.Findings?.RateConstant?.Unit ?? "";
         var used = new HashSet<string>(r.Findings?.RunsUsed ?? [], StringComparer.Ordinal);
         var units = r.Runs.Select(x => x.Rates.Headline.Unit).Distinct().ToList();
@@ -487,7 +486,8 @@ public static class ReportHtml
         foreach (var e in extra) h.Element("th", e);
         h.Element("th", "v0 ± SE" + (rateUnit.Length > 0 ? $" ({rateUnit})" : ""));
         h.Raw("<th>dof</th><th>method</th><th>window (s)</th>");
-        if (perRunK.Count > 0) h.Element("th", "k for this run" + (kUnit.Length > 0 ? $" ({kUnit})" : ""));
+        var hasK = r.Findings?.PerRunK.Count > 0;
+        if (hasK) h.Element("th", "k for this run" + (kUnit.Length > 0 ? $" ({kUnit})" : ""));
         h.Raw("<th>warnings</th></tr></thead>\n<tbody>\n");
         bool Flagged(RunResult run) => run.Warnings.Any(w => !WarningTiers.IsNote(w)) || run.Rates.Fits.Any(f => f.Chosen && !f.Fit.Converged);
         // A large series lists the runs that need attention (flagged, or left out of the order fit) first, then the
@@ -495,6 +495,9 @@ public static class ReportHtml
         var listed = r.Runs.Count <= MaxListedRuns ? r.Runs
             : r.Runs.Where(x => Flagged(x) || (used.Count > 0 && !used.Contains(x.Id)))
                 .Concat(r.Runs.Where(x => !(Flagged(x) || (used.Count > 0 && !used.Contains(x.Id))))).Take(MaxListedRuns).ToList();
+        // k of the listed runs only (a table of every run's k is a megabyte at 20,000 runs; runs.csv has them all).
+        var listedIds = new HashSet<string>(listed.Select(x => x.Id), StringComparer.Ordinal);
+        var perRunK = hasK ? r.Findings!.PerRunK.Where(k => listedIds.Contains(k.RunId)).ToDictionary(k => k.RunId) : [];
         foreach (var run in listed)
         {
             var flagged = Flagged(run);
@@ -510,7 +513,7 @@ public static class ReportHtml
                 .Text(ReportNumber.Measured(v.Value, v.StdError) + (rateUnit.Length == 0 ? " " + v.Unit : "")).Raw("</td>")
                 .Raw($"<td class=\"num\">{v.Dof.ToString(CultureInfo.InvariantCulture)}</td>").Element("td", v.Method)
                 .Element("td", $"{ReportNumber.Plain(v.WindowStart)} – {ReportNumber.Plain(v.WindowEnd)}", "class=\"num\"");
-            if (perRunK.Count > 0)
+            if (hasK)
                 h.Element("td", perRunK.TryGetValue(run.Id, out var k) ? ReportNumber.Measured(k.Value, k.StdError) : "—", "class=\"num\"");
             h.Element("td", run.Warnings.Count == 0 ? "" : string.Join("; ", run.Warnings.Select(w => w.Message)), run.Warnings.Count > 0 ? "class=\"warn-cell\"" : "");
             h.Raw("</tr>\n");
@@ -615,7 +618,10 @@ public static class ReportHtml
         foreach (var run in withFits)
             foreach (var f in run.Rates.Fits)
             {
-                var pars = string.Join("; ", f.Fit.Parameters.Select(p => $"{p.Name} = {ReportNumber.Measured(p.Value, p.StdError)}{(p.Varied ? "" : " (fixed)")}"));
+                // A run kept without its fits' parameters (a series planned beyond MaxListedRuns runs of which some were
+                // rejected) points to the table that has them.
+                var pars = f.Fit.Parameters.Count == 0 ? "in law-parameters.csv"
+                    : string.Join("; ", f.Fit.Parameters.Select(p => $"{p.Name} = {ReportNumber.Measured(p.Value, p.StdError)}{(p.Varied ? "" : " (fixed)")}"));
                 h.Raw(f.Fit.Converged ? "<tr>" : "<tr class=\"flagged\">").Element("td", run.Id).Element("td", f.Law).Element("td", f.Chosen ? "yes" : "")
                     .Element("td", f.Fit.Converged ? "yes" : $"no ({f.Fit.Exit})").Element("td", f.Fit.Converged ? pars : "not a result")
                     .Element("td", ReportNumber.Plain(f.Fit.ReducedChiSquare), "class=\"num\"").Element("td", ReportNumber.Plain(f.Fit.AicC, 6), "class=\"num\"").Raw("</tr>\n");

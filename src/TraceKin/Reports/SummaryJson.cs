@@ -50,14 +50,15 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
     /// <summary>summary.json as records. Runs are mapped as they are written, so a big series is never held twice.</summary>
     internal static SummaryRecord Record(SeriesResult r, bool plots = true)
     {
-        var names = r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
+        // The plot files' names only when there are plots: at 20,000 runs the table of names is a few megabytes.
+        var names = !plots ? null : r.Plan is { } plan ? RunFileNames.For(plan) : RunFileNames.For(r.Runs.Select(x => x.Id));
         var f0 = r.Findings;
         var k = f0?.RateConstant;
         return new SummaryRecord(
             Tool: "TraceKin",
             ToolVersion: r.ToolVersion,
             Series: r.Name,
-            Runs: r.Runs.Select(run => Run(run, plots ? "plots/" + names.PlotFile(run.Id) : null)),
+            Runs: r.Runs.Select(run => Run(run, names is null ? null : "plots/" + names.PlotFile(run.Id))),
             Orders: SeriesModelsJson.Orders(f0?.Orders ?? []),
             RateConstant: k is null ? null : new HeadlineRateConstantRecord(k.Value, k.StdError, k.Unit, k.Dof, [k.Ci95Low, k.Ci95High], k.Method,
                 k.LawChoiceStdError,

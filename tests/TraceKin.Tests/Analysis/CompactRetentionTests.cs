@@ -49,6 +49,8 @@ public sealed class CompactRetentionTests
             // the other estimates are in initial-rates.csv, the runs test in law-fits.csv
             Assert.Same(r.Rates.Headline, Assert.Single(r.Rates.Estimates));
             Assert.All(r.Rates.Fits, f => Assert.Null(f.Runs));
+            // and the kept fits' parameters in law-parameters.csv
+            Assert.All(r.Rates.Fits, f => Assert.Empty(f.Fit.Parameters));
             Assert.Empty(r.Converted.Concentration.Values);
         }
         // equal values are one object: the format decisions, the headline's method text, the emptied concentration trace
@@ -60,6 +62,29 @@ public sealed class CompactRetentionTests
         // initial-rates.csv still has every estimate of every run (one row each, after the header)
         var rows = File.ReadAllLines(Path.Combine(outDir.Path, RunTables.RatesFile)).Length - 1;
         Assert.True(rows > runs.Count, $"{rows} estimate rows for {runs.Count} runs");
+    }
+
+    [Fact]
+    public void Beyond_the_threshold_summary_json_runs_csv_and_the_per_run_tables_are_the_same_as_with_every_fit_kept()
+    {
+        // What the runs no longer hold (the other fits and estimates, the kept fits' parameters, the runs tests) is
+        // read by none of these outputs: each is byte for byte what it is when every run keeps everything.
+        var series = RepoPaths.Sample("violet-complex-acid");
+        using var compactDir = new RepoPaths.TempDir();
+        using var fullDir = new RepoPaths.TempDir();
+        SeriesResult Run(string dir, int keepUpTo)
+        {
+            using var outputs = new SeriesOutputs(dir, plots: false);
+            var r = SeriesRunner.Analyse(series, new AnalysisOptions { Workers = 2, Retention = TraceRetention.None, KeepEveryFitUpTo = keepUpTo, RunSink = outputs.RunSink });
+            Assert.Empty(outputs.Write(r));
+            return r;
+        }
+        var compact = Run(compactDir.Path, 4);
+        Run(fullDir.Path, int.MaxValue);
+        Assert.Contains(compact.Runs, r => r.Rates.Fits.Count > 0 && r.Rates.Fits.All(f => f.Fit.Parameters.Count == 0));
+        foreach (var file in RunTables.FileNames.Concat([SummaryJson.FileName, RunsCsv.FileName, PairRatiosCsv.FileName]))
+            Assert.Equal(File.ReadAllBytes(Path.Combine(fullDir.Path, file)), File.ReadAllBytes(Path.Combine(compactDir.Path, file)));
+        Assert.True(File.ReadAllLines(Path.Combine(compactDir.Path, RunTables.ParametersFile)).Length > compact.Runs.Count, "every fit's parameters are in the table");
     }
 
     [Fact]
