@@ -15,16 +15,21 @@ public sealed class MixedSecondOrderLaw : RateLaw
     public override IReadOnlyList<string> ShapeNames => ["[B]0"];
     public override (double Low, double High)[] ShapeBounds => [(1e-300, double.PositiveInfinity)];
 
-    public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
+    /// <summary>The quantities u and its gradient are built from, for <see cref="Fraction"/> and <see cref="Value"/> alike.</summary>
+    private static (bool AIsLo, double Lo, double Hi, double D, double Eps, double Em1, double Den) Terms(double t, double kk, double a0, double b0)
     {
-        var b0 = shape[0];
         var aIsLo = a0 <= b0;
         double lo = aIsLo ? a0 : b0, hi = aIsLo ? b0 : a0;
         var d = hi - lo;
         var eps = d / hi;
         var kappa = kk * d;
         var em1 = Expm1(kappa * t);
-        var den = em1 + eps;
+        return (aIsLo, lo, hi, d, eps, em1, em1 + eps);
+    }
+
+    public override double Fraction(double t, double kk, double a0, ReadOnlySpan<double> shape, Span<double> grad)
+    {
+        var (aIsLo, lo, hi, d, eps, em1, den) = Terms(t, kk, a0, shape[0]);
         double u, duKappa, duEps;
         if (eps < 1e-9)
         {
@@ -52,14 +57,7 @@ public sealed class MixedSecondOrderLaw : RateLaw
     public override double Value(double t, double kk, double a0, ReadOnlySpan<double> shape)
     {
         // The arithmetic of Fraction for u, without the gradient.
-        var b0 = shape[0];
-        var aIsLo = a0 <= b0;
-        double lo = aIsLo ? a0 : b0, hi = aIsLo ? b0 : a0;
-        var d = hi - lo;
-        var eps = d / hi;
-        var kappa = kk * d;
-        var em1 = Expm1(kappa * t);
-        var den = em1 + eps;
+        var (_, _, hi, _, eps, _, den) = Terms(t, kk, a0, shape[0]);
         if (eps < 1e-9) return 1 / (1 + kk * hi * t);
         return eps / den;
     }
