@@ -1,4 +1,3 @@
-using System.Globalization;
 using TraceKin.Fitting;
 using TraceKin.Series;
 
@@ -28,19 +27,11 @@ public sealed class GroupedLeastSquaresTests
     {
         // R Core Team, "An Introduction to R", §11.7.1 (nls on Puromycin, treated); Bates & Watts (1988), App. A1.3:
         // twelve rates at six concentrations, each measured twice.
-        var lines = File.ReadAllLines(Path.Combine(AppContext.BaseDirectory, "TestData", "kinetics", "puromycin.csv")).Skip(1)
-            .Select(l => l.Split(',')).Where(p => p[2] == "treated").ToArray();
-        var x = lines.Select(p => double.Parse(p[0], CultureInfo.InvariantCulture)).ToArray();
-        var v = lines.Select(p => double.Parse(p[1], CultureInfo.InvariantCulture)).ToArray();
+        var (x, v) = TraceKin.Tests.Series.SaturationTests.PuromycinTreated();
         var model = SaturationModel.Hyperbola(x);
         Assert.Equal(6, GroupedLeastSquares.Group(model, null).Count);
         var fit = GroupedLeastSquares.Fit(model, v, [200, 0.1]);
-        Assert.True(fit.Converged, fit.ExitDetail);
-        Assert.Equal(212.68374, fit.Value("Vmax"), 1e-4);
-        Assert.Equal(0.06412128, fit.Value("Km"), 1e-7);
-        Assert.Equal(6.94716, fit["Vmax"].StdError, 6.94716 * 1e-5);
-        Assert.Equal(0.00828095, fit["Km"].StdError, 0.00828095 * 1e-5);
-        Assert.Equal(1195.449, fit.ChiSquare, 1e-3);
+        TraceKin.Tests.Series.SaturationTests.AssertPublishedTreatedFit(fit);
         Assert.Equal(12, fit.PointCount);
         Assert.Equal(10, fit.DegreesOfFreedom);
         Same(NonlinearLeastSquares.Fit(model, v, [200, 0.1]), fit, v);
