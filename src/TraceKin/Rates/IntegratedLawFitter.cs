@@ -88,11 +88,11 @@ internal static class IntegratedLawFitter
             string? leadLaw = null;
             (LawModel Model, FitResult Fit)? leadFit = null;
             var othersCompete = true;
-            HashSet<string>? partnerNeglected = null;
+            var partnerRules = false;
             if (screen && !fitEveryDrift)
             {
-                partnerNeglected = NeglectsPartner(all, partner, weights, noise) ? [new FirstOrderLaw().Name, new SecondOrderLaw().Name] : [];
-                var lead = BestPlain(all, r => partnerNeglected.Contains(r.Model.Law.Name) || r.Model.Law is PseudoFirstOrderLaw && partnerNeglected.Count > 0);
+                partnerRules = NeglectsPartner(all, partner, weights, noise);
+                var lead = BestPlain(all, r => partnerRules && AssumesBConstant(r.Model.Law));
                 if (lead.Fit is not null)
                 {
                     leadLaw = lead.Model.Law.Name;
@@ -129,7 +129,7 @@ internal static class IntegratedLawFitter
                 {
                     // Not fitted: it could only patch another law's shape. The reason is still reported whenever a
                     // patch would have been excluded (a variant past the screen that the partner rule leaves in).
-                    if (!partnerNeglected!.Contains(law.Name) && law is not PseudoFirstOrderLaw
+                    if (!(partnerRules && AssumesBConstant(law)) && law is not PseudoFirstOrderLaw
                         && (!(plainFits.TryGetValue(law.Name, out var plain) && plain.Fit.Converged) || DriftScore(plain.Model, plain.Fit, t, weights) >= DriftScreenScore))
                         skippedPatch = true;
                     continue;
@@ -179,7 +179,7 @@ internal static class IntegratedLawFitter
         if (NeglectsPartner(all, partner, weights, noise))
         {
             neglectsPartner = "the plan gives [B]0, and the mixed second-order law, which follows B's depletion and holds first order ([B]0 ≫ [A]0) and second order ([B]0 = [A]0) as its limits, describes the trace";
-            foreach (var r in all.Where(r => r.Model.Law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw && r.Fit.Converged)) entangled.Add(r.Fit);
+            foreach (var r in all.Where(r => AssumesBConstant(r.Model.Law) && r.Fit.Converged)) entangled.Add(r.Fit);
         }
         // A drift is a property of the instrument's baseline, not a patch for a law of the wrong shape (second order +
         // drift can mimic an exponential): other laws' drift variants compete only when the best drift-free law itself
@@ -229,7 +229,7 @@ internal static class IntegratedLawFitter
                 var other = Describe(m, f, false, minAll, sumW, weights, noise);
                 if (entangled.Contains(f))
                     other = other with { DeltaAicc = double.NaN, AkaikeWeight = double.NaN,
-                        ExcludedBecause = m.Law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw && neglectsPartner is not null ? neglectsPartner : driftExcluded };
+                        ExcludedBecause = AssumesBConstant(m.Law) && neglectsPartner is not null ? neglectsPartner : driftExcluded };
                 // Pseudo-first order is the first-order curve re-expressed: one curve, counted once in the average.
                 // Order n joins the average only when it is the chosen law: its extra exponent extrapolates the slope
                 // at t0 its own way, and where it is not clearly better (by 10 AICc) it only adds a bias. With the end
@@ -291,6 +291,10 @@ internal static class IntegratedLawFitter
     /// the laws that neglect B's depletion leave the choice to it?</summary>
     private static bool NeglectsPartner(List<(LawModel Model, FitResult Fit)> all, double? partner, double[] weights, double noise) =>
         partner is > 0 && all.Any(r => r.Model.Law is MixedSecondOrderLaw && !r.Model.Drift && r.Fit.Converged && !LacksFit(r.Fit, weights, noise));
+
+    /// <summary>The laws that leave the choice to mixed second order when it describes the trace (<see cref="NeglectsPartner"/>):
+    /// first and pseudo-first order take [B] constant, second order [B] = [A].</summary>
+    private static bool AssumesBConstant(RateLaw law) => law is FirstOrderLaw or PseudoFirstOrderLaw or SecondOrderLaw;
 
     /// <summary>The converged drift-free integer law with the lowest AICc among those not <paramref name="excluded"/>.</summary>
     private static (LawModel Model, FitResult Fit) BestPlain(List<(LawModel Model, FitResult Fit)> all, Func<(LawModel Model, FitResult Fit), bool> excluded) =>

@@ -78,7 +78,7 @@ public sealed class NthOrderLaw : RateLaw
     private (double LnA, double Scale) Powers(double a0, double m)
     {
         var p = _powers;
-        if (p is null || !(p.A0 == a0) || !(p.M == m) || BitConverter.DoubleToInt64Bits(p.M) != BitConverter.DoubleToInt64Bits(m))
+        if (p is null || !(p.A0 == a0) || !(p.M == m))
         {
             var lnA = Math.Log(a0);
             _powers = p = new PowerMemo(a0, m, lnA, Math.Exp(m * lnA));

@@ -620,7 +620,7 @@ public static class ReportHtml
             {
                 // A run kept without its fits' parameters (a series planned beyond MaxListedRuns runs of which some were
                 // rejected) points to the table that has them.
-                var pars = f.Fit.Parameters.Count == 0 ? "in law-parameters.csv"
+                var pars = f.Fit.Parameters.Count == 0 ? "in " + RunTables.ParametersFile
                     : string.Join("; ", f.Fit.Parameters.Select(p => $"{p.Name} = {ReportNumber.Measured(p.Value, p.StdError)}{(p.Varied ? "" : " (fixed)")}"));
                 h.Raw(f.Fit.Converged ? "<tr>" : "<tr class=\"flagged\">").Element("td", run.Id).Element("td", f.Law).Element("td", f.Chosen ? "yes" : "")
                     .Element("td", f.Fit.Converged ? "yes" : $"no ({f.Fit.Exit})").Element("td", f.Fit.Converged ? pars : "not a result")

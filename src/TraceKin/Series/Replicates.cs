@@ -28,79 +28,34 @@ public sealed record ReplicateGroup(
 
     /// <summary>
     /// Groups of two or more runs with the same conditions, in the order of their first run. A run joins the first group
-    /// whose first run has its conditions (<see cref="Same"/>). Runs whose conditions are exactly equal join the same
-    /// group, and the groups are indexed by cells of their first run's conditions, so a run is compared only with the
-    /// groups in its own cells: linear in the runs, however many distinct conditions there are.
+    /// whose first run has its conditions (<see cref="Same"/>). The groups are indexed by the cell of their first run's
+    /// conditions, so a run is compared only with the groups in its own cells: linear in the runs, however many distinct
+    /// conditions there are.
     /// </summary>
     public static IReadOnlyList<ReplicateGroup> Find(IReadOnlyList<ReplicateRun> runs)
     {
         var groups = new List<List<ReplicateRun>>();
-        var seen = new Dictionary<string, List<ReplicateRun>>(StringComparer.Ordinal);
         var cells = new Dictionary<string, List<int>>(StringComparer.Ordinal);
         foreach (var r in runs.Where(r => double.IsFinite(r.Rate)))
         {
-            var key = ExactKey(r);
-            if (key is null)
-            {
-                // A condition that is not finite is the same as no other (Same): a group of its own, never joined.
-                groups.Add([r]);
-                continue;
-            }
-            if (!seen.TryGetValue(key, out var g))
-            {
-                var first = int.MaxValue;
-                foreach (var cell in Cells(r, nearBoundary: true))
-                    if (cells.TryGetValue(cell, out var list))
-                        foreach (var i in list)
-                            if (i < first && Same(groups[i][0], r)) first = i;
-                if (first < int.MaxValue) g = groups[first];
-                else
-                {
-                    groups.Add(g = []);
-                    var own = Cells(r, nearBoundary: false).Single();
-                    if (!cells.TryGetValue(own, out var list)) cells[own] = list = [];
-                    list.Add(groups.Count - 1);
-                }
-                seen[key] = g;
-            }
-            g.Add(r);
+            var near = Cells(r);
+            var first = int.MaxValue;
+            foreach (var cell in near)
+                if (cells.TryGetValue(cell, out var list))
+                    foreach (var i in list)
+                        if (i < first && Same(groups[i][0], r)) first = i;
+            if (first < int.MaxValue) { groups[first].Add(r); continue; }
+            groups.Add([r]);
+            // A condition that is not finite is the same as no other (Same): its group is never joined, so not indexed.
+            if (!Finite(r)) continue;
+            if (!cells.TryGetValue(near[0], out var own)) cells[near[0]] = own = [];
+            own.Add(groups.Count - 1);
         }
         return groups.Where(g => g.Count >= 2).Select(Describe).ToList();
     }
 
-    /// <summary>
-    /// The run's conditions as <see cref="Same"/> compares them, exactly (the temperature, and each non-zero
-    /// concentration by species): equal keys compare alike with every other run. Null when a value is not finite (the
-    /// same as nothing, not even itself).
-    /// </summary>
-    private static string? ExactKey(ReplicateRun r)
-    {
-        var sb = KeyText ??= new System.Text.StringBuilder();
-        sb.Clear();
-        if (r.TemperatureK is { } t)
-        {
-            if (!double.IsFinite(t)) return null;
-            sb.Append(BitConverter.DoubleToInt64Bits(t == 0 ? 0 : t));
-        }
-        else sb.Append('-');
-        // The species in ordinal order (a run has a handful: sorted by insertion, without LINQ, for 20,000 runs).
-        var names = KeyNames ??= [];
-        names.Clear();
-        foreach (var (species, c) in r.Concentrations)
-        {
-            if (c == 0) continue;
-            if (!double.IsFinite(c)) return null;
-            var at = names.Count;
-            while (at > 0 && string.CompareOrdinal(names[at - 1], species) > 0) at--;
-            names.Insert(at, species);
-        }
-        foreach (var species in names)
-            sb.Append('|').Append(species.Length).Append(':').Append(species).Append('=').Append(BitConverter.DoubleToInt64Bits(r.Concentrations[species]));
-        return sb.ToString();
-    }
-
-    [ThreadStatic] private static System.Text.StringBuilder? KeyText;
-    [ThreadStatic] private static List<string>? KeyNames;
+    private static bool Finite(ReplicateRun r) =>
+        (r.TemperatureK is not { } t || double.IsFinite(t)) && r.Concentrations.Values.All(double.IsFinite);
 
     private static IEnumerable<KeyValuePair<string, double>> NonZero(ReplicateRun r) =>
         r.Concentrations.Where(kv => kv.Value != 0).OrderBy(kv => kv.Key, StringComparer.Ordinal);
@@ -112,10 +67,10 @@ public sealed record ReplicateGroup(
     /// The cells of the run's conditions: per value its sign and ⌊ln|x| / <see cref="CellWidth"/>⌋, per run the species
     /// with a non-zero concentration. Two runs alike (<see cref="Same"/>: the same species, each value within 1e-9
     /// relative, so the same sign and ln|x| within 1.0000000005e-9) are in the same cell, or, where a value lies within
-    /// 1e-9 of a cell's edge, in the neighbouring one: with <paramref name="nearBoundary"/> both are given (every
-    /// combination; one cell almost always), else the run's own cell only.
+    /// 1e-9 of a cell's edge, in the neighbouring one: both are given (every combination; one cell almost always), the
+    /// run's own cell first.
     /// </summary>
-    private static List<string> Cells(ReplicateRun r, bool nearBoundary)
+    private static List<string> Cells(ReplicateRun r)
     {
         var values = new List<(string Name, double Value)>();
         if (r.TemperatureK is { } t) values.Add(("", t));
@@ -127,7 +82,7 @@ public sealed record ReplicateGroup(
             var x = v == 0 ? double.NegativeInfinity : Math.Log(Math.Abs(v)) / CellWidth;
             var own = double.IsFinite(x) ? (long)Math.Floor(x) : long.MinValue;
             var options = new List<string> { Cell(own) };
-            if (nearBoundary && double.IsFinite(x))
+            if (double.IsFinite(x))
             {
                 // 1e-9 in ln|x| is 1e-3 of a cell; a margin of 1e-2 leaves room for the rounding of the logarithm.
                 if (x - own < 1e-2) options.Add(Cell(own - 1));
