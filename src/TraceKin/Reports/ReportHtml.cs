@@ -66,7 +66,7 @@ public static class ReportHtml
         LawFits(h, r);
         Plots(h, r, plots);
         Settings(h, r);
-        Notes(h, "methods", "Method notes", ReportNotes.Methods);
+        Notes(h, "methods", "Method notes", ReportNotes.MethodsFor(r.Config));
         Notes(h, "cautions", "Cautions", ReportNotes.Cautions);
         Provenance(h, r);
         h.Raw("</main>\n</body>\n</html>\n");
