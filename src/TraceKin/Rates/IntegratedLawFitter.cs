@@ -66,6 +66,7 @@ internal static class IntegratedLawFitter
             {
                 "mixed second order" when endKnown || !(partner > 0) => noPartner,
                 "pseudo-first order" when endKnown || !(partner > 0) => noPartner,
+                "pseudo-first order" when !(a0 > 0) => "it needs the followed reactant's own [A]0 from the plan, to judge the partner's excess",
                 "pseudo-first order" when !PseudoFirstApplies(a0, partner) => string.Format(ci,
                     "it needs the partner in at least 10-fold excess, [B]0 ≥ 10·[A]0, and here [B]0/[A]0 = {0:G3}", partner!.Value / a0!.Value),
                 "order n" when drift == "on" => "order n is fitted only without a drift term, and rates.drift = \"on\" fits drift variants only",

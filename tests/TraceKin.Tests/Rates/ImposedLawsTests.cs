@@ -229,6 +229,26 @@ public sealed class ImposedLawsTests
         Assert.True(WarningTiers.IsNote(w));
     }
 
+    [Theory]
+    [InlineData(null, "off")]
+    [InlineData(null, "on")]
+    [InlineData(2 * A0, "off")]
+    [InlineData(20 * A0, "off")]
+    [InlineData(20 * A0, "on")]
+    public void The_reason_a_law_is_not_applicable_is_given_exactly_when_it_is_not_fitted(double? partner, string drift)
+    {
+        // The applicability rules (docs/formats.md "[rates]" laws): the partner laws need [B]0, pseudo-first order a
+        // ≥ 10-fold excess (common practice, no source), order n no drift term. The warning must match what was fitted.
+        var trace = SyntheticTrace.Make(t => SyntheticTrace.FirstOrder(0.01, A0, t), 400, 200, 2e-4, 3);
+        var w = Enumerable.Repeat(1.0, 200).ToArray();
+        foreach (var law in RateSettings.LawNames)
+        {
+            var fitted = IntegratedLawFitter.Fit(trace.Times, trace.Values, w, -1, A0, partner, drift, laws: [law]).Fits.Count > 0;
+            var inapplicable = IntegratedLawFitter.Inapplicable([law], A0, partner, drift, endKnown: false);
+            Assert.True(fitted != (inapplicable.Count == 1), $"{law}, [B]0 = {partner}, drift {drift}: fitted {fitted}, reasons {inapplicable.Count}");
+        }
+    }
+
     [Fact]
     public void Order_n_listed_alone_is_fitted_from_its_own_start()
     {
