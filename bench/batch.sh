@@ -122,12 +122,12 @@ for size in $SIZES; do
         lfl_args=()
         for law in "${lfl_laws[@]}"; do lfl_args+=(--laws "$law"); done
         $PY "$REPO/bench/series_from_manifest.py" "$batch" "${lfl_args[@]}" --drift off --out-dir "$lfl_batch" 2>/dev/null
-        (( ${#lfl_laws[@]} == 1 )) && lfl_label="one law imposed" || lfl_label="laws imposed"
-        lfl_label="TraceKin, $lfl_label ($BENCH_LIKE_FOR_LIKE), no plots"
+        (( ${#lfl_laws[@]} == 1 )) && lfl_what="one law imposed" || lfl_what="laws imposed"
+        lfl_what="$lfl_what ($BENCH_LIKE_FOR_LIKE), no plots"
         timed "tracekin-laws-noplots-$size" "${TRACEKIN[@]}" analyse "$lfl_batch" --out "$out/tracekin-laws-noplots" --no-plots --workers "$WORKERS"
         t_lfl=$WALL; t_lfl_mem=$PEAK
-        printf '%-34s %8.2f s %6s MB  %s runs/s, %s points/s\n' "$lfl_label" "$t_lfl" "$t_lfl_mem" "$(rate "$runs" "$t_lfl")" "$(rate $((runs * points)) "$t_lfl")" | tee -a "$REPORT"
-        printf '%-34s %8s   (same baseline run as above)\n' "ratio baseline/TraceKin, $lfl_label" "$(ratio "$b_np" "$t_lfl")" | tee -a "$REPORT"
+        printf '%-34s %8.2f s %6s MB  %s runs/s, %s points/s\n' "TraceKin, $lfl_what" "$t_lfl" "$t_lfl_mem" "$(rate "$runs" "$t_lfl")" "$(rate $((runs * points)) "$t_lfl")" | tee -a "$REPORT"
+        printf '%-34s %8s   (same baseline run as above)\n' "ratio baseline/TraceKin, $lfl_what" "$(ratio "$b_np" "$t_lfl")" | tee -a "$REPORT"
         (( t_lfl_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
         $PY "$REPO/bench/compare_results.py" "$out/tracekin-laws-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
             sed 's/^/  (laws imposed) /' | tee -a "$REPORT" || STATUS=1
