@@ -10,7 +10,11 @@
 # the others with plots for TraceKin alone),
 # BENCH_WORKERS (TraceKin workers; default: all cores),
 # BENCH_MORE_PLOTS (0: skip TraceKin's runs with PNGs on the sizes after the first; default 1),
-# BENCH_COMPARE_WITH (a folder of earlier outputs, DIR/RUNSxPOINTS/summary.json and tables, to compare with).
+# BENCH_COMPARE_WITH (a folder of earlier outputs, DIR/RUNSxPOINTS/summary.json and tables, to compare with),
+# BENCH_LIKE_FOR_LIKE (opt-in: integrated law names, comma-separated, e.g. "pseudo-first order": per size, TraceKin
+# --no-plots is also timed on a second series folder of the same run files, hard-linked, whose series.toml imposes
+# those laws with rates.drift = "off", as the baseline fits one law per run; printed as its own line, beside the
+# default-settings line, never instead of it).
 set -euo pipefail
 
 REPO=$(cd "$(dirname "$0")/.." && pwd)
@@ -124,6 +128,23 @@ for size in $SIZES; do
     (( t_np_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
     $PY "$REPO/bench/compare_results.py" "$out/tracekin-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
         sed 's/^/  /' | tee -a "$REPORT" || STATUS=1
+    # Like for like (BENCH_LIKE_FOR_LIKE): the same runs with the baseline's choice of law imposed and no drift terms.
+    if [[ -n ${BENCH_LIKE_FOR_LIKE:-} ]]; then
+        lfl_batch="$WORK/batch-${runs}x${points}-laws"
+        IFS=',' read -r -a lfl_laws <<<"$BENCH_LIKE_FOR_LIKE"
+        lfl_args=()
+        for law in "${lfl_laws[@]}"; do lfl_args+=(--laws "$law"); done
+        $PY "$REPO/bench/series_from_manifest.py" "$batch" "${lfl_args[@]}" --drift off --out-dir "$lfl_batch" 2>/dev/null
+        (( ${#lfl_laws[@]} == 1 )) && lfl_what="one law imposed" || lfl_what="laws imposed"
+        lfl_what="$lfl_what ($BENCH_LIKE_FOR_LIKE), no plots"
+        timed "tracekin-laws-noplots-$size" "${TRACEKIN[@]}" analyse "$lfl_batch" --out "$out/tracekin-laws-noplots" --no-plots --workers "$WORKERS"
+        t_lfl=$WALL; t_lfl_mem=$PEAK
+        printf '%-34s %8.2f s %6s MB  %s runs/s, %s points/s\n' "TraceKin, $lfl_what" "$t_lfl" "$t_lfl_mem" "$(rate "$runs" "$t_lfl")" "$(rate $((runs * points)) "$t_lfl")" | tee -a "$REPORT"
+        printf '%-34s %8s   (same baseline run as above)\n' "ratio baseline/TraceKin, $lfl_what" "$(ratio "$b_np" "$t_lfl")" | tee -a "$REPORT"
+        (( t_lfl_mem <= limit )) || { echo "  memory above the limit of $limit MB" | tee -a "$REPORT"; }
+        $PY "$REPO/bench/compare_results.py" "$out/tracekin-laws-noplots/summary.json" "$out/baseline-noplots/summary.csv" "$batch/truth.json" |
+            sed 's/^/  (laws imposed) /' | tee -a "$REPORT" || STATUS=1
+    fi
     # Against an earlier code's outputs on the same batch (BENCH_COMPARE_WITH=DIR holding DIR/RUNSxPOINTS/summary.json
     # and its tables): every number the two share, and the per-run tables byte for byte.
     if [[ -n ${BENCH_COMPARE_WITH:-} && -f $BENCH_COMPARE_WITH/$size/summary.json ]]; then

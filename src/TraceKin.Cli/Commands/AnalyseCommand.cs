@@ -177,6 +177,8 @@ public static class AnalyseCommand
         if (result.Findings?.OrderFit is { Converged: false }) log.Warning("problem: orders: the order fit did not converge; its numbers are not results");
         foreach (var w in warnings.Where(WarningTiers.IsNote)) log.Information("note: {Warning} [{Code}]", w.ToString(), w.Code);
         foreach (var u in unconverged.Where(u => !u.Chosen)) log.Information("note: {Run}: {Message}", u.Run, u.Message);
+        if (result.Config?.Rates.Laws is { } imposed)
+            log.Information("integrated laws imposed by rates.laws: {Laws} (each run's law was imposed, not chosen among every law)", string.Join(", ", imposed));
         if (result.Findings is { } f)
         {
             foreach (var o in f.Orders)

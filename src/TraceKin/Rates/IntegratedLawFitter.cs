@@ -26,17 +26,55 @@ public sealed record LawSelection(IReadOnlyList<LawFit> Fits, LawModel? ChosenMo
 /// </summary>
 internal static class IntegratedLawFitter
 {
-    /// <summary>Candidate laws for a trace: integer orders always; pseudo-first and mixed second order when the partner's [B]0 is known.</summary>
-    public static IReadOnlyList<RateLaw> Candidates(double? a0, double? partner)
+    /// <summary>Candidate laws for a trace: integer orders always; pseudo-first and mixed second order when the partner's [B]0 is known.
+    /// With <paramref name="listed"/> (rates.laws) only the laws it names, each under the same rule (order n is not among
+    /// these: it is fitted after them).</summary>
+    public static IReadOnlyList<RateLaw> Candidates(double? a0, double? partner, IReadOnlyList<string>? listed = null)
     {
         var laws = new List<RateLaw> { new ZeroOrderLaw(), new FirstOrderLaw(), new SecondOrderLaw() };
         if (partner is > 0)
         {
             laws.Add(new MixedSecondOrderLaw());
             // Pseudo-first order needs a large excess of the partner: ≥ 10-fold (common practice, no source).
-            if (a0 is > 0 && partner.Value >= 10 * a0.Value) laws.Add(new PseudoFirstOrderLaw(partner.Value));
+            if (PseudoFirstApplies(a0, partner)) laws.Add(new PseudoFirstOrderLaw(partner.Value));
         }
+        if (listed is not null) laws.RemoveAll(l => !Lists(listed, l.Name));
         return laws;
+    }
+
+    private static bool PseudoFirstApplies(double? a0, double? partner) => a0 is > 0 && partner is > 0 && partner.Value >= 10 * a0.Value;
+
+    private static bool Lists(IReadOnlyList<string>? listed, string law) => listed is null || listed.Contains(law, StringComparer.Ordinal);
+
+    /// <summary>
+    /// The laws rates.laws lists that this run cannot be fitted with, each with the reason (empty without a list): the
+    /// partner laws need the plan's [B]0 (and no end level fixed by rates.limiting_reactant, under which they are never
+    /// fitted), pseudo-first order a ≥ 10-fold excess of B; order n is fitted only without a drift term, so never with
+    /// rates.drift = "on".
+    /// </summary>
+    public static IReadOnlyList<(string Law, string Why)> Inapplicable(IReadOnlyList<string>? listed, double? a0, double? partner, string drift, bool endKnown)
+    {
+        if (listed is null) return [];
+        var ci = System.Globalization.CultureInfo.InvariantCulture;
+        var noPartner = endKnown
+            ? "the end level is fixed by rates.limiting_reactant (a product curve), and the partner laws are then not fitted"
+            : "it needs the partner's [B]0 from the plan (the followed reactant's own [X]0 and exactly one other species with a positive [X]0)";
+        var result = new List<(string, string)>();
+        foreach (var law in listed)
+        {
+            string? why = law switch
+            {
+                "mixed second order" when endKnown || !(partner > 0) => noPartner,
+                "pseudo-first order" when endKnown || !(partner > 0) => noPartner,
+                "pseudo-first order" when !(a0 > 0) => "it needs the followed reactant's own [A]0 from the plan, to judge the partner's excess",
+                "pseudo-first order" when !PseudoFirstApplies(a0, partner) => string.Format(ci,
+                    "it needs the partner in at least 10-fold excess, [B]0 ≥ 10·[A]0, and here [B]0/[A]0 = {0:G3}", partner!.Value / a0!.Value),
+                "order n" when drift == "on" => "order n is fitted only without a drift term, and rates.drift = \"on\" fits drift variants only",
+                _ => null,
+            };
+            if (why is not null) result.Add((law, why));
+        }
+        return result;
     }
 
     /// <param name="weights">0 for excluded samples (spikes), else 1.</param>
@@ -45,11 +83,18 @@ internal static class IntegratedLawFitter
     /// from its limiting reactant's [X]0): every law is fitted with the end level following the start level.</param>
     /// <param name="fitEveryDrift">Fit the other laws' drift variants even where they can only be excluded (for tests that
     /// check the saving changes no number).</param>
+    /// <param name="laws">rates.laws: only these laws are fitted and compared (null: every candidate). Pseudo-first order
+    /// listed without first order is still the first-order fit re-expressed: that fit is made as a helper and then
+    /// dropped, so the pseudo-first-order row has the numbers it has in an unrestricted run.</param>
     public static LawSelection Fit(double[] t, double[] y, double[] weights, double nu, double? a0, double? partner, string drift, bool endKnown = false,
-        bool fitEveryDrift = false)
+        bool fitEveryDrift = false, IReadOnlyList<string>? laws = null)
     {
         if (endKnown && !(a0 > 0)) throw new ArgumentException("a known end needs a positive [A]0", nameof(a0));
         if (endKnown) partner = null;
+        var candidates = Candidates(a0, partner, laws);
+        // A first-order fit that is not listed but carries a listed pseudo-first order: fitted, screened and dropped.
+        var helperFirst = laws is not null && candidates.Any(l => l is PseudoFirstOrderLaw) && !Lists(laws, "first order");
+        if (helperFirst) candidates = [new FirstOrderLaw(), .. candidates];
         var noise = DifferenceNoise(t, y, weights);
         var tAll = t;
         // The laws are compared on coarse bins; the chosen one is then refitted on the finer bins its numbers are
@@ -69,6 +114,8 @@ internal static class IntegratedLawFitter
         var families = drift switch { "off" => new[] { false }, "on" => [true], _ => [false, true] };
         var all = new List<(LawModel Model, FitResult Fit)>();
         var plainFits = new Dictionary<string, (LawModel Model, FitResult Fit)>(StringComparer.Ordinal);
+        // Each pseudo-first-order fit re-expressed from a helper first-order fit (rates.laws without first order), by that fit.
+        var pseudoSources = new Dictionary<FitResult, (LawModel Model, FitResult Fit)>(ReferenceEqualityComparer.Instance);
         string? driftExcluded = null;
         var skippedPatch = false;
         foreach (var withDrift in families)
@@ -113,11 +160,14 @@ internal static class IntegratedLawFitter
                 if (!r.Fit.Converged) r = FitOne(law, t, y, weights, nu, a0, partner, true, null, spread: spread, tolerance: tol, endKnown: endKnown, ends: ends);
                 return r;
             }
-            foreach (var law in Candidates(a0, partner))
+            foreach (var law in candidates)
             {
                 (LawModel Model, FitResult Fit) r;
                 if (law is PseudoFirstOrderLaw pf && firstOrder is { } fo)
+                {
                     r = AsPseudoFirstOrder(pf, fo, t, nu, a0, withDrift);
+                    if (helperFirst) pseudoSources[r.Fit] = fo;
+                }
                 else if (law is PseudoFirstOrderLaw && screen && plainFits.ContainsKey(new FirstOrderLaw().Name))
                     continue; // its first-order twin was screened out (or not fitted)
                 else if (screen && law.Name == leadLaw)
@@ -142,20 +192,26 @@ internal static class IntegratedLawFitter
                 else r = FitOne(law, t, y, weights, nu, a0, partner, withDrift, null, spread: spread, tolerance: tol, endKnown: endKnown, ends: ends);
                 if (law is FirstOrderLaw) firstOrder = r;
                 if (!withDrift) plainFits[law.Name] = r;
-                integer.Add(r);
+                if (!(helperFirst && law is FirstOrderLaw)) integer.Add(r);
                 all.Add(r);
             }
-            // Order n starts from the best-fitting integer order (ones of one species only). It is not combined with a
-            // drift term: n and a drift trade off against each other and together overfit noise.
-            if (withDrift) continue;
+            // Order n starts from the best-fitting integer order (ones of one species only), among the listed ones when
+            // rates.laws names them (else from its own start). It is not combined with a drift term: n and a drift trade
+            // off against each other and together overfit noise.
+            if (withDrift || !Lists(laws, "order n")) continue;
             var seed = integer.Where(r => r.Item2.Converged && r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw)
                 .OrderBy(r => r.Item2.AicC).FirstOrDefault();
             // With the end known, the integer laws differ only in the curvature they assume: when their AICc lie within 2
             // of each other the trace cannot tell its order, order n would only crawl along its flat valley, and the
-            // Akaike-weighted integer laws already carry that spread.
-            if (endKnown && CannotTellOrder(integer)) continue;
+            // Akaike-weighted integer laws already carry that spread. (With rates.laws listing fewer than two of them there
+            // is nothing to compare, and order n, listed, is fitted.)
+            if (endKnown && (laws is null || integer.Count(r => r.Item1.Law is ZeroOrderLaw or FirstOrderLaw or SecondOrderLaw) >= 2)
+                && CannotTellOrder(integer)) continue;
             all.Add(FitOne(new NthOrderLaw(), t, y, weights, nu, a0, partner, withDrift, seed.Item2 is null ? null : (seed.Item1, seed.Item2), spread: spread, tolerance: tol, endKnown: endKnown, ends: ends));
         }
+
+        // The helper first-order fits leave; their pseudo-first-order twins (the same curves) stay.
+        if (helperFirst) all.RemoveAll(r => r.Model.Law is FirstOrderLaw);
 
         // Per law, the drift variant only with clear evidence (AICc lower by more than 7: Burnham & Anderson 2002, §2.6,
         // give Δ = 4–7 as "considerably less support", so the drift-free model is dropped only beyond that); then the integer law with the
@@ -235,7 +291,8 @@ internal static class IntegratedLawFitter
                 // at t0 its own way, and where it is not clearly better (by 10 AICc) it only adds a bias. With the end
                 // known it is the chosen law whenever it converged (its exponent is then the curvature, measured), and
                 // the integer laws, which each assume a curvature, leave the average to it.
-                else if (f.Converged && m.Law is not PseudoFirstOrderLaw and not NthOrderLaw && !(endKnown && nth.Fit is not null)) participants.Add((m, other));
+                // (Without its first-order twin, rates.laws leaving it out, pseudo-first order is that curve's one count.)
+                else if (f.Converged && (m.Law is not PseudoFirstOrderLaw || helperFirst) && m.Law is not NthOrderLaw && !(endKnown && nth.Fit is not null)) participants.Add((m, other));
                 fits.Add(other);
                 continue;
             }
@@ -244,8 +301,13 @@ internal static class IntegratedLawFitter
             {
                 // Refitted on the fine bins from where the comparison left it; its evidence (ΔAICc, Akaike weight)
                 // stays that of the comparison.
-                var refit = FitOne(m.Law, tFine, yFine, wFine, nu, a0, partner, m.Drift, null,
-                    f.Parameters.Select(p => p.Value).ToArray(), f.Parameters.Select(p => !p.Varied).ToArray(), sFine, endKnown: endKnown);
+                // A pseudo-first order re-expressed from a helper first-order fit is refitted as that first-order fit and
+                // re-expressed again, so its numbers are those of the first-order law's reported fit, k divided by [B]0.
+                var twin = m.Law is PseudoFirstOrderLaw && pseudoSources.TryGetValue(f, out var source) ? source : ((LawModel Model, FitResult Fit)?)null;
+                var (fromModel, fromFit) = twin ?? (m, f);
+                var refit = FitOne(fromModel.Law, tFine, yFine, wFine, nu, a0, partner, m.Drift, null,
+                    fromFit.Parameters.Select(p => p.Value).ToArray(), fromFit.Parameters.Select(p => !p.Varied).ToArray(), sFine, endKnown: endKnown);
+                if (twin is not null && refit.Item2.Converged) refit = AsPseudoFirstOrder((PseudoFirstOrderLaw)m.Law, refit, tFine, nu, a0, m.Drift);
                 if (refit.Item2.Converged) (cm, cf, cw) = (refit.Item1, refit.Item2, wFine);
             }
             var described = Describe(cm, cf, true, minAll, sumW, cw, noise);
@@ -275,7 +337,8 @@ internal static class IntegratedLawFitter
         }
         var integerPicks = fits.Where(x => x.Chosen || picks.Any(p => ReferenceEquals(p.Fit, x.Fit) && p.Model.Law is not NthOrderLaw))
             .Where(x => !x.Law.StartsWith("order n", StringComparison.Ordinal)).ToList();
-        var noInteger = integerPicks.Count == 0 || integerPicks.All(x => x.LackOfFit);
+        // With rates.laws listing no law of fixed order (order n alone), no integer law was tried: nothing is said about them.
+        var noInteger = (laws is null || all.Any(r => r.Model.Law is not NthOrderLaw)) && (integerPicks.Count == 0 || integerPicks.All(x => x.LackOfFit));
         var chosenFit = fits.FirstOrDefault(x => x.Chosen);
         var residualsOnFine = chosenFit is not null && chosenFit.Fit.Residuals.Length == tFine.Length;
         return new LawSelection(fits, chosenModel, chosenModel?.Drift ?? false, noInteger,

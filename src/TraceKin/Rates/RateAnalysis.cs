@@ -41,7 +41,7 @@ public static class RateAnalysis
             for (var i = 0; i < n; i++) w[i] = candidates[i] ? 0 : 1;
         }
         else w = Ones(n);
-        var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown);
+        var selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown, laws: settings.Laws);
         var spikes = candidates;
         if (anyCandidate && selection.Fits.FirstOrDefault(f => f.Chosen) is { } chosen && chosen.Fitted.Length == n)
         {
@@ -54,7 +54,7 @@ public static class RateAnalysis
             if (!spikes.AsSpan().SequenceEqual(candidates))
             {
                 for (var i = 0; i < n; i++) w[i] = spikes[i] ? 0 : 1;
-                selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown);
+                selection = IntegratedLawFitter.Fit(t, y, w, coefficient, referenceConcentration, partnerConcentration, settings.Drift, endKnown, laws: settings.Laws);
             }
         }
         var spikeList = new List<Spike>();
@@ -80,6 +80,11 @@ public static class RateAnalysis
         var lawRate = chosenFit is not null && selection.ChosenModel is not null
             ? InitialRateEstimators.FromLaw(selection.ChosenModel, chosenFit, t, coefficient) : null;
         lawRate = InitialRateEstimators.Averaged(selection.Participants, lawRate, t, coefficient);
+        // rates.laws: the law was imposed, not chosen among all; the method says so wherever the estimate is shown.
+        var imposed = settings.Laws is { } listed ? $"imposed by rates.laws ({string.Join(", ", listed)})" : null;
+        if (lawRate is not null && imposed is not null) lawRate = lawRate with { Method = $"{lawRate.Method}, {imposed}" };
+        var inapplicable = IntegratedLawFitter.Inapplicable(settings.Laws, referenceConcentration, partnerConcentration, settings.Drift, endKnown);
+        var noneApplies = settings.Laws is { } all && inapplicable.Count == all.Count;
         if (lawRate is not null) estimates.Add(lawRate);
         if (poly is not null) estimates.Add(poly);
         if (line is not null) estimates.Add(line);
@@ -101,7 +106,8 @@ public static class RateAnalysis
             case "law" when lawRate is not null:
                 headline = lawRate; rule = "integrated law at t0, as set in rates.method"; break;
             default:
-                (headline, rule, unresolved) = Choose(lawUsable ? lawRate : null, lawRate, chosenFit, poly, line, estimates);
+                (headline, rule, unresolved) = Choose(lawUsable ? lawRate : null, lawRate, chosenFit, poly, line, estimates,
+                    noneApplies ? "no law rates.laws lists applies to this run" : "no integrated law converged", imposed);
                 break;
         }
         // The rate of reaction (1/ν)·d[X]/dt is positive for a reaction that runs forward: a negative headline means
@@ -136,8 +142,18 @@ public static class RateAnalysis
         if (spikeList.Count > 0)
             warnings.Add(new Warning("spikes", where, string.Format(ci, "{0} sample(s) excluded as spikes at t = {1}{2} s", spikeList.Count,
                 string.Join(", ", spikeList.Take(10).Select(s => s.Time.ToString("G6", ci))), spikeList.Count > 10 ? ", …" : "")));
+        if (noneApplies)
+            warnings.Add(new Warning("imposed-laws-inapplicable", where, "rates.laws lists only " + Reasons(inapplicable) +
+                "; so no integrated law was fitted: this run has no law-based rate or k, and its initial rate comes from the local estimators"));
+        else if (inapplicable.Count > 0)
+            warnings.Add(new Warning("imposed-law-skipped", where, "of the laws rates.laws lists, " + Reasons(inapplicable) +
+                "; the others were fitted"));
         if (chosenFit is null)
-            warnings.Add(new Warning("no-law-fit", where, "no integrated rate law converged on this trace"));
+        {
+            if (!noneApplies)
+                warnings.Add(new Warning("no-law-fit", where, imposed is null ? "no integrated rate law converged on this trace"
+                    : $"none of the laws rates.laws lists converged on this trace ({string.Join(", ", settings.Laws!)})"));
+        }
         else
         {
             if (selection.DriftChosen && chosenFit.Fit.Parameters.FirstOrDefault(p => p.Name == "drift") is { } d)
@@ -150,7 +166,22 @@ public static class RateAnalysis
             else if (UnmodelledDrift(selection.FitTimes, selection.FitWeights, chosenFit.Fit.Residuals))
                 warnings.Add(new Warning("unmodelled-drift", where, "the residuals of the late trace trend with time: the baseline may drift"));
         }
-        if (selection.NoIntegerLawFits && chosenFit is not null)
+        if (imposed is not null && chosenFit is { LackOfFit: true })
+        {
+            // An imposed law is never reported as describing a trace it does not follow.
+            var runsP = chosenFit.Runs is { } rt ? string.Format(ci, "runs test P = {0:G2}", rt.PValue) : "no runs test";
+            warnings.Add(new Warning("imposed-law-lack-of-fit", where, string.Format(ci,
+                "the law rates.laws imposes, {0}, does not describe this trace: its residuals show a pattern or scatter well above the trace's own noise ({1}); " +
+                "its k is not a result{2}; with rates.method = \"auto\" the headline rate comes from the local estimators",
+                chosenFit.Law, runsP, selection.NoIntegerLawFits ? "; no listed law fits" : "")));
+        }
+        else if (selection.NoIntegerLawFits && chosenFit is not null && imposed is not null)
+        {
+            var nth = selection.Fits.FirstOrDefault(f => f.Law.StartsWith("order n", StringComparison.Ordinal) && f.Drift == selection.DriftChosen && f.Fit.Converged);
+            var nText = nth is null ? "" : string.Format(ci, " (order n fit: n = {0:G3} ± {1:G2})", nth.Fit.Value("n"), nth.Fit["n"].StdError);
+            warnings.Add(new Warning("no-integer-law", where, "no integer-order law rates.laws lists fits this trace: every one shows a residual pattern or excess scatter" + nText));
+        }
+        else if (selection.NoIntegerLawFits && chosenFit is not null)
         {
             var nth = selection.Fits.FirstOrDefault(f => f.Law.StartsWith("order n", StringComparison.Ordinal) && f.Drift == selection.DriftChosen && f.Fit.Converged);
             var nText = nth is null ? "" : string.Format(ci, " (order n fit: n = {0:G3} ± {1:G2})", nth.Fit.Value("n"), nth.Fit["n"].StdError);
@@ -192,28 +223,35 @@ public static class RateAnalysis
     /// still reported, flagged, and the run is left out of the series fits. The straight line and the polynomial
     /// share their window, so their agreement with each other is no evidence against the law.
     /// </summary>
+    /// <param name="noLaw">Why there is no law estimate, when there is none.</param>
+    /// <param name="imposed">What rates.laws imposes, or null.</param>
     private static (InitialRate Headline, string Rule, string? Unresolved) Choose(InitialRate? law, InitialRate? anyLaw, LawFit? chosen,
-        InitialRate? poly, InitialRate? line, List<InitialRate> estimates)
+        InitialRate? poly, InitialRate? line, List<InitialRate> estimates, string noLaw, string? imposed)
     {
         var ci = CultureInfo.InvariantCulture;
         string Describe(InitialRate e) => string.Format(ci, "{0} {1:G4} ± {2:G2}", e.Method, e.Value, e.StdError);
         if (law is not null)
         {
             var lawName = law.Method.StartsWith("integrated laws", StringComparison.Ordinal) ? "integrated laws averaged by Akaike weight" : $"integrated law ({chosen!.Law})";
+            var at = imposed is null ? "at t0" : $"at t0, {imposed}";
             if (poly is null || !Conflict(law, poly))
-                return (law, $"{lawName} at t0: converged, residuals pass the runs test, the polynomial at t0 agrees within 3 standard errors", null);
-            return (law, $"{lawName} at t0, unresolved", "the integrated-law and polynomial estimates differ by more than three combined standard errors: " +
+                return (law, $"{lawName} {at}: converged, residuals pass the runs test, the polynomial at t0 agrees within 3 standard errors", null);
+            return (law, $"{lawName} {at}, unresolved", "the integrated-law and polynomial estimates differ by more than three combined standard errors: " +
                 string.Join("; ", estimates.Select(Describe)));
         }
         if (poly is not null)
         {
-            var why = anyLaw is null ? "no integrated law converged" : "the chosen law shows lack of fit";
+            var why = anyLaw is null ? noLaw : imposed is null ? "the chosen law shows lack of fit" : "the imposed law shows lack of fit";
             if (line is null || !Conflict(poly, line)) return (poly, $"polynomial at t0: {why}", null);
             return (poly, $"polynomial at t0 ({why}), unresolved", $"{why}, and the local estimates differ by more than three combined standard errors: " +
                 string.Join("; ", estimates.Select(Describe)));
         }
         return (estimates[0], $"{estimates[0].Method}: the only estimate available", null);
     }
+
+    /// <summary>"first law, which …; second law, which …" for the laws rates.laws lists that a run cannot be fitted with.</summary>
+    private static string Reasons(IReadOnlyList<(string Law, string Why)> laws) =>
+        string.Join("; ", laws.Select(l => $"{l.Law}, which does not apply to this run: {l.Why}"));
 
     [ThreadStatic] private static double[]? _ones;
 

@@ -66,7 +66,7 @@ public static class ReportHtml
         LawFits(h, r);
         Plots(h, r, plots);
         Settings(h, r);
-        Notes(h, "methods", "Method notes", ReportNotes.Methods);
+        Notes(h, "methods", "Method notes", ReportNotes.MethodsFor(r.Config));
         Notes(h, "cautions", "Cautions", ReportNotes.Cautions);
         Provenance(h, r);
         h.Raw("</main>\n</body>\n</html>\n");
@@ -604,6 +604,9 @@ public static class ReportHtml
         var withFits = r.Runs.Where(x => x.Rates.Fits.Count > 0).ToList();
         if (withFits.Count == 0) return;
         h.Raw("<section id=\"law-fits\">\n").Element("h2", "Integrated-law fits");
+        if (r.Config?.Rates.Laws is { } imposed)
+            h.Element("p", $"rates.laws restricted the fits to {string.Join(", ", imposed)}: each run's chosen law is the best of these (by AICc, " +
+                "with their drift variants as rates.drift says), imposed rather than chosen among every law.", "class=\"note\"");
         // Folded: the chosen law of each run is in the runs table above; this is every candidate, for whoever checks.
         var count = withFits.Sum(x => x.Rates.Fits.Count);
         if (r.Runs.Count > MaxListedRuns)

@@ -26,6 +26,22 @@ internal static class ReportNotes
             "(JCGM 100:2008, 7.2.6). summary.json holds the unrounded values."),
     ];
 
+    /// <summary>The method notes of a series analysed with <paramref name="config"/>: <see cref="Methods"/>, and after the
+    /// initial rate a note on the integrated laws when rates.laws imposed them (only then, so other reports stay as they were).</summary>
+    public static IReadOnlyList<(string Topic, string Note)> MethodsFor(Analysis.SeriesConfig? config)
+    {
+        if (config?.Rates.Laws is not { } laws) return Methods;
+        var list = Methods.ToList();
+        var at = list.FindIndex(m => m.Topic == "Initial rate") + 1;
+        list.Insert(at, ("Integrated laws imposed",
+            $"rates.laws in series.toml imposed the integrated rate law(s) fitted to every run: {string.Join(", ", laws)}. Only these were fitted " +
+            "(with their drift variants as rates.drift says), so the law of each run was imposed, not chosen by AICc among every candidate law; " +
+            "ΔAICc, Akaike weights and the law-averaged rate are over the listed laws only, and the law-choice part of the uncertainty " +
+            "covers only the spread between them (none with one law and no drift variant). Lack of fit is still tested and flagged per run " +
+            "(docs/methods.md, \"Imposed laws\")."));
+        return list;
+    }
+
     /// <summary>Safety cautions shown in every report and in README.md.</summary>
     public static IReadOnlyList<(string Topic, string Note)> Cautions { get; } =
     [

@@ -56,7 +56,9 @@ internal static class SettingsProvenance
                 var fileKey = table?.Keys.FirstOrDefault(k => k == key)
                     ?? table?.Keys.FirstOrDefault(k => !propKeys.Contains(k) && key.StartsWith(k + "_", StringComparison.Ordinal));
                 if (fileKey is not null) matched.Add(fileKey);
-                var text = Describe(p.GetValue(value));
+                var setting = p.GetValue(value);
+                if (setting is null && p.IsDefined(typeof(ShownOnlyWhenSetAttribute), inherit: false)) continue;
+                var text = Describe(setting);
                 if (UnitOf.TryGetValue(p.Name, out var unit) && text != "not set") text += " " + unit;
                 var source = raw is null ? "unknown" : fileKey is not null ? "series.toml" : "default";
                 rows.Add(new SettingUse($"{sectionKey}.{key}", text, source));

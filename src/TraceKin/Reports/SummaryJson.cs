@@ -58,6 +58,8 @@ public sealed class SummaryJson(bool plots = true) : ISeriesReportWriter
             Tool: "TraceKin",
             ToolVersion: r.ToolVersion,
             Series: r.Name,
+            // rates.laws: the integrated laws every run was restricted to (absent when every law competed).
+            ImposedLaws: r.Config?.Rates.Laws,
             Runs: r.Runs.Select(run => Run(run, names is null ? null : "plots/" + names.PlotFile(run.Id))),
             Orders: SeriesModelsJson.Orders(f0?.Orders ?? []),
             RateConstant: k is null ? null : new HeadlineRateConstantRecord(k.Value, k.StdError, k.Unit, k.Dof, [k.Ci95Low, k.Ci95High], k.Method,

@@ -11,6 +11,8 @@ internal sealed record SummaryRecord(
     string Tool,
     string ToolVersion,
     string Series,
+    [property: System.Text.Json.Serialization.JsonIgnore(Condition = System.Text.Json.Serialization.JsonIgnoreCondition.WhenWritingNull)]
+    IReadOnlyList<string>? ImposedLaws,
     IEnumerable<RunRecord> Runs,
     IReadOnlyList<OrderRecord> Orders,
     HeadlineRateConstantRecord? RateConstant,

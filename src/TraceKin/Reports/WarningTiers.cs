@@ -29,6 +29,7 @@ public static class WarningTiers
         "dead-time",                    // the rate is extrapolated to the moment of mixing, as designed
         "baseline-drift",               // a drift term was fitted and is part of the result
         "product-end-unknown",          // a caution: straight-line rates of product curves whose end level is not known
+        "imposed-law-skipped",          // a law rates.laws lists does not apply to the run; the other listed laws were fitted
     };
 
     public static bool IsNote(Warning w) => NoteCodes.Contains(w.Code);

@@ -132,6 +132,24 @@ public sealed class TomlSection
         return arr.Select((o, i) => o as string ?? throw Fail.Setting(File, $"{KeyName(key)}[{i}]", Describe(o), "a quoted string")).ToArray();
     }
 
+    /// <summary>
+    /// An array of strings, strictly (a bare string is not taken for a one-element array), or null when absent. Every
+    /// error names the key itself, with the element's position in what was found, so it is located at the key's line and
+    /// column; <paramref name="expected"/> says what the key takes.
+    /// </summary>
+    internal string[]? StringArray(string key, string expected)
+    {
+        var v = Get(key);
+        if (v is null) return null;
+        if (v is string one)
+            throw Fail.Setting(File, KeyName(key), Describe(v) + " (not an array)", expected, $"write {key} = [{Fail.Quote(one)}]");
+        if (v is not TomlArray arr) throw Fail.Setting(File, KeyName(key), Describe(v), expected);
+        var result = new string[arr.Count];
+        for (var i = 0; i < arr.Count; i++)
+            result[i] = arr[i] as string ?? throw Fail.Setting(File, KeyName(key), $"{Describe(arr[i])} as element {i + 1}", expected);
+        return result;
+    }
+
     /// <summary>A sub-table, or an empty section when absent.</summary>
     public TomlSection Section(string key)
     {

@@ -153,7 +153,7 @@ public sealed class SummaryJsonStreamingTests
             return new RunRecord($"R{i}", $"r{i}.csv", null, null, 298.15, new SortedDictionary<string, double?>(StringComparer.Ordinal) { ["A"] = 0.001 },
                 new InitialRateRecord(1e-6, 1e-8, 10, "mol/(L·s)", "line", 0, 30, 12, 0, 0), null, "single", true, null, 0, false, 0, 0, []);
         });
-        var summary = new SummaryRecord("TraceKin", "0", "big", records, [], null, [], null, 0, PairRatiosCsv.FileName, [], null, null, null, null, null, null, null, null, null, null, [], []);
+        var summary = new SummaryRecord("TraceKin", "0", "big", null, records, [], null, [], null, 0, PairRatiosCsv.FileName, [], null, null, null, null, null, null, null, null, null, null, [], []);
         JsonSerializer.Serialize(stream, summary, SummaryJsonContext.Writer.SummaryRecord);
         Assert.InRange(stream.FirstWriteAtRun, 1, runs / 2);
         Assert.True(stream.Writes > 10, $"{stream.Writes} writes");
