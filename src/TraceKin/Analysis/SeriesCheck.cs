@@ -41,6 +41,14 @@ internal static class SeriesCheck
                 $"a limiting reactant only for a product curve (signal.coefficient > 0; here {s.Coefficient.ToString(System.Globalization.CultureInfo.InvariantCulture)}, a reactant, whose own [X]0 already sets its change)",
                 "remove rates.limiting_reactant");
 
+        // rates.laws listing only laws these settings never fit would leave every run without a law.
+        if (config.Rates.Laws is { } laws
+            && Rates.IntegratedLawFitter.NeverFitted(laws, config.Rates.Drift, config.Rates.LimitingReactant is not null) is { } never
+            && never.Count == laws.Count)
+            throw Fail.Setting(config.File, "rates.laws", "[" + string.Join(", ", laws.Select(l => Fail.Quote(l))) + "]",
+                "at least one law these settings fit: " + string.Join("; ", never.Select(x => $"{x.Law}: {x.Why}")),
+                "list a law these settings fit, or change rates.drift or rates.limiting_reactant");
+
         var used = RunConditions.UsedBy(s);
         foreach (var (name, column) in plan.ConditionColumns)
             if (!used.Contains(name))

@@ -137,6 +137,10 @@ public static class SeriesRunner
                 ? $"{unresolved.Count} run(s) with an unresolved initial rate are kept in the series fits, as model.use_unresolved asks: {listed}"
                 : $"{unresolved.Count} run(s) with an unresolved initial rate are left out of the series fits (model.use_unresolved = true keeps them): {listed}"));
         }
+        // rates.laws listing a law these settings never fit (whatever the run): said once here, not on every run.
+        if (IntegratedLawFitter.NeverFitted(config.Rates.Laws, config.Rates.Drift, config.Rates.LimitingReactant is not null) is { Count: > 0 } never)
+            warnings.Add(new Warning("imposed-law-never-fitted", "series", "of the laws rates.laws lists, " +
+                string.Join("; ", never.Select(x => $"{x.Law} is fitted to no run: {x.Why}")) + "; the others were fitted"));
         // A product curve whose end level is not known: where no decelerating law could be fitted the rate is a
         // straight line's slope, low by about half the conversion the run spans if the reaction slows (docs/methods.md,
         // "A product's end level from the plan"); the plan's limiting reactant would fix the end level.

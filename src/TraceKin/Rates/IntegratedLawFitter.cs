@@ -47,29 +47,49 @@ internal static class IntegratedLawFitter
     private static bool Lists(IReadOnlyList<string>? listed, string law) => listed is null || listed.Contains(law, StringComparer.Ordinal);
 
     /// <summary>
-    /// The laws rates.laws lists that this run cannot be fitted with, each with the reason (empty without a list): the
-    /// partner laws need the plan's [B]0 (and no end level fixed by rates.limiting_reactant, under which they are never
-    /// fitted), pseudo-first order a ≥ 10-fold excess of B; order n is fitted only without a drift term, so never with
-    /// rates.drift = "on".
+    /// The laws rates.laws lists that these settings never fit, whatever the run, each with the reason (empty without a
+    /// list): the partner laws are not fitted when rates.limiting_reactant fixes the end level, and order n is fitted
+    /// only without a drift term, so never with rates.drift = "on".
     /// </summary>
-    public static IReadOnlyList<(string Law, string Why)> Inapplicable(IReadOnlyList<string>? listed, double? a0, double? partner, string drift, bool endKnown)
+    public static IReadOnlyList<(string Law, string Why)> NeverFitted(IReadOnlyList<string>? listed, string drift, bool endKnown)
     {
         if (listed is null) return [];
-        var ci = System.Globalization.CultureInfo.InvariantCulture;
-        var noPartner = endKnown
-            ? "the end level is fixed by rates.limiting_reactant (a product curve), and the partner laws are then not fitted"
-            : "it needs the partner's [B]0 from the plan (the followed reactant's own [X]0 and exactly one other species with a positive [X]0)";
+        const string fixedEnd = "the end level is fixed by rates.limiting_reactant (a product curve), and the partner laws are then not fitted";
         var result = new List<(string, string)>();
         foreach (var law in listed)
         {
             string? why = law switch
             {
-                "mixed second order" when endKnown || !(partner > 0) => noPartner,
-                "pseudo-first order" when endKnown || !(partner > 0) => noPartner,
+                "mixed second order" or "pseudo-first order" when endKnown => fixedEnd,
+                "order n" when drift == "on" => "order n is fitted only without a drift term, and rates.drift = \"on\" fits drift variants only",
+                _ => null,
+            };
+            if (why is not null) result.Add((law, why));
+        }
+        return result;
+    }
+
+    /// <summary>
+    /// The laws rates.laws lists that this run cannot be fitted with, each with the reason (empty without a list): those
+    /// the settings never fit (<see cref="NeverFitted"/>), then by the run's plan: the partner laws need the plan's
+    /// [B]0, pseudo-first order a ≥ 10-fold excess of B.
+    /// </summary>
+    public static IReadOnlyList<(string Law, string Why)> Inapplicable(IReadOnlyList<string>? listed, double? a0, double? partner, string drift, bool endKnown)
+    {
+        if (listed is null) return [];
+        var ci = System.Globalization.CultureInfo.InvariantCulture;
+        const string noPartner = "it needs the partner's [B]0 from the plan (the followed reactant's own [X]0 and exactly one other species with a positive [X]0)";
+        var never = NeverFitted(listed, drift, endKnown);
+        var result = new List<(string, string)>();
+        foreach (var law in listed)
+        {
+            string? why = never.FirstOrDefault(x => x.Law == law).Why ?? law switch
+            {
+                "mixed second order" when !(partner > 0) => noPartner,
+                "pseudo-first order" when !(partner > 0) => noPartner,
                 "pseudo-first order" when !(a0 > 0) => "it needs the followed reactant's own [A]0 from the plan, to judge the partner's excess",
                 "pseudo-first order" when !PseudoFirstApplies(a0, partner) => string.Format(ci,
                     "it needs the partner in at least 10-fold excess, [B]0 ≥ 10·[A]0, and here [B]0/[A]0 = {0:G3}", partner!.Value / a0!.Value),
-                "order n" when drift == "on" => "order n is fitted only without a drift term, and rates.drift = \"on\" fits drift variants only",
                 _ => null,
             };
             if (why is not null) result.Add((law, why));

@@ -145,8 +145,9 @@ public static class RateAnalysis
         if (noneApplies)
             warnings.Add(new Warning("imposed-laws-inapplicable", where, "rates.laws lists only " + Reasons(inapplicable) +
                 "; so no integrated law was fitted: this run has no law-based rate or k, and its initial rate comes from the local estimators"));
-        else if (inapplicable.Count > 0)
-            warnings.Add(new Warning("imposed-law-skipped", where, "of the laws rates.laws lists, " + Reasons(inapplicable) +
+        // A law the settings never fit is said once for the series (SeriesRunner), not on every run.
+        else if (inapplicable.Where(x => !IntegratedLawFitter.NeverFitted(settings.Laws, settings.Drift, endKnown).Contains(x)).ToList() is { Count: > 0 } skipped)
+            warnings.Add(new Warning("imposed-law-skipped", where, "of the laws rates.laws lists, " + Reasons(skipped) +
                 "; the others were fitted"));
         if (chosenFit is null)
         {

@@ -30,13 +30,23 @@ public static class WarningTiers
         "baseline-drift",               // a drift term was fitted and is part of the result
         "product-end-unknown",          // a caution: straight-line rates of product curves whose end level is not known
         "imposed-law-skipped",          // a law rates.laws lists does not apply to the run; the other listed laws were fitted
+        "imposed-law-never-fitted",     // a law rates.laws lists that these settings fit to no run; the other listed laws were fitted
     };
 
     public static bool IsNote(Warning w) => NoteCodes.Contains(w.Code);
 
-    /// <summary>Every warning of a result: the series' own, the Series stage's and each run's, in that order.</summary>
-    public static IReadOnlyList<Warning> All(SeriesResult r) =>
-        r.Warnings.Concat(r.Findings?.Warnings ?? []).Concat(r.Runs.SelectMany(x => x.Warnings)).ToList();
+    /// <summary>Every warning of a result: the series' own, the Series stage's and each run's, in that order. A run's
+    /// warning placed at its export file names the run too when that file holds other runs as well (the wells of a
+    /// plate export), as "A1 (plate.csv)": otherwise a list of them would say "plate.csv" for every well.</summary>
+    public static IReadOnlyList<Warning> All(SeriesResult r)
+    {
+        var shared = r.Runs.GroupBy(x => x.Plan.File, StringComparer.Ordinal).Where(g => g.Skip(1).Any()).Select(g => g.Key).ToHashSet(StringComparer.Ordinal);
+        return r.Warnings.Concat(r.Findings?.Warnings ?? [])
+            .Concat(r.Runs.SelectMany(x => shared.Contains(x.Plan.File)
+                ? x.Warnings.Select(w => w.Where == x.Plan.File ? w with { Where = $"{x.Id} ({w.Where})" } : w)
+                : x.Warnings))
+            .ToList();
+    }
 
     /// <summary>A candidate integrated-law fit of one run that did not converge, and whether it was the chosen one.</summary>
     public sealed record UnconvergedFit(string Run, string Law, string Exit, bool Chosen)

@@ -42,6 +42,46 @@ public sealed class ImposedLawsSeriesTests
         Assert.Contains("<td class=\"name\">rates.laws</td>\n<td>[pseudo-first order]</td>\n<td>series.toml</td>", report);
     }
 
+    /// <summary>The teal plate demo fixes each well's end level by rates.limiting_reactant, under which the partner laws are
+    /// never fitted (docs/methods.md, "Imposed laws"): such a listed law is said once for the series, not on every well.</summary>
+    [Fact]
+    public void A_listed_law_the_settings_never_fit_is_said_once_for_the_series()
+    {
+        using var series = RepoPaths.CopyOf(RepoPaths.Sample("teal-lactonase-plate"));
+        using var outDir = new RepoPaths.TempDir();
+        var toml = Path.Combine(series.Path, "series.toml");
+        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[rates]\n", "[rates]\nlaws = [\"first order\", \"mixed second order\"]\n"));
+        var result = AnalysedSample.Analyse(series.Path, outDir.Path, plots: false);
+
+        Assert.Empty(result.Rejected);
+        var once = Assert.Single(result.Warnings, w => w.Code == "imposed-law-never-fitted");
+        Assert.Equal("series", once.Where);
+        Assert.Contains("mixed second order is fitted to no run", once.Message);
+        Assert.All(result.Runs, r => Assert.DoesNotContain(r.Warnings, w => w.Code is "imposed-law-skipped" or "imposed-laws-inapplicable"));
+        Assert.All(result.Runs.Where(r => r.Plan.Role != "blank"), r => Assert.Equal("first order", Assert.Single(r.Rates.Fits, f => !f.Law.EndsWith("drift", StringComparison.Ordinal)).Law));
+    }
+
+    [Theory]
+    [InlineData("teal-lactonase-plate", "laws = [\"mixed second order\", \"pseudo-first order\"]", "rates.limiting_reactant")]
+    [InlineData("violet-complex-acid", "laws = [\"order n\"]\ndrift = \"on\"", "rates.drift = \"on\"")]
+    public void A_list_of_only_laws_the_settings_never_fit_is_refused_at_its_key(string sample, string setting, string why)
+    {
+        using var series = RepoPaths.CopyOf(RepoPaths.Sample(sample));
+        using var outDir = new RepoPaths.TempDir();
+        var toml = Path.Combine(series.Path, "series.toml");
+        var text = File.ReadAllText(toml).Replace("\ndrift = \"auto\"", "").Replace("[rates]\n", "[rates]\n" + setting + "\n");
+        File.WriteAllText(toml, text);
+        var result = AnalysedSample.Analyse(series.Path, outDir.Path, plots: false);
+
+        Assert.Empty(result.Runs);
+        var problem = Assert.Single(result.Rejected);
+        // Located at the laws key: its line in the file written above (common practice, no source: errors name file, line, key).
+        var line = text.Split('\n').ToList().FindIndex(l => l.StartsWith("laws = ", StringComparison.Ordinal)) + 1;
+        Assert.Equal(("series.toml", line), (problem.File, problem.Line));
+        Assert.Contains("at least one law these settings fit", problem.Expected);
+        Assert.Contains(why, problem.Expected);
+    }
+
     [Fact]
     public void Without_the_setting_summary_json_has_no_imposed_laws()
     {

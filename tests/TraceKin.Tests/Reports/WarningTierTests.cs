@@ -77,6 +77,26 @@ public sealed class WarningTierTests : IDisposable
     }
 
     [Fact]
+    public void A_warning_of_one_well_of_a_plate_names_the_well_in_the_report_and_the_log()
+    {
+        var (doc, log) = Analyse("teal-lactonase-plate");
+        // Every run of this demo reads plate.csv: its runs' warnings name the well, "A1 (plate.csv)", never the file alone.
+        var wheres = doc.QuerySelectorAll("#attention li .where").Select(e => e.TextContent).ToList();
+        Assert.NotEmpty(wheres);
+        Assert.DoesNotContain("plate.csv", wheres);
+        Assert.Contains(wheres, w => Regex.IsMatch(w, @"^[A-H]\d{1,2} \(plate\.csv\)$"));
+        Assert.DoesNotContain(log, l => l.Contains("note: plate.csv: ", StringComparison.Ordinal) || l.Contains("problem: plate.csv: ", StringComparison.Ordinal));
+        Assert.Contains(log, l => Regex.IsMatch(l, @"(note|problem): [A-H]\d{1,2} \(plate\.csv\): "));
+    }
+
+    [Fact]
+    public void A_warning_of_a_run_with_its_own_file_names_the_file_alone()
+    {
+        var (_, log) = Analyse("amber-ester-warmth");
+        Assert.DoesNotContain(log, l => Regex.IsMatch(l, @"(note|problem): \S+ \(\S+\.csv\): "));
+    }
+
+    [Fact]
     public void A_problem_is_shown_loud_before_the_notes_and_logged_as_a_warning()
     {
         using var series = RepoPaths.CopyOf(RepoPaths.Sample("violet-complex-acid"));
