@@ -1,3 +1,4 @@
+using TraceKin.Analysis;
 using System.Text.Json;
 using TraceKin.Tests.Reports;
 using TraceKin.Tests.Support;
@@ -14,13 +15,10 @@ public sealed class ImposedLawsSeriesTests
     [Fact]
     public void Every_run_gets_the_imposed_law_and_the_outputs_say_it_was_imposed()
     {
-        using var series = RepoPaths.CopyOf(RepoPaths.Sample("violet-complex-acid"));
         using var outDir = new RepoPaths.TempDir();
-        var toml = Path.Combine(series.Path, "series.toml");
-        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[rates]\n", "[rates]\nlaws = [\"pseudo-first order\"]\ndrift = \"off\"\n"));
-        var result = AnalysedSample.Analyse(series.Path, outDir.Path, plots: false);
+        var (result, _) = AnalyseWith("violet-complex-acid", "laws = [\"pseudo-first order\"]\ndrift = \"off\"", outDir.Path);
 
-        using var truth = JsonDocument.Parse(File.ReadAllText(Path.Combine(series.Path, "truth.json")));
+        using var truth = JsonDocument.Parse(File.ReadAllText(Path.Combine(RepoPaths.Sample("violet-complex-acid"), "truth.json")));
         var k = truth.RootElement.GetProperty("rateConstant").GetProperty("value").GetDouble();
         Assert.Equal(8, result.Runs.Count);
         foreach (var run in result.Runs)
@@ -47,11 +45,8 @@ public sealed class ImposedLawsSeriesTests
     [Fact]
     public void A_listed_law_the_settings_never_fit_is_said_once_for_the_series()
     {
-        using var series = RepoPaths.CopyOf(RepoPaths.Sample("teal-lactonase-plate"));
         using var outDir = new RepoPaths.TempDir();
-        var toml = Path.Combine(series.Path, "series.toml");
-        File.WriteAllText(toml, File.ReadAllText(toml).Replace("[rates]\n", "[rates]\nlaws = [\"first order\", \"mixed second order\"]\n"));
-        var result = AnalysedSample.Analyse(series.Path, outDir.Path, plots: false);
+        var (result, _) = AnalyseWith("teal-lactonase-plate", "laws = [\"first order\", \"mixed second order\"]", outDir.Path);
 
         Assert.Empty(result.Rejected);
         var once = Assert.Single(result.Warnings, w => w.Code == "imposed-law-never-fitted");
@@ -66,12 +61,8 @@ public sealed class ImposedLawsSeriesTests
     [InlineData("violet-complex-acid", "laws = [\"order n\"]\ndrift = \"on\"", "rates.drift = \"on\"")]
     public void A_list_of_only_laws_the_settings_never_fit_is_refused_at_its_key(string sample, string setting, string why)
     {
-        using var series = RepoPaths.CopyOf(RepoPaths.Sample(sample));
         using var outDir = new RepoPaths.TempDir();
-        var toml = Path.Combine(series.Path, "series.toml");
-        var text = File.ReadAllText(toml).Replace("\ndrift = \"auto\"", "").Replace("[rates]\n", "[rates]\n" + setting + "\n");
-        File.WriteAllText(toml, text);
-        var result = AnalysedSample.Analyse(series.Path, outDir.Path, plots: false);
+        var (result, text) = AnalyseWith(sample, setting, outDir.Path);
 
         Assert.Empty(result.Runs);
         var problem = Assert.Single(result.Rejected);
@@ -80,6 +71,17 @@ public sealed class ImposedLawsSeriesTests
         Assert.Equal(("series.toml", line), (problem.File, problem.Line));
         Assert.Contains("at least one law these settings fit", problem.Expected);
         Assert.Contains(why, problem.Expected);
+    }
+
+    /// <summary>A demo analysed (no plots) with these lines added to its [rates] table; the series.toml text it was given.</summary>
+    private static (SeriesResult Result, string Toml) AnalyseWith(string sample, string ratesLines, string outDir)
+    {
+        using var series = RepoPaths.CopyOf(RepoPaths.Sample(sample));
+        var toml = Path.Combine(series.Path, "series.toml");
+        var text = File.ReadAllText(toml).Replace("[rates]\n", "[rates]\n" + ratesLines + "\n");
+        Assert.Contains(ratesLines, text);
+        File.WriteAllText(toml, text);
+        return (AnalysedSample.Analyse(series.Path, outDir, plots: false), text);
     }
 
     [Fact]
