@@ -146,7 +146,8 @@ public static class RateAnalysis
             warnings.Add(new Warning("imposed-laws-inapplicable", where, "rates.laws lists only " + Reasons(inapplicable) +
                 "; so no integrated law was fitted: this run has no law-based rate or k, and its initial rate comes from the local estimators"));
         // A law the settings never fit is said once for the series (SeriesRunner), not on every run.
-        else if (inapplicable.Where(x => !IntegratedLawFitter.NeverFitted(settings.Laws, settings.Drift, endKnown).Contains(x)).ToList() is { Count: > 0 } skipped)
+        else if (IntegratedLawFitter.NeverFitted(settings.Laws, settings.Drift, endKnown) is var never
+                 && inapplicable.Where(x => !never.Contains(x)).ToList() is { Count: > 0 } skipped)
             warnings.Add(new Warning("imposed-law-skipped", where, "of the laws rates.laws lists, " + Reasons(skipped) +
                 "; the others were fitted"));
         if (chosenFit is null)
@@ -176,17 +177,12 @@ public static class RateAnalysis
                 "its k is not a result{2}; with rates.method = \"auto\" the headline rate comes from the local estimators",
                 chosenFit.Law, runsP, selection.NoIntegerLawFits ? "; no listed law fits" : "")));
         }
-        else if (selection.NoIntegerLawFits && chosenFit is not null && imposed is not null)
-        {
-            var nth = selection.Fits.FirstOrDefault(f => f.Law.StartsWith("order n", StringComparison.Ordinal) && f.Drift == selection.DriftChosen && f.Fit.Converged);
-            var nText = nth is null ? "" : string.Format(ci, " (order n fit: n = {0:G3} ± {1:G2})", nth.Fit.Value("n"), nth.Fit["n"].StdError);
-            warnings.Add(new Warning("no-integer-law", where, "no integer-order law rates.laws lists fits this trace: every one shows a residual pattern or excess scatter" + nText));
-        }
         else if (selection.NoIntegerLawFits && chosenFit is not null)
         {
             var nth = selection.Fits.FirstOrDefault(f => f.Law.StartsWith("order n", StringComparison.Ordinal) && f.Drift == selection.DriftChosen && f.Fit.Converged);
             var nText = nth is null ? "" : string.Format(ci, " (order n fit: n = {0:G3} ± {1:G2})", nth.Fit.Value("n"), nth.Fit["n"].StdError);
-            warnings.Add(new Warning("no-integer-law", where, "no integer-order law fits this trace: every one shows a residual pattern or excess scatter" + nText));
+            warnings.Add(new Warning("no-integer-law", where, (imposed is null ? "no integer-order law fits this trace" : "no integer-order law rates.laws lists fits this trace")
+                + ": every one shows a residual pattern or excess scatter" + nText));
         }
 
         return new RunRates(headline, estimates, selection.Fits, warnings)
